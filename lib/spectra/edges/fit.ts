@@ -1,0 +1,170 @@
+/**
+ * Broadening-aware refinement of band edges.
+ *
+ * Near a conduction-band edge E_c the unbroadened signal is modelled as
+ *   g(V) = b + [a + c·(V − E_c) + q·(V − E_c)²]·H(V − E_c)
+ * (a floor b, a step a and a rise; H the unit step), mirrored for a valence-band edge. Convolved with the
+ * known thermal ⊗ lock-in kernel K this stays linear in (b, a, c, q):
+ *   K∗H = K₁(x),  K∗(tH) = x·K₁(x) − M₁(x),  K∗(t²H) = x²K₁ − 2xM₁ + M₂   (x = V − E_c)
+ * with K's running moments (resolution.ts). So for every trial edge the linear parameters come from a
+ * weighted least-squares solve, and the edge itself from a one-dimensional search of the residual sum of
+ * squares (variable projection): a grid scan followed by golden-section refinement. The fit is made to
+ * the raw (unsmoothed) data. Its standard error comes from the curvature of χ²(E) at the minimum
+ * (Δχ² = 1 with the noise σ from the quiet region). When the two edges lie within a few resolutions of
+ * each other both are fitted together (one floor, two onsets), alternating the two searches.
+ */
+import { type BroadeningKernel, convolvedOnset } from "../resolution";
+import { goldenMinimize, linearLeastSquares } from "../stats";
+
+export interface EdgeFitInput {
+  bias: Float64Array;
+  y: Float64Array;
+  kernel: BroadeningKernel;
+  vbGuess: number;
+  cbGuess: number;
+  /** Noise σ of the raw data. */
+  sigma: number;
+  resolution_V: number;
+  step_V: number;
+  bandWindow_V: number;
+  /** Index range that may be used, inclusive. */
+  lo: number;
+  hi: number;
+}
+
+export interface EdgeFitResult {
+  vb: number;
+  cb: number;
+  vbSigma: number;
+  cbSigma: number;
+  mode: "separate" | "joint";
+  warnings: string[];
+}
+
+type Side = "vb" | "cb";
+
+/** Basis columns for one onset at edge e over indices [i0, i1]. */
+function onsetColumns(bias: Float64Array, i0: number, i1: number, e: number, side: Side, kern: BroadeningKernel, quad: boolean): Float64Array[] {
+  const n = i1 - i0 + 1;
+  const s0 = new Float64Array(n);
+  const s1 = new Float64Array(n);
+  const s2 = quad ? new Float64Array(n) : null;
+  const o = new Float64Array(3);
+  for (let i = 0; i < n; i++) {
+    const v = bias[i0 + i];
+    const x = side === "cb" ? v - e : e - v;
+    convolvedOnset(kern, x, o);
+    s0[i] = o[0];
+    s1[i] = o[1];
+    if (s2) s2[i] = o[2];
+  }
+  return s2 ? [s0, s1, s2] : [s0, s1];
+}
+
+function rssOf(cols: Float64Array[], y: Float64Array, stepCol: number[]): number {
+  const r = linearLeastSquares(cols, y);
+  if (!r) return Infinity;
+  // A physical onset does not step down: if a step coefficient is negative, refit without it.
+  const neg = stepCol.filter((c) => r.coef[c] < 0);
+  if (neg.length === 0) return r.rss;
+  const keep = cols.filter((_, i) => !neg.includes(i));
+  const r2 = linearLeastSquares(keep, y);
+  return r2 ? r2.rss : Infinity;
+}
+
+/** Minimise f over [a, b]: grid scan with `n` points, then golden-section around the best cell. */
+function scanMinimize(f: (x: number) => number, a: number, b: number, n: number, tol: number): { x: number; fx: number; atBound: boolean } {
+  let best = a;
+  let fb = Infinity;
+  let ib = 0;
+  const dx = (b - a) / (n - 1);
+  for (let i = 0; i < n; i++) {
+    const x = a + i * dx;
+    const v = f(x);
+    if (v < fb) {
+      fb = v;
+      best = x;
+      ib = i;
+    }
+  }
+  const g = goldenMinimize(f, Math.max(a, best - dx), Math.min(b, best + dx), tol);
+  const res = g.fx <= fb ? g : { x: best, fx: fb };
+  return { ...res, atBound: ib === 0 || ib === n - 1 };
+}
+
+/** σ of the minimiser from χ² curvature: σ = √(2 / χ²''), χ² = RSS/σ². */
+function curvatureSigma(f: (x: number) => number, x: number, h: number, sigma: number): number {
+  const f0 = f(x);
+  const fp = f(x + h);
+  const fm = f(x - h);
+  const d2 = (fp - 2 * f0 + fm) / (h * h) / (sigma * sigma);
+  return d2 > 0 ? Math.sqrt(2 / d2) : NaN;
+}
+
+function indexRange(bias: Float64Array, from: number, to: number, lo: number, hi: number): [number, number] {
+  let i0 = lo;
+  while (i0 < hi && bias[i0] < from) i0++;
+  let i1 = hi;
+  while (i1 > lo && bias[i1] > to) i1--;
+  return [i0, i1];
+}
+
+export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
+  const { bias, y, kernel, vbGuess, cbGuess, sigma, resolution_V: res, step_V: step, bandWindow_V: W, lo, hi } = inp;
+  const warnings: string[] = [];
+  const tol = Math.min(step, res) / 200;
+  // Thermal tails (∝ e^(−x/k_BT)) can push the threshold edge into the gap by several k_BT; lock-in
+  // and a weak onset push it outward. Search both ways generously.
+  const kT = (kernel.T_K * 8.617333262e-5);
+  const below = 2 * res + 6 * step; // search inward of the threshold edge
+  const beyond = res + 3 * step + 8 * kT; // and outward
+  const gapThr = cbGuess - vbGuess;
+  const joint = gapThr < 4 * res + 10 * step;
+  if (!joint) {
+    const mid = (vbGuess + cbGuess) / 2;
+    const fitOne = (side: Side): { e: number; s: number } | null => {
+      const guess = side === "cb" ? cbGuess : vbGuess;
+      const from = side === "cb" ? Math.max(mid, guess - 2 * W) : guess - W;
+      const to = side === "cb" ? guess + W : Math.min(mid, guess + 2 * W);
+      const [i0, i1] = indexRange(bias, from, to, lo, hi);
+      if (i1 - i0 + 1 < 8) return null;
+      const yy = y.subarray(i0, i1 + 1);
+      const ones = new Float64Array(i1 - i0 + 1).fill(1);
+      const f = (e: number) => rssOf([ones, ...onsetColumns(bias, i0, i1, e, side, kernel, true)], yy, [1]);
+      const a = side === "cb" ? Math.max(mid, guess - below) : guess - beyond;
+      const b = side === "cb" ? guess + beyond : Math.min(mid, guess + below);
+      if (!(b > a)) return null;
+      const m = scanMinimize(f, a, b, 41, tol);
+      if (!Number.isFinite(m.fx)) return null;
+      if (m.atBound) warnings.push(`${side === "cb" ? "conduction" : "valence"}-band edge fit reached its search limit`);
+      return { e: m.x, s: curvatureSigma(f, m.x, Math.max(step / 2, res / 10), sigma) };
+    };
+    const v = fitOne("vb");
+    const c = fitOne("cb");
+    if (!v || !c) return null;
+    return { vb: v.e, cb: c.e, vbSigma: v.s, cbSigma: c.s, mode: "separate", warnings };
+  }
+  // Joint fit: one floor, two onsets.
+  const [i0, i1] = indexRange(bias, vbGuess - W, cbGuess + W, lo, hi);
+  if (i1 - i0 + 1 < 10) return null;
+  const yy = y.subarray(i0, i1 + 1);
+  const ones = new Float64Array(i1 - i0 + 1).fill(1);
+  let vb = vbGuess;
+  let cb = cbGuess;
+  let vCols = onsetColumns(bias, i0, i1, vb, "vb", kernel, false);
+  let cCols = onsetColumns(bias, i0, i1, cb, "cb", kernel, false);
+  const fV = (e: number) => (e > cb ? Infinity : rssOf([ones, ...onsetColumns(bias, i0, i1, e, "vb", kernel, false), ...cCols], yy, [1, 3]));
+  const fC = (e: number) => (e < vb ? Infinity : rssOf([ones, ...vCols, ...onsetColumns(bias, i0, i1, e, "cb", kernel, false)], yy, [1, 3]));
+  for (let round = 0; round < 3; round++) {
+    const mv = scanMinimize(fV, vbGuess - beyond, Math.min(cb, vbGuess + below), 25, tol);
+    if (Number.isFinite(mv.fx)) vb = mv.x;
+    vCols = onsetColumns(bias, i0, i1, vb, "vb", kernel, false);
+    const mc = scanMinimize(fC, Math.max(vb, cbGuess - below), cbGuess + beyond, 25, tol);
+    if (Number.isFinite(mc.fx)) cb = mc.x;
+    cCols = onsetColumns(bias, i0, i1, cb, "cb", kernel, false);
+  }
+  const h = Math.max(step / 2, res / 10);
+  const fVs = (e: number) => rssOf([ones, ...onsetColumns(bias, i0, i1, e, "vb", kernel, false), ...cCols], yy, [1, 3]);
+  const fCs = (e: number) => rssOf([ones, ...vCols, ...onsetColumns(bias, i0, i1, e, "cb", kernel, false)], yy, [1, 3]);
+  return { vb, cb, vbSigma: curvatureSigma(fVs, vb, h, sigma), cbSigma: curvatureSigma(fCs, cb, h, sigma), mode: "joint", warnings };
+}

@@ -1,0 +1,193 @@
+/**
+ * Band-edge extraction from one dI/dV spectrum ("gap pick").
+ *
+ * 1. Resolution from the metadata (resolution.ts): thermal ⊕ lock-in FWHM.
+ * 2. Smoothing (settings.smoothing; window follows the resolution by default).
+ * 3. Robust floor and σ in the quiet region (noise.ts).
+ * 4. Threshold edges: the smoothed signal leaves floor + k·σ_smoothed for N consecutive points,
+ *    interpolated (threshold.ts); the threshold-sensitivity (k ± 1) is kept for the uncertainty.
+ * 5. Log-scale cross-check (onset line in ln(dI/dV − floor) meets the noise level).
+ * 6. Broadening-aware fit of each edge to the raw data (fit.ts), recovering the unbroadened edges.
+ * 7. Uncertainty per edge: fit (or threshold-sensitivity) error ⊕ sampling step/√12 ⊕ a model term
+ *    (0.05 × resolution after the fit, 0.5 × resolution for threshold edges).
+ * A spectrum whose floor is a large fraction of its signal (metallic) or that has no edge on one side
+ * is "no-gap"; a gap below the resolution is flagged `closed` ("closed within resolution").
+ * Bias is the sample bias: positive bias probes empty states, so the conduction band is at V > 0 side.
+ */
+import { broadeningKernel, energyResolution_mV } from "../resolution";
+import { type ExtractionSettings, resolveExtractionSettings, type DeepPartial } from "../settings";
+import { smoothSpectrum } from "../smooth/apply";
+import { quantile } from "../stats";
+import { fitEdges } from "./fit";
+import { noiseFloor } from "./noise";
+import { logOnset, thresholdEdgeDown, thresholdEdgeUp } from "./threshold";
+import type { SpectrumMeta } from "../import/types";
+
+export interface GapPick {
+  status: "ok" | "no-gap";
+  vbEdge_V: number | null;
+  cbEdge_V: number | null;
+  gap_eV: number | null;
+  midgap_V: number | null;
+  uncertainty_eV: number | null;
+  vbSigma_V: number | null;
+  cbSigma_V: number | null;
+  /** Gap below the energy resolution: report as "closed within resolution". */
+  closed: boolean;
+  resolution_meV: number;
+  noiseFloor: number | null;
+  /** σ of the raw data in the quiet region. */
+  noiseSigma: number | null;
+  threshold: number | null;
+  /** "fit" (broadening-aware, separate or joint) or "threshold". */
+  method: "fit-separate" | "fit-joint" | "threshold" | "none";
+  threshold_edges: { vbEdge_V: number; cbEdge_V: number } | null;
+  logCheck: { vbEdge_V: number | null; cbEdge_V: number | null } | null;
+  smoothing: string;
+  smoothed: Float64Array;
+  warnings: string[];
+}
+
+export interface PickInput {
+  bias_V: ArrayLike<number>;
+  didv: ArrayLike<number>;
+  meta?: Partial<SpectrumMeta>;
+}
+
+function sortedCopy(bias: ArrayLike<number>, y: ArrayLike<number>): { b: Float64Array; v: Float64Array } {
+  const n = bias.length;
+  let asc = true;
+  for (let i = 1; i < n; i++) if (!(bias[i] > bias[i - 1])) { asc = false; break; }
+  if (asc) return { b: bias instanceof Float64Array ? bias : Float64Array.from(bias), v: y instanceof Float64Array ? y : Float64Array.from(y) };
+  const idx = Array.from({ length: n }, (_, i) => i).sort((a, c) => bias[a] - bias[c]);
+  return { b: Float64Array.from(idx, (i) => bias[i]), v: Float64Array.from(idx, (i) => y[i]) };
+}
+
+/**
+ * Pick the band edges of one spectrum.
+ * @param input bias (V, sample bias), dI/dV (any units), metadata (temperature_K and
+ *   lockin_modulation_mV_rms set the resolution; missing values use the settings' assumptions)
+ * @param settings extraction settings, partial allowed (defaults: DEFAULT_EXTRACTION_SETTINGS)
+ * @throws RangeError for mismatched lengths, fewer than 10 points or non-finite values
+ */
+export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSettings> | ExtractionSettings): GapPick {
+  const st = resolveExtractionSettings(settings as DeepPartial<ExtractionSettings>);
+  const n = input.bias_V.length;
+  if (n !== input.didv.length) throw new RangeError("bias and dI/dV must have the same length");
+  if (n < 10) throw new RangeError(`a spectrum needs at least 10 points, got ${n}`);
+  for (let i = 0; i < n; i++)
+    if (!Number.isFinite(input.bias_V[i]) || !Number.isFinite(input.didv[i])) throw new RangeError(`non-finite value at point ${i}`);
+  const { b: bias, v: y } = sortedCopy(input.bias_V, input.didv);
+  const warnings: string[] = [];
+  const meta = input.meta ?? {};
+  let T = meta.temperature_K;
+  if (T === undefined) {
+    T = st.assumedTemperature_K;
+    warnings.push(`no temperature in the metadata; assumed ${T} K`);
+  }
+  let vrms = meta.lockin_modulation_mV_rms;
+  if (vrms === undefined) {
+    vrms = st.assumedLockinModulation_mV_rms;
+    warnings.push(`no lock-in modulation in the metadata; assumed ${vrms} mV rms`);
+  }
+  const res_mV = energyResolution_mV(T, vrms);
+  const res_V = res_mV / 1000;
+  const step = (bias[n - 1] - bias[0]) / (n - 1);
+  const sm = smoothSpectrum(y, step, res_mV, st.smoothing);
+  const s = sm.s;
+  let lo = 0;
+  let hi = n - 1;
+  if (st.search.minBias_V !== null) while (lo < n - 1 && bias[lo] < st.search.minBias_V) lo++;
+  if (st.search.maxBias_V !== null) while (hi > 0 && bias[hi] > st.search.maxBias_V) hi--;
+  const empty = (why: string | null, extra: Partial<GapPick> = {}): GapPick => ({
+    status: "no-gap",
+    vbEdge_V: null,
+    cbEdge_V: null,
+    gap_eV: null,
+    midgap_V: null,
+    uncertainty_eV: null,
+    vbSigma_V: null,
+    cbSigma_V: null,
+    closed: false,
+    resolution_meV: res_mV,
+    noiseFloor: null,
+    noiseSigma: null,
+    threshold: null,
+    method: "none",
+    threshold_edges: null,
+    logCheck: null,
+    smoothing: sm.description,
+    smoothed: s,
+    warnings: why ? [...warnings, why] : warnings,
+    ...extra,
+  });
+  if (hi - lo + 1 < 10) return empty("fewer than 10 points inside the search range");
+  // Keep the minimum search away from the filter's end effects.
+  const margin = Math.min(3, Math.floor((hi - lo) / 4));
+  const nf = noiseFloor(y, s, sm.gain, sm.residualGain, st.threshold.k, lo + margin, hi - margin);
+  const thr = nf.floor + st.threshold.k * nf.sigmaSmoothed;
+  const base = { noiseFloor: nf.floor, noiseSigma: nf.sigma, threshold: thr };
+  const top = quantile(s.subarray(lo, hi + 1), 0.95);
+  if (!(top > nf.floor) || nf.floor > st.metallicFloorRatio * top) return empty("metallic spectrum: no quiet region near zero (no gap)", base);
+  // A run shorter than the smoothing window can be one noise excursion seen through the filter.
+  const N = Math.max(st.threshold.consecutive, sm.windowPoints);
+  const edgesAt = (k: number) => {
+    const t = nf.floor + k * nf.sigmaSmoothed;
+    return { c: thresholdEdgeUp(bias, s, nf.iMin, hi, t, N), v: thresholdEdgeDown(bias, s, nf.iMin, lo, t, N) };
+  };
+  const main = edgesAt(st.threshold.k);
+  if (!main.c || !main.v) {
+    const side = !main.c && !main.v ? "either side" : !main.c ? "the conduction-band side" : "the valence-band side";
+    return empty(`no band edge on ${side} within the bias range (no gap)`, base);
+  }
+  const kLo = edgesAt(Math.max(1, st.threshold.k - 1));
+  const kHi = edgesAt(st.threshold.k + 1);
+  const sens = (a: number | undefined, b: number | undefined, fallback: number) => (a !== undefined && b !== undefined ? Math.abs(b - a) / 2 : fallback);
+  const vbSens = sens(kLo.v?.edge, kHi.v?.edge, res_V);
+  const cbSens = sens(kLo.c?.edge, kHi.c?.edge, res_V);
+  const W = Math.max(st.fit.bandWindowPerResolution * res_V, st.fit.minBandWindow_mV / 1000, 8 * step);
+  const span = Math.max(4, Math.round(W / step));
+  const logV = logOnset(bias, s, main.v.index, -1, span, nf.floor, nf.sigmaSmoothed, lo, hi);
+  const logC = logOnset(bias, s, main.c.index, 1, span, nf.floor, nf.sigmaSmoothed, lo, hi);
+  let vb = main.v.edge;
+  let cb = main.c.edge;
+  const sampling = step / Math.sqrt(12);
+  let vbSigma = Math.hypot(vbSens, sampling, 0.5 * res_V);
+  let cbSigma = Math.hypot(cbSens, sampling, 0.5 * res_V);
+  let method: GapPick["method"] = "threshold";
+  if (st.fit.enabled) {
+    const kern = broadeningKernel(T, vrms);
+    const f = fitEdges({ bias, y, kernel: kern, vbGuess: vb, cbGuess: cb, sigma: nf.sigma, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
+    if (f && Number.isFinite(f.vb) && Number.isFinite(f.cb) && f.cb >= f.vb) {
+      vb = f.vb;
+      cb = f.cb;
+      const fs = (x: number) => (Number.isFinite(x) ? x : res_V);
+      vbSigma = Math.hypot(fs(f.vbSigma), sampling / 4, 0.05 * res_V);
+      cbSigma = Math.hypot(fs(f.cbSigma), sampling / 4, 0.05 * res_V);
+      method = f.mode === "joint" ? "fit-joint" : "fit-separate";
+      warnings.push(...f.warnings);
+    } else {
+      warnings.push("broadening-aware fit failed; threshold edges reported");
+    }
+  }
+  const gap = Math.max(0, cb - vb);
+  return {
+    status: "ok",
+    vbEdge_V: vb,
+    cbEdge_V: cb,
+    gap_eV: gap,
+    midgap_V: (vb + cb) / 2,
+    uncertainty_eV: Math.hypot(vbSigma, cbSigma),
+    vbSigma_V: vbSigma,
+    cbSigma_V: cbSigma,
+    closed: gap < res_V,
+    resolution_meV: res_mV,
+    ...base,
+    method,
+    threshold_edges: { vbEdge_V: main.v.edge, cbEdge_V: main.c.edge },
+    logCheck: { vbEdge_V: logV, cbEdge_V: logC },
+    smoothing: sm.description,
+    smoothed: s,
+    warnings,
+  };
+}

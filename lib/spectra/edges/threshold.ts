@@ -1,0 +1,56 @@
+/**
+ * Threshold edges: starting at the quiet region's minimum, walk outward until the smoothed signal stays
+ * above the threshold for `consecutive` points; the edge is the linear interpolation of the crossing
+ * between the last point below and the first point above.
+ */
+
+/** Edge on the high-bias side (conduction band), V; null when the signal never leaves the floor. */
+export function thresholdEdgeUp(bias: Float64Array, s: Float64Array, start: number, hi: number, thr: number, consecutive: number): { edge: number; index: number } | null {
+  for (let i = start + 1; i + consecutive - 1 <= hi; i++) {
+    let ok = true;
+    for (let j = 0; j < consecutive; j++) if (!(s[i + j] > thr)) { ok = false; break; }
+    if (ok) {
+      const f = (thr - s[i - 1]) / (s[i] - s[i - 1]);
+      return { edge: bias[i - 1] + Math.min(1, Math.max(0, f)) * (bias[i] - bias[i - 1]), index: i };
+    }
+  }
+  return null;
+}
+
+/** Edge on the low-bias side (valence band), V. */
+export function thresholdEdgeDown(bias: Float64Array, s: Float64Array, start: number, lo: number, thr: number, consecutive: number): { edge: number; index: number } | null {
+  for (let i = start - 1; i - consecutive + 1 >= lo; i--) {
+    let ok = true;
+    for (let j = 0; j < consecutive; j++) if (!(s[i - j] > thr)) { ok = false; break; }
+    if (ok) {
+      const f = (thr - s[i + 1]) / (s[i] - s[i + 1]);
+      return { edge: bias[i + 1] - Math.min(1, Math.max(0, f)) * (bias[i + 1] - bias[i]), index: i };
+    }
+  }
+  return null;
+}
+
+/**
+ * Log-scale onset: fit ln(s − floor) against bias over the first `span` points beyond the edge that lie
+ * above floor + σ, and return where that line meets ln σ (the noise level). Null if under 4 usable points
+ * or the line does not rise away from the gap.
+ */
+export function logOnset(bias: Float64Array, s: Float64Array, index: number, dir: 1 | -1, span: number, floor: number, sigma: number, lo: number, hi: number): number | null {
+  let sx = 0, sy = 0, sxx = 0, sxy = 0, n = 0;
+  for (let k = 0; k < span; k++) {
+    const i = index + dir * k;
+    if (i < lo || i > hi) break;
+    const d = s[i] - floor;
+    if (!(d > sigma)) continue;
+    const x = bias[i];
+    const ly = Math.log(d);
+    sx += x; sy += ly; sxx += x * x; sxy += x * ly; n++;
+  }
+  if (n < 4) return null;
+  const den = n * sxx - sx * sx;
+  if (!(Math.abs(den) > 0)) return null;
+  const beta = (n * sxy - sx * sy) / den;
+  const alpha = (sy - beta * sx) / n;
+  if (!(beta * dir > 0)) return null;
+  return (Math.log(sigma) - alpha) / beta;
+}

@@ -1,0 +1,95 @@
+/**
+ * Junction field estimate in the parallel-plate picture: E = (Φ_tip − Φ_sample) / (e·d·s), in V/nm,
+ * where d is the tunnelling distance (distance.ts) and s ≥ 1 an optional screening factor (1 = none).
+ * Assumptions (also returned with every estimate): zero-bias contact-potential field only, planar
+ * electrodes (no tip curvature), no image-potential lowering of the barrier, a one-dimensional WKB
+ * barrier of height φ̄. It is an estimate, not a measurement.
+ *
+ * Uncertainty: linear propagation of the independent uncertainties of Φ_tip, Φ_sample and d_c through
+ * both d and E (central differences). These are common to every spectrum taken with the same tip on the
+ * same sample, so they shift a whole sweep together (a scale error), not point by point.
+ */
+import { decayConstant_per_nm, tunnellingDistance } from "./distance";
+import type { FieldModel } from "./settings";
+import type { SpectrumMeta } from "./import/types";
+
+export interface FieldEstimate {
+  distance_nm: number;
+  distanceSigma_nm: number;
+  field_V_per_nm: number;
+  fieldSigma_V_per_nm: number;
+  kappa_per_nm: number;
+  barrier_eV: number;
+  assumptions: string[];
+}
+
+interface Params {
+  phiT: number;
+  phiS: number;
+  dc: number;
+}
+
+export function fieldAssumptions(model: FieldModel): string[] {
+  return [
+    "parallel-plate junction: E = (Φ_tip − Φ_sample)/(e·d); tip curvature ignored",
+    "field from the contact potential only (bias contribution not added)",
+    model.barrierHeight_eV === null
+      ? "barrier height = mean of tip and sample work functions; no image-potential lowering"
+      : `barrier height = ${model.barrierHeight_eV} eV (measured apparent barrier)`,
+    `contact distance d_c = ${model.contactDistance_nm} ± ${model.contactDistanceSigma_nm} nm (conductance G₀ at contact)`,
+    model.screening === 1 ? "no screening" : `field divided by a screening factor ${model.screening}`,
+    "an estimate from a model, not a measurement",
+  ];
+}
+
+/**
+ * Estimate the tip–sample distance and the field for one spectrum.
+ * @param model field model (work functions in eV, distances in nm)
+ * @param meta needs setpoint_bias_V and setpoint_current_A; z_offset_pm is optional
+ * @throws RangeError when the setpoint is missing or zero
+ */
+export function estimateField(
+  model: FieldModel,
+  meta: Pick<SpectrumMeta, "setpoint_bias_V" | "setpoint_current_A" | "z_offset_pm">,
+): FieldEstimate {
+  if (meta.setpoint_bias_V === undefined || meta.setpoint_current_A === undefined)
+    throw new RangeError("setpoint bias and current are needed to estimate the distance");
+  const compute = (p: Params) => {
+    const barrier = model.barrierHeight_eV ?? (p.phiT + p.phiS) / 2;
+    const d = tunnellingDistance({
+      setpointBias_V: meta.setpoint_bias_V!,
+      setpointCurrent_A: meta.setpoint_current_A!,
+      barrier_eV: barrier,
+      contactDistance_nm: p.dc,
+      zOffset_pm: meta.z_offset_pm ?? 0,
+    });
+    return { d, e: (p.phiT - p.phiS) / (d * model.screening), barrier };
+  };
+  const p0: Params = { phiT: model.tipWorkFunction_eV, phiS: model.sampleWorkFunction_eV, dc: model.contactDistance_nm };
+  const c = compute(p0);
+  if (!(c.d > 0)) throw new RangeError(`the estimated distance is not positive (${c.d.toFixed(3)} nm); check the setpoint and d_c`);
+  let vd = 0;
+  let ve = 0;
+  const parts: [keyof Params, number][] = [
+    ["phiT", model.tipWorkFunctionSigma_eV],
+    ["phiS", model.sampleWorkFunctionSigma_eV],
+    ["dc", model.contactDistanceSigma_nm],
+  ];
+  for (const [k, s] of parts) {
+    if (!(s > 0)) continue;
+    const hstep = s * 1e-3;
+    const up = compute({ ...p0, [k]: p0[k] + hstep });
+    const dn = compute({ ...p0, [k]: p0[k] - hstep });
+    vd += (((up.d - dn.d) / (2 * hstep)) * s) ** 2;
+    ve += (((up.e - dn.e) / (2 * hstep)) * s) ** 2;
+  }
+  return {
+    distance_nm: c.d,
+    distanceSigma_nm: Math.sqrt(vd),
+    field_V_per_nm: c.e,
+    fieldSigma_V_per_nm: Math.sqrt(ve),
+    kappa_per_nm: decayConstant_per_nm(c.barrier),
+    barrier_eV: c.barrier,
+    assumptions: fieldAssumptions(model),
+  };
+}

@@ -1,0 +1,165 @@
+/**
+ * Settings with their zod schemas. Every default lives here and only here: DEFAULT_EXTRACTION_SETTINGS,
+ * DEFAULT_FIELD_MODEL, DEFAULT_IMPORT_LIMITS, DEFAULT_CROSSING_OPTIONS.
+ */
+import { z } from "zod";
+import type { ImportLimits } from "./import/types";
+
+const positive = z.number().finite().positive();
+const nonNegative = z.number().finite().nonnegative();
+
+export const extractionSettingsSchema = z.object({
+  smoothing: z.object({
+    /** Filter used for the smoothed curve that the threshold reads. */
+    method: z.enum(["savitzky-golay", "gaussian", "fft", "none"]),
+    /** Savitzky–Golay window, mV; null = windowPerResolution × the spectrum's resolution. */
+    window_mV: positive.nullable(),
+    /** Savitzky–Golay polynomial order. */
+    order: z.number().int().min(0).max(6),
+    /** Gaussian σ, mV; null = resolution / 2.355 (a Gaussian of the resolution's FWHM) × windowPerResolution / 2. */
+    gaussianSigma_mV: positive.nullable(),
+    /** FFT low-pass: shortest period kept, mV; null = windowPerResolution × resolution. */
+    fftCutoff_mV: positive.nullable(),
+    /** Automatic window as a multiple of the resolution (FWHM). */
+    windowPerResolution: positive,
+    /** Fewest points in an automatic Savitzky–Golay window. */
+    minWindowPoints: z.number().int().min(3),
+  }),
+  threshold: z.object({
+    /** Edge where the smoothed signal exceeds floor + k·σ_smoothed … */
+    k: positive,
+    /** … for this many consecutive points. */
+    consecutive: z.number().int().min(1).max(50),
+  }),
+  /** Restrict the search for the gap to this bias range (V); null = whole spectrum. */
+  search: z.object({ minBias_V: z.number().finite().nullable(), maxBias_V: z.number().finite().nullable() }),
+  fit: z.object({
+    /** Refine each edge by fitting the broadened onset model (edges/fit.ts). */
+    enabled: z.boolean(),
+    /** Fit window on the band side of an edge, in resolutions (FWHM) … */
+    bandWindowPerResolution: positive,
+    /** … but at least this many mV. */
+    minBandWindow_mV: positive,
+  }),
+  /** "No gap" when the floor exceeds this fraction of the 95th-percentile signal (metallic spectrum). */
+  metallicFloorRatio: positive.max(1),
+  /** Used when a spectrum's metadata has no temperature, K. */
+  assumedTemperature_K: nonNegative,
+  /** Used when a spectrum's metadata has no lock-in modulation, mV rms. */
+  assumedLockinModulation_mV_rms: nonNegative,
+});
+export type ExtractionSettings = z.infer<typeof extractionSettingsSchema>;
+
+export const DEFAULT_EXTRACTION_SETTINGS: ExtractionSettings = Object.freeze({
+  smoothing: {
+    method: "savitzky-golay",
+    window_mV: null,
+    order: 2,
+    gaussianSigma_mV: null,
+    fftCutoff_mV: null,
+    windowPerResolution: 1.5,
+    minWindowPoints: 5,
+  },
+  threshold: { k: 3, consecutive: 3 },
+  search: { minBias_V: null, maxBias_V: null },
+  fit: { enabled: true, bandWindowPerResolution: 4, minBandWindow_mV: 30 },
+  metallicFloorRatio: 0.2,
+  assumedTemperature_K: 4.5,
+  assumedLockinModulation_mV_rms: 0,
+}) as ExtractionSettings;
+
+export const fieldModelSchema = z.object({
+  tipWorkFunction_eV: positive,
+  tipWorkFunctionSigma_eV: nonNegative,
+  sampleWorkFunction_eV: positive,
+  sampleWorkFunctionSigma_eV: nonNegative,
+  /** Distance at which the junction conducts G₀, nm. */
+  contactDistance_nm: nonNegative,
+  contactDistanceSigma_nm: nonNegative,
+  /** Measured apparent barrier height, eV; null = mean of the two work functions. */
+  barrierHeight_eV: positive.nullable(),
+  /** Field divided by this factor (1 = no screening). */
+  screening: z.number().finite().min(1),
+});
+export type FieldModel = z.infer<typeof fieldModelSchema>;
+
+/** Tungsten tip (Michaelson 1977: 4.55 eV, from memory) on a sample of 4.5 eV; σ 0.1 eV each. */
+export const DEFAULT_FIELD_MODEL: FieldModel = Object.freeze({
+  tipWorkFunction_eV: 4.55,
+  tipWorkFunctionSigma_eV: 0.1,
+  sampleWorkFunction_eV: 4.5,
+  sampleWorkFunctionSigma_eV: 0.1,
+  contactDistance_nm: 0.25,
+  contactDistanceSigma_nm: 0.05,
+  barrierHeight_eV: null,
+  screening: 1,
+}) as FieldModel;
+
+export const importLimitsSchema = z.object({
+  maxFileBytes: z.number().int().positive(),
+  maxColumns: z.number().int().min(2),
+  maxPoints: z.number().int().positive(),
+  minPoints: z.number().int().min(2),
+  maxZipEntries: z.number().int().positive(),
+  maxZipExpandedBytes: z.number().int().positive(),
+  maxZipRatio: z.number().positive(),
+});
+
+export const DEFAULT_IMPORT_LIMITS: ImportLimits = Object.freeze({
+  maxFileBytes: 64 * 1024 * 1024,
+  maxColumns: 10_001,
+  maxPoints: 100_000,
+  minPoints: 10,
+  maxZipEntries: 2_000,
+  maxZipExpandedBytes: 512 * 1024 * 1024,
+  maxZipRatio: 200,
+});
+
+export const crossingOptionsSchema = z.object({
+  /** Levels of evidence: "crossed" needs BIC(line) − BIC(V) ≥ this. */
+  minDeltaBic: positive,
+  /** Fewest points on each side of the critical field for "crossed". */
+  minPointsPerSide: z.number().int().min(1),
+  /** Slopes on both sides must differ from zero by this many standard errors. */
+  minSlopeSignificance: positive,
+  /** Relative, fully correlated field-scale uncertainty (from the field model) added to the interval. */
+  systematicFieldRelSigma: nonNegative,
+  /** Points in the drawn curve. */
+  curvePoints: z.number().int().min(2),
+});
+export type CrossingOptions = z.infer<typeof crossingOptionsSchema>;
+
+export const DEFAULT_CROSSING_OPTIONS: CrossingOptions = Object.freeze({
+  minDeltaBic: 6,
+  minPointsPerSide: 2,
+  minSlopeSignificance: 3,
+  systematicFieldRelSigma: 0,
+  curvePoints: 101,
+}) as CrossingOptions;
+
+type DeepPartial<T> = { [K in keyof T]?: T[K] extends object | null ? DeepPartial<NonNullable<T[K]>> | T[K] : T[K] };
+
+function deepMerge<T>(base: T, over: unknown): T {
+  if (over === undefined || over === null || typeof over !== "object" || Array.isArray(over)) return base;
+  const out: Record<string, unknown> = { ...(base as Record<string, unknown>) };
+  for (const [k, v] of Object.entries(over as Record<string, unknown>)) {
+    const b = out[k];
+    out[k] = b && typeof b === "object" && !Array.isArray(b) && v && typeof v === "object" ? deepMerge(b, v) : v;
+  }
+  return out as T;
+}
+
+/** Defaults overlaid with a partial input, validated (throws a ZodError on invalid values). */
+export function resolveExtractionSettings(partial?: DeepPartial<ExtractionSettings>): ExtractionSettings {
+  return extractionSettingsSchema.parse(deepMerge(DEFAULT_EXTRACTION_SETTINGS, partial));
+}
+export function resolveFieldModel(partial?: Partial<FieldModel>): FieldModel {
+  return fieldModelSchema.parse({ ...DEFAULT_FIELD_MODEL, ...partial });
+}
+export function resolveCrossingOptions(partial?: Partial<CrossingOptions>): CrossingOptions {
+  return crossingOptionsSchema.parse({ ...DEFAULT_CROSSING_OPTIONS, ...partial });
+}
+export function resolveImportLimits(partial?: Partial<ImportLimits>): ImportLimits {
+  return importLimitsSchema.parse({ ...DEFAULT_IMPORT_LIMITS, ...partial });
+}
+export type { DeepPartial };

@@ -1,0 +1,3 @@
+export { savgolFilter, savgolWeights } from "./savgol";
+export { gaussianSmooth } from "./gaussian";
+export { fftLowpass } from "./fft";

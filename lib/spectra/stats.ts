@@ -1,0 +1,155 @@
+/** Small numerical helpers shared by the analysis modules: robust statistics and linear least squares. */
+
+/** Median of the values (copy-sorted); NaN for an empty input. */
+export function median(values: ArrayLike<number>): number {
+  const n = values.length;
+  if (n === 0) return NaN;
+  const a = Float64Array.from(values as ArrayLike<number>).sort();
+  const h = n >> 1;
+  return n % 2 ? a[h] : 0.5 * (a[h - 1] + a[h]);
+}
+
+/** Linear-interpolated quantile (q in [0, 1]), the "type 7" definition used by numpy's default. */
+export function quantile(values: ArrayLike<number>, q: number): number {
+  const n = values.length;
+  if (n === 0) return NaN;
+  const a = Float64Array.from(values as ArrayLike<number>).sort();
+  const pos = q * (n - 1);
+  const lo = Math.floor(pos);
+  const hi = Math.min(n - 1, lo + 1);
+  return a[lo] + (a[hi] - a[lo]) * (pos - lo);
+}
+
+/** Scale factor from the median absolute deviation to σ for Gaussian noise: 1/Φ⁻¹(3/4). */
+export const MAD_TO_SIGMA = 1.482602218505602;
+
+/** Robust σ estimate: 1.4826 × median(|x − median(x)|). */
+export function madSigma(values: ArrayLike<number>): number {
+  const m = median(values);
+  const dev = new Float64Array(values.length);
+  for (let i = 0; i < values.length; i++) dev[i] = Math.abs(values[i] - m);
+  return MAD_TO_SIGMA * median(dev);
+}
+
+/**
+ * Solve the symmetric positive (semi-)definite system A x = b in place by Gaussian elimination with
+ * partial pivoting. `a` is row-major n×n. Returns null when the matrix is singular to working precision.
+ */
+export function solveLinear(a: Float64Array, b: Float64Array, n: number): Float64Array | null {
+  const m = Float64Array.from(a);
+  const x = Float64Array.from(b);
+  let scale = 0;
+  for (let i = 0; i < n * n; i++) scale = Math.max(scale, Math.abs(m[i]));
+  const tiny = scale * 1e-14;
+  for (let c = 0; c < n; c++) {
+    let p = c;
+    for (let r = c + 1; r < n; r++) if (Math.abs(m[r * n + c]) > Math.abs(m[p * n + c])) p = r;
+    if (!(Math.abs(m[p * n + c]) > tiny)) return null;
+    if (p !== c) {
+      for (let k = 0; k < n; k++) {
+        const t = m[c * n + k];
+        m[c * n + k] = m[p * n + k];
+        m[p * n + k] = t;
+      }
+      const t = x[c];
+      x[c] = x[p];
+      x[p] = t;
+    }
+    const d = m[c * n + c];
+    for (let r = c + 1; r < n; r++) {
+      const f = m[r * n + c] / d;
+      if (f === 0) continue;
+      for (let k = c; k < n; k++) m[r * n + k] -= f * m[c * n + k];
+      x[r] -= f * x[c];
+    }
+  }
+  for (let r = n - 1; r >= 0; r--) {
+    let s = x[r];
+    for (let k = r + 1; k < n; k++) s -= m[r * n + k] * x[k];
+    x[r] = s / m[r * n + r];
+  }
+  return x;
+}
+
+/** Invert a small symmetric matrix (row-major n×n); null when singular. */
+export function invert(a: Float64Array, n: number): Float64Array | null {
+  const out = new Float64Array(n * n);
+  for (let c = 0; c < n; c++) {
+    const e = new Float64Array(n);
+    e[c] = 1;
+    const col = solveLinear(a, e, n);
+    if (!col) return null;
+    for (let r = 0; r < n; r++) out[r * n + c] = col[r];
+  }
+  return out;
+}
+
+export interface LeastSquaresResult {
+  /** Fitted coefficients. */
+  coef: Float64Array;
+  /** Covariance of the coefficients, (XᵀWX)⁻¹ (not rescaled by the residual variance). */
+  cov: Float64Array;
+  /** Weighted residual sum of squares Σ wᵢ (yᵢ − ŷᵢ)². */
+  rss: number;
+}
+
+/**
+ * Weighted linear least squares y ≈ X·coef with weights w (1/σ² for χ²), via the normal equations.
+ * `columns` holds the p columns of X (each length n). Returns null when XᵀWX is singular.
+ */
+export function linearLeastSquares(
+  columns: ArrayLike<number>[],
+  y: ArrayLike<number>,
+  w?: ArrayLike<number>,
+): LeastSquaresResult | null {
+  const p = columns.length;
+  const n = y.length;
+  const a = new Float64Array(p * p);
+  const b = new Float64Array(p);
+  for (let i = 0; i < n; i++) {
+    const wi = w ? w[i] : 1;
+    for (let r = 0; r < p; r++) {
+      const xr = columns[r][i] * wi;
+      b[r] += xr * y[i];
+      for (let c = r; c < p; c++) a[r * p + c] += xr * columns[c][i];
+    }
+  }
+  for (let r = 0; r < p; r++) for (let c = 0; c < r; c++) a[r * p + c] = a[c * p + r];
+  const coef = solveLinear(a, b, p);
+  if (!coef) return null;
+  const cov = invert(a, p) ?? new Float64Array(p * p).fill(NaN);
+  let rss = 0;
+  for (let i = 0; i < n; i++) {
+    let f = 0;
+    for (let r = 0; r < p; r++) f += coef[r] * columns[r][i];
+    const d = y[i] - f;
+    rss += (w ? w[i] : 1) * d * d;
+  }
+  return { coef, cov, rss };
+}
+
+/** Minimise a unimodal f on [a, b] by golden-section search to absolute tolerance tol. */
+export function goldenMinimize(f: (x: number) => number, a: number, b: number, tol: number): { x: number; fx: number } {
+  const g = (Math.sqrt(5) - 1) / 2;
+  let c = b - g * (b - a);
+  let d = a + g * (b - a);
+  let fc = f(c);
+  let fd = f(d);
+  let it = 0;
+  while (Math.abs(b - a) > tol && it++ < 200) {
+    if (fc < fd) {
+      b = d;
+      d = c;
+      fd = fc;
+      c = b - g * (b - a);
+      fc = f(c);
+    } else {
+      a = c;
+      c = d;
+      fc = fd;
+      d = a + g * (b - a);
+      fd = f(d);
+    }
+  }
+  return fc < fd ? { x: c, fx: fc } : { x: d, fx: fd };
+}
