@@ -1,0 +1,24 @@
+import type { Metadata } from "next";
+import { redirect } from "next/navigation";
+import { auth } from "@/lib/auth";
+import { SignInForm } from "./sign-in-form";
+
+export const metadata: Metadata = { title: "Sign in" };
+
+export default async function SignInPage({ searchParams }: { searchParams: Promise<{ next?: string }> }) {
+  const session = await auth();
+  if (session?.user?.id) redirect("/labs");
+  const { next } = await searchParams;
+  return (
+    <div className="w-full max-w-sm">
+      <h1 className="text-2xl font-semibold tracking-tight">Sign in to Bandcross</h1>
+      <p className="mt-1 text-sm text-ink-soft">Use the e-mail address your lab owner invited.</p>
+      <div className="mt-8">
+        <SignInForm next={next} />
+      </div>
+      <p className="mt-8 text-xs text-muted">
+        No account? Bandcross is invitation-only: ask your lab owner to invite you from the lab's settings.
+      </p>
+    </div>
+  );
+}

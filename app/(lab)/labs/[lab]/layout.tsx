@@ -1,0 +1,26 @@
+import { LabNav } from "@/components/lab/lab-nav";
+import { pageCtx } from "@/lib/actions/validated";
+import { auth } from "@/lib/auth";
+import { can } from "@/lib/auth/permissions";
+import { signOutAction } from "../../../(auth)/actions";
+
+export default async function LabLayout({ children, params }: { children: React.ReactNode; params: Promise<{ lab: string }> }) {
+  const { lab } = await params;
+  const ctx = await pageCtx(lab);
+  const session = await auth();
+  const { actor } = ctx;
+  return (
+    <div className="min-h-screen lg:grid lg:grid-cols-[232px_1fr]">
+      <LabNav
+        lab={{ slug: actor.labSlug, name: actor.labName }}
+        user={{ name: actor.name, email: actor.email, role: actor.role }}
+        otherLabs={(session?.user?.labs ?? []).filter((l) => l.slug !== actor.labSlug).map((l) => ({ slug: l.slug, name: l.name }))}
+        canConfigure={can(actor.role, "members:manage")}
+        signOut={signOutAction}
+      />
+      <main id="main" className="min-w-0 px-5 py-8 sm:px-8 lg:px-10">
+        <div className="mx-auto max-w-6xl">{children}</div>
+      </main>
+    </div>
+  );
+}

@@ -1,0 +1,29 @@
+import { notFound } from "next/navigation";
+import { EntityForm } from "@/components/forms/entity-form";
+import { sampleFields } from "@/components/forms/specs";
+import { Card, PageHeader } from "@/components/ui/card";
+import { orNotFound, pageCtx } from "@/lib/actions/validated";
+import { can } from "@/lib/auth/permissions";
+import { getSample } from "@/lib/services/samples/getSample";
+import { updateSampleAction } from "../../../actions";
+
+export default async function EditSamplePage({ params }: { params: Promise<{ lab: string; sampleId: string }> }) {
+  const { lab, sampleId } = await params;
+  const ctx = await pageCtx(lab);
+  if (!can(ctx.actor.role, "sample:write")) notFound();
+  const s = await orNotFound(getSample({ ctx, input: { id: sampleId } }));
+  return (
+    <>
+      <PageHeader eyebrow={s.name} title="Edit sample" />
+      <Card>
+        <EntityForm
+          action={updateSampleAction.bind(null, lab, s.id)}
+          schema="sample"
+          submitLabel="Save changes"
+          testId="sample-form"
+          fields={sampleFields({ name: s.name, material: s.material, substrate: s.substrate ?? "", workFunction_eV: String(s.workFunctionEv), workFunctionSigma_eV: String(s.workFunctionSigmaEv), notes: s.notes ?? "" })}
+        />
+      </Card>
+    </>
+  );
+}

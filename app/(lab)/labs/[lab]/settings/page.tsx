@@ -1,0 +1,75 @@
+import type { Metadata } from "next";
+import { notFound } from "next/navigation";
+import { EntityForm } from "@/components/forms/entity-form";
+import { Card, PageHeader } from "@/components/ui/card";
+import { pageCtx } from "@/lib/actions/validated";
+import { can, ROLE_LABEL, ROLES } from "@/lib/auth/permissions";
+import { getLab } from "@/lib/services/labs/labSettings";
+import { listMembers } from "@/lib/services/members/members";
+import { listTokens } from "@/lib/services/tokens/tokens";
+import { inviteAction, updateLabDefaultsAction } from "../actions";
+import { MembersPanel, TokensPanel } from "./panels";
+
+export const metadata: Metadata = { title: "Lab settings" };
+
+export default async function SettingsPage({ params }: { params: Promise<{ lab: string }> }) {
+  const { lab } = await params;
+  const ctx = await pageCtx(lab);
+  if (!can(ctx.actor.role, "members:manage")) notFound();
+  const [labRow, members, tokens] = await Promise.all([getLab({ ctx }), listMembers({ ctx }), listTokens({ ctx })]);
+  const roleOptions = ROLES.map((r) => ({ value: r, label: ROLE_LABEL[r] }));
+  return (
+    <>
+      <PageHeader eyebrow={ctx.actor.labName} title="Lab settings" description="Members and their roles, API tokens for the acquisition PC, and the lab's default work functions." />
+      <div className="space-y-6">
+        <Card title="Members">
+          <MembersPanel
+            lab={lab}
+            selfUserId={ctx.actor.userId}
+            members={members.members.map((m) => ({ ...m, since: m.since.toISOString() }))}
+            pending={members.pending.map((p) => ({ ...p, expiresAt: p.expiresAt.toISOString(), createdAt: p.createdAt.toISOString() }))}
+          />
+          <div className="mt-6 border-t border-line pt-5">
+            <h3 className="mb-3 text-sm font-semibold">Invite someone</h3>
+            <EntityForm
+              action={inviteAction.bind(null, lab)}
+              schema="invite"
+              submitLabel="Send invitation"
+              testId="invite-form"
+              resetOnSuccess
+              onSuccessMessage="Invitation sent. The link works once and expires in 7 days."
+              fields={[
+                { name: "email", label: "E-mail", type: "email", placeholder: "name@institute.example" },
+                { name: "role", label: "Role", type: "select", options: roleOptions, defaultValue: "analyst" },
+              ]}
+            />
+          </div>
+        </Card>
+        <Card title="API tokens">
+          <TokensPanel
+            lab={lab}
+            members={members.members.map((m) => ({ userId: m.userId, name: m.name }))}
+            tokens={tokens.map((t) => ({ ...t, createdAt: t.createdAt.toISOString(), lastUsedAt: t.lastUsedAt?.toISOString() ?? null, revokedAt: t.revokedAt?.toISOString() ?? null }))}
+          />
+        </Card>
+        <Card title="Lab defaults">
+          <p className="mb-4 text-sm text-ink-soft">New tips and samples start with these work functions; each tip and sample can then set its own.</p>
+          <EntityForm
+            action={updateLabDefaultsAction.bind(null, lab)}
+            schema="labDefaults"
+            submitLabel="Save defaults"
+            testId="lab-defaults-form"
+            onSuccessMessage="Saved."
+            fields={[
+              { name: "name", label: "Lab name", defaultValue: labRow.name, wide: true },
+              { name: "defaultTipWorkFunction_eV", label: "Tip work function", unit: "eV", type: "number", defaultValue: String(labRow.defaultTipWorkFunctionEv) },
+              { name: "defaultTipWorkFunctionSigma_eV", label: "Its uncertainty (1σ)", unit: "eV", type: "number", defaultValue: String(labRow.defaultTipWorkFunctionSigmaEv) },
+              { name: "defaultSampleWorkFunction_eV", label: "Sample work function", unit: "eV", type: "number", defaultValue: String(labRow.defaultSampleWorkFunctionEv) },
+              { name: "defaultSampleWorkFunctionSigma_eV", label: "Its uncertainty (1σ)", unit: "eV", type: "number", defaultValue: String(labRow.defaultSampleWorkFunctionSigmaEv) },
+            ]}
+          />
+        </Card>
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,31 @@
+import type { Metadata } from "next";
+import { ButtonLink } from "@/components/ui/button";
+import { PageHeader } from "@/components/ui/card";
+import { pageCtx } from "@/lib/actions/validated";
+import { can } from "@/lib/auth/permissions";
+import { listTips } from "@/lib/services/tips/tips";
+import { TipsTable } from "./tips-table";
+
+export const metadata: Metadata = { title: "Tips" };
+
+export default async function TipsPage({ params }: { params: Promise<{ lab: string }> }) {
+  const { lab } = await params;
+  const ctx = await pageCtx(lab);
+  const rows = await listTips({ ctx });
+  const canWrite = can(ctx.actor.role, "tip:write");
+  return (
+    <>
+      <PageHeader
+        eyebrow={ctx.actor.labName}
+        title="Tips"
+        description="Probes and their work functions: the tip–sample work-function difference drives the junction field."
+        actions={canWrite ? <ButtonLink href={`/labs/${lab}/tips/new`}>New tip</ButtonLink> : null}
+      />
+      <TipsTable
+        lab={lab}
+        canWrite={canWrite}
+        tips={rows.map((t) => ({ id: t.id, label: t.label, material: t.material, workFunctionEv: t.workFunctionEv, workFunctionSigmaEv: t.workFunctionSigmaEv, preparedOn: t.preparedOn }))}
+      />
+    </>
+  );
+}

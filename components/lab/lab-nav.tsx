@@ -1,0 +1,104 @@
+"use client";
+
+import Link from "next/link";
+import { usePathname } from "next/navigation";
+import { useState } from "react";
+import { BrandMark } from "@/components/brand";
+import type { MemberRole } from "@/db/schema/auth";
+
+const ROLE_LABEL: Record<MemberRole, string> = { owner: "Owner", microscopist: "Microscopist", analyst: "Analyst", collaborator: "Collaborator" };
+
+export function LabNav({
+  lab,
+  user,
+  otherLabs,
+  canConfigure,
+  signOut,
+}: {
+  lab: { slug: string; name: string };
+  user: { name: string; email: string; role: MemberRole };
+  otherLabs: { slug: string; name: string }[];
+  canConfigure: boolean;
+  signOut: () => Promise<void>;
+}) {
+  const path = usePathname();
+  const [open, setOpen] = useState(false);
+  const base = `/labs/${lab.slug}`;
+  const items = [
+    { href: base, label: "Samples", exact: true },
+    { href: `${base}/sessions`, label: "Sessions" },
+    { href: `${base}/tips`, label: "Tips" },
+    ...(canConfigure ? [{ href: `${base}/settings`, label: "Lab settings" }] : []),
+  ];
+  const isActive = (href: string, exact?: boolean) => (exact ? path === href || path.startsWith(`${base}/samples`) : path.startsWith(href));
+  return (
+    <aside className="border-b border-white/10 bg-night text-white lg:sticky lg:top-0 lg:h-screen lg:border-b-0">
+      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-10 focus:rounded focus:bg-white focus:px-3 focus:py-2 focus:text-ink">
+        Skip to content
+      </a>
+      <div className="flex items-center justify-between px-5 py-4 lg:block lg:py-6">
+        <Link href={base} aria-label="Bandcross home">
+          <BrandMark inverted />
+        </Link>
+        <button type="button" className="rounded-md border border-white/20 px-3 py-1.5 text-sm lg:hidden" aria-expanded={open} aria-controls="lab-nav" onClick={() => setOpen((v) => !v)}>
+          Menu
+        </button>
+      </div>
+      <div id="lab-nav" className={`${open ? "block" : "hidden"} px-3 pb-6 lg:flex lg:h-[calc(100vh-88px)] lg:flex-col lg:justify-between`}>
+        <div>
+          <div className="mx-2 mb-5 rounded-lg bg-white/5 px-3 py-2.5">
+            <p className="text-[11px] uppercase tracking-[0.14em] text-white/50">Lab</p>
+            <p className="truncate text-sm font-medium" title={lab.name}>
+              {lab.name}
+            </p>
+            {otherLabs.length ? (
+              <details className="mt-1 text-xs text-white/70">
+                <summary className="cursor-pointer">Switch lab</summary>
+                <ul className="mt-1 space-y-1">
+                  {otherLabs.map((l) => (
+                    <li key={l.slug}>
+                      <Link className="hover:text-white" href={`/labs/${l.slug}`}>
+                        {l.name}
+                      </Link>
+                    </li>
+                  ))}
+                </ul>
+              </details>
+            ) : null}
+          </div>
+          <nav aria-label="Lab">
+            <ul className="space-y-0.5">
+              {items.map((item) => {
+                const active = isActive(item.href, item.exact);
+                return (
+                  <li key={item.href}>
+                    <Link
+                      href={item.href}
+                      aria-current={active ? "page" : undefined}
+                      className={`flex items-center gap-2 rounded-md px-3 py-2 text-sm ${active ? "bg-white/10 font-medium text-white" : "text-white/70 hover:bg-white/5 hover:text-white"}`}
+                    >
+                      <span className={`h-4 w-0.5 rounded-full ${active ? "bg-copper" : "bg-transparent"}`} aria-hidden />
+                      {item.label}
+                    </Link>
+                  </li>
+                );
+              })}
+            </ul>
+          </nav>
+        </div>
+        <div className="mx-2 mt-6 border-t border-white/10 pt-4">
+          <p className="truncate text-sm font-medium">{user.name}</p>
+          <p className="truncate text-xs text-white/60">{user.email}</p>
+          <p className="mt-1 text-xs text-white/60" data-testid="current-role">
+            {ROLE_LABEL[user.role]}
+          </p>
+          <form action={signOut} className="mt-3">
+            <button type="submit" className="text-xs text-white/70 underline-offset-2 hover:text-white hover:underline">
+              Sign out
+            </button>
+          </form>
+        </div>
+      </div>
+    </aside>
+  );
+}

@@ -1,0 +1,98 @@
+import { index, integer, pgEnum, pgTable, text, timestamp, uniqueIndex, uuid, doublePrecision } from "drizzle-orm/pg-core";
+import { createdAt, id } from "./columns";
+
+export const memberRole = pgEnum("member_role", ["owner", "microscopist", "analyst", "collaborator"]);
+export type MemberRole = (typeof memberRole.enumValues)[number];
+
+export const users = pgTable(
+  "users",
+  {
+    id: id(),
+    email: text("email").notNull(),
+    name: text("name").notNull(),
+    /** bcrypt hash; null until an invited person sets a password. */
+    passwordHash: text("password_hash"),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("users_email_unique").on(t.email)],
+);
+export type User = typeof users.$inferSelect;
+export type NewUser = typeof users.$inferInsert;
+
+export const labs = pgTable(
+  "labs",
+  {
+    id: id(),
+    slug: text("slug").notNull(),
+    name: text("name").notNull(),
+    institution: text("institution"),
+    /** Lab defaults used when a new tip or sample is created without its own value. */
+    defaultTipWorkFunctionEv: doublePrecision("default_tip_work_function_ev").notNull().default(4.5),
+    defaultTipWorkFunctionSigmaEv: doublePrecision("default_tip_work_function_sigma_ev").notNull().default(0.1),
+    defaultSampleWorkFunctionEv: doublePrecision("default_sample_work_function_ev").notNull().default(4.5),
+    defaultSampleWorkFunctionSigmaEv: doublePrecision("default_sample_work_function_sigma_ev").notNull().default(0.1),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("labs_slug_unique").on(t.slug)],
+);
+export type Lab = typeof labs.$inferSelect;
+
+export const memberships = pgTable(
+  "memberships",
+  {
+    id: id(),
+    labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
+    userId: uuid("user_id").notNull().references(() => users.id, { onDelete: "cascade" }),
+    role: memberRole("role").notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("memberships_lab_user_unique").on(t.labId, t.userId), index("memberships_user_idx").on(t.userId)],
+);
+export type Membership = typeof memberships.$inferSelect;
+
+export const invitations = pgTable(
+  "invitations",
+  {
+    id: id(),
+    labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
+    email: text("email").notNull(),
+    role: memberRole("role").notNull(),
+    /** SHA-256 of the secret in the invitation link; the secret itself is only ever in the e-mail. */
+    tokenHash: text("token_hash").notNull(),
+    invitedBy: uuid("invited_by").references(() => users.id, { onDelete: "set null" }),
+    expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+    acceptedAt: timestamp("accepted_at", { withTimezone: true }),
+    revokedAt: timestamp("revoked_at", { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("invitations_token_hash_unique").on(t.tokenHash), index("invitations_lab_idx").on(t.labId)],
+);
+export type Invitation = typeof invitations.$inferSelect;
+
+export const apiTokens = pgTable(
+  "api_tokens",
+  {
+    id: id(),
+    labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
+    /** The member the token acts as; it carries that member's role at the time of each request. */
+    userId: uuid("user_id").notNull().references(() => users.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    /** SHA-256 of the token; the token is shown once at creation and never stored. */
+    tokenHash: text("token_hash").notNull(),
+    /** First characters of the token, to recognise it in lists. */
+    prefix: text("prefix").notNull(),
+    createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
+    lastUsedAt: timestamp("last_used_at", { withTimezone: true }),
+    revokedAt: timestamp("revoked_at", { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("api_tokens_hash_unique").on(t.tokenHash), index("api_tokens_lab_idx").on(t.labId)],
+);
+export type ApiToken = typeof apiTokens.$inferSelect;
+
+/** Failed sign-in counters per key (e-mail, and client address), in fixed windows; shared by every app process. */
+export const signInThrottle = pgTable("sign_in_throttle", {
+  key: text("key").primaryKey(),
+  windowStart: timestamp("window_start", { withTimezone: true }).notNull(),
+  failures: integer("failures").notNull().default(0),
+});

@@ -1,0 +1,5 @@
+export * from "./auth";
+export * from "./lab";
+export * from "./spectra";
+export * from "./crossings";
+export * from "./audit";

@@ -1,0 +1,175 @@
+import {
+  bigint,
+  boolean,
+  doublePrecision,
+  index,
+  integer,
+  jsonb,
+  pgEnum,
+  pgTable,
+  text,
+  uniqueIndex,
+  uuid,
+} from "drizzle-orm/pg-core";
+import { labs, users } from "./auth";
+import { createdAt, float64Array, id, updatedAt } from "./columns";
+import { measurementSessions, samples, tips } from "./lab";
+
+export const uploadStatus = pgEnum("upload_status", ["pending", "queued", "processing", "done", "failed"]);
+export type UploadStatus = (typeof uploadStatus.enumValues)[number];
+
+/** A raw file as uploaded. Its bytes live in object storage under `storage_key` and are never deleted by processing. */
+export const uploads = pgTable(
+  "uploads",
+  {
+    id: id(),
+    labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
+    sessionId: uuid("session_id").notNull().references(() => measurementSessions.id, { onDelete: "restrict" }),
+    fileName: text("file_name").notNull(),
+    sizeBytes: bigint("size_bytes", { mode: "number" }).notNull(),
+    sha256: text("sha256").notNull(),
+    storageKey: text("storage_key").notNull(),
+    status: uploadStatus("status").notNull().default("pending"),
+    message: text("message"),
+    spectraCount: integer("spectra_count").notNull().default(0),
+    warnings: jsonb("warnings").$type<string[]>().notNull().default([]),
+    attempts: integer("attempts").notNull().default(0),
+    createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [uniqueIndex("uploads_lab_sha256_unique").on(t.labId, t.sha256), index("uploads_session_idx").on(t.sessionId)],
+);
+export type Upload = typeof uploads.$inferSelect;
+
+/** Versioned extraction settings of a sample: every pick names the version that made it. */
+export const extractionSettingsVersions = pgTable(
+  "extraction_settings_versions",
+  {
+    id: id(),
+    labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
+    sampleId: uuid("sample_id").notNull().references(() => samples.id, { onDelete: "cascade" }),
+    version: integer("version").notNull(),
+    settings: jsonb("settings").$type<Record<string, unknown>>().notNull(),
+    note: text("note"),
+    createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("extraction_settings_sample_version_unique").on(t.sampleId, t.version)],
+);
+export type ExtractionSettingsVersion = typeof extractionSettingsVersions.$inferSelect;
+
+/** Versioned field model of a sample (contact distance, decay-constant source, screening; work functions from tip and sample). */
+export const fieldModelVersions = pgTable(
+  "field_model_versions",
+  {
+    id: id(),
+    labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
+    sampleId: uuid("sample_id").notNull().references(() => samples.id, { onDelete: "cascade" }),
+    version: integer("version").notNull(),
+    model: jsonb("model").$type<Record<string, unknown>>().notNull(),
+    note: text("note"),
+    createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("field_model_sample_version_unique").on(t.sampleId, t.version)],
+);
+export type FieldModelVersion = typeof fieldModelVersions.$inferSelect;
+
+/** One dI/dV curve: parsed arrays and metadata, with the distance and field estimated for it. */
+export const spectra = pgTable(
+  "spectra",
+  {
+    id: id(),
+    labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
+    uploadId: uuid("upload_id").notNull().references(() => uploads.id, { onDelete: "restrict" }),
+    sessionId: uuid("session_id").notNull().references(() => measurementSessions.id, { onDelete: "restrict" }),
+    sampleId: uuid("sample_id").notNull().references(() => samples.id, { onDelete: "restrict" }),
+    tipId: uuid("tip_id").references(() => tips.id, { onDelete: "set null" }),
+    /** File name, or "archive.zip/entry.csv" for a zip entry. */
+    sourceName: text("source_name").notNull(),
+    indexInFile: integer("index_in_file").notNull(),
+    label: text("label").notNull(),
+    rawSha256: text("raw_sha256").notNull(),
+    nPoints: integer("n_points").notNull(),
+    biasV: float64Array("bias_v").notNull(),
+    didv: float64Array("didv").notNull(),
+    currentA: float64Array("current_a"),
+    setpointBiasV: doublePrecision("setpoint_bias_v"),
+    setpointCurrentA: doublePrecision("setpoint_current_a"),
+    zOffsetPm: doublePrecision("z_offset_pm"),
+    lockinModulationMvRms: doublePrecision("lockin_modulation_mv_rms"),
+    temperatureK: doublePrecision("temperature_k"),
+    xNm: doublePrecision("x_nm"),
+    yNm: doublePrecision("y_nm"),
+    region: text("region"),
+    meta: jsonb("meta").$type<Record<string, string>>().notNull().default({}),
+    warnings: jsonb("warnings").$type<string[]>().notNull().default([]),
+    distanceNm: doublePrecision("distance_nm"),
+    distanceSigmaNm: doublePrecision("distance_sigma_nm"),
+    fieldVPerNm: doublePrecision("field_v_per_nm"),
+    fieldSigmaVPerNm: doublePrecision("field_sigma_v_per_nm"),
+    fieldModelVersionId: uuid("field_model_version_id").references(() => fieldModelVersions.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    index("spectra_sample_idx").on(t.sampleId),
+    index("spectra_session_idx").on(t.sessionId),
+    index("spectra_upload_idx").on(t.uploadId),
+    uniqueIndex("spectra_upload_index_unique").on(t.uploadId, t.sourceName, t.indexInFile),
+  ],
+);
+export type Spectrum = typeof spectra.$inferSelect;
+
+export const pickSource = pgEnum("pick_source", ["auto", "corrected"]);
+
+/** The band edges of one spectrum. Corrections keep the automatic pick (`auto_pick`) and write `pick_history`. */
+export const gapPicks = pgTable(
+  "gap_picks",
+  {
+    id: id(),
+    labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
+    spectrumId: uuid("spectrum_id").notNull().references(() => spectra.id, { onDelete: "cascade" }),
+    source: pickSource("source").notNull().default("auto"),
+    /** "ok" (a gap) or "no-gap" (metallic). */
+    status: text("status").notNull(),
+    vbEdgeV: doublePrecision("vb_edge_v"),
+    cbEdgeV: doublePrecision("cb_edge_v"),
+    gapEv: doublePrecision("gap_ev"),
+    midgapV: doublePrecision("midgap_v"),
+    uncertaintyEv: doublePrecision("uncertainty_ev"),
+    closed: boolean("closed").notNull().default(false),
+    resolutionMev: doublePrecision("resolution_mev"),
+    method: text("method").notNull(),
+    settingsVersionId: uuid("settings_version_id").references(() => extractionSettingsVersions.id, { onDelete: "set null" }),
+    /** The automatic pick as computed, kept when an analyst corrects it. */
+    autoPick: jsonb("auto_pick").$type<Record<string, unknown>>().notNull(),
+    excluded: boolean("excluded").notNull().default(false),
+    excludedReason: text("excluded_reason"),
+    /** Optimistic-concurrency version, raised by every change. */
+    version: integer("version").notNull().default(1),
+    updatedBy: uuid("updated_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [uniqueIndex("gap_picks_spectrum_unique").on(t.spectrumId)],
+);
+export type GapPickRow = typeof gapPicks.$inferSelect;
+
+export const pickHistory = pgTable(
+  "pick_history",
+  {
+    id: id(),
+    labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
+    pickId: uuid("pick_id").notNull().references(() => gapPicks.id, { onDelete: "cascade" }),
+    actorId: uuid("actor_id").references(() => users.id, { onDelete: "set null" }),
+    /** correct | exclude | include | undo | reset */
+    action: text("action").notNull(),
+    before: jsonb("before").$type<Record<string, unknown>>().notNull(),
+    after: jsonb("after").$type<Record<string, unknown>>().notNull(),
+    reason: text("reason"),
+    createdAt: createdAt(),
+  },
+  (t) => [index("pick_history_pick_idx").on(t.pickId)],
+);

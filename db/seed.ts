@@ -1,0 +1,71 @@
+/**
+ * Seeds the demo lab once (slug "demo"): an invented group, its people (one per role), samples,
+ * tips and sessions. Running it again changes nothing. The passwords are listed in README.md.
+ */
+import { eq } from "drizzle-orm";
+import { drizzle } from "drizzle-orm/node-postgres";
+import { Pool } from "pg";
+import bcrypt from "bcryptjs";
+import * as schema from "./schema";
+import { labs, measurementSessions, memberships, samples, tips, users, type MemberRole } from "./schema";
+
+export const DEMO_LAB = { slug: "demo", name: "Halvorsen Surface Physics Group", institution: "Lindqvist Institute (invented)" };
+
+export const DEMO_PEOPLE: { name: string; email: string; password: string; role: MemberRole }[] = [
+  { name: "Ingrid Halvorsen", email: "ingrid@halvorsen-lab.example", password: "demo-owner-2026", role: "owner" },
+  { name: "Kwame Asante", email: "kwame@halvorsen-lab.example", password: "demo-microscopist-2026", role: "microscopist" },
+  { name: "Yuki Tanaka", email: "yuki@halvorsen-lab.example", password: "demo-analyst-2026", role: "analyst" },
+  { name: "Pablo Ferreira", email: "pablo@ferreira-theory.example", password: "demo-collaborator-2026", role: "collaborator" },
+];
+
+export async function seedDemo(db: ReturnType<typeof drizzle<typeof schema>>) {
+  const [existing] = await db.select().from(labs).where(eq(labs.slug, DEMO_LAB.slug));
+  if (existing) return { created: false };
+  await db.transaction(async (tx) => {
+    const [lab] = await tx
+      .insert(labs)
+      .values({ ...DEMO_LAB, defaultTipWorkFunctionEv: 4.7, defaultTipWorkFunctionSigmaEv: 0.1, defaultSampleWorkFunctionEv: 3.9, defaultSampleWorkFunctionSigmaEv: 0.1 })
+      .returning();
+    const people: Record<string, string> = {};
+    for (const p of DEMO_PEOPLE) {
+      const [u] = await tx
+        .insert(users)
+        .values({ name: p.name, email: p.email, passwordHash: await bcrypt.hash(p.password, 11) })
+        .onConflictDoUpdate({ target: users.email, set: { name: p.name } })
+        .returning();
+      people[p.role] = u.id;
+      await tx.insert(memberships).values({ labId: lab.id, userId: u.id, role: p.role }).onConflictDoNothing();
+    }
+    const [tipW] = await tx
+      .insert(tips)
+      .values({ labId: lab.id, label: "W-17", material: "W (electrochemically etched)", workFunctionEv: 4.7, workFunctionSigmaEv: 0.1, preparedOn: "2026-11-18", notes: "Field-emitted on Au(111) before use.", createdBy: people.microscopist })
+      .returning();
+    await tx.insert(tips).values({ labId: lab.id, label: "PtIr-04", material: "Pt0.9Ir0.1 (cut)", workFunctionEv: 5.4, workFunctionSigmaEv: 0.15, preparedOn: "2026-10-02", createdBy: people.microscopist });
+    const [film] = await tx
+      .insert(samples)
+      .values({ labId: lab.id, name: "GX-12 bilayer", material: "germanene (bilayer)", substrate: "MoS2 flake", workFunctionEv: 3.9, workFunctionSigmaEv: 0.1, notes: "Grown 2026-11-12, transferred in UHV suitcase.", createdBy: people.owner })
+      .returning();
+    await tx.insert(samples).values({ labId: lab.id, name: "SN-03 monolayer", material: "stanene (monolayer)", substrate: "Bi2Te3(111)", workFunctionEv: 4.3, workFunctionSigmaEv: 0.15, createdBy: people.owner });
+    await tx.insert(measurementSessions).values({ labId: lab.id, sampleId: film.id, tipId: tipW.id, label: "GX-12 approach series A", date: "2026-11-20", instrument: "LT-STM bay 2", temperatureK: 4.6, operatorId: people.microscopist, createdBy: people.microscopist });
+  });
+  return { created: true };
+}
+
+async function main() {
+  const url = process.env.DATABASE_URL;
+  if (!url) throw new Error("DATABASE_URL is not set");
+  const pool = new Pool({ connectionString: url, max: 2 });
+  try {
+    const result = await seedDemo(drizzle(pool, { schema }));
+    console.log(result.created ? "seed: demo lab created (slug demo)" : "seed: demo lab already present, nothing changed");
+  } finally {
+    await pool.end();
+  }
+}
+
+if (import.meta.url === `file://${process.argv[1]}`) {
+  main().catch((err) => {
+    console.error(`seed: ${err instanceof Error ? err.message : String(err)}`);
+    process.exit(1);
+  });
+}

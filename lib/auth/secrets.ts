@@ -1,0 +1,34 @@
+import { createHash, createHmac, randomBytes, timingSafeEqual } from "node:crypto";
+
+/** SHA-256 hex of a secret; what the database stores for API tokens and invitation links. */
+export function sha256Hex(value: string | Uint8Array): string {
+  return createHash("sha256").update(value).digest("hex");
+}
+
+/** A URL-safe random secret with a readable prefix, e.g. `bxt_…` for API tokens. */
+export function newSecret(prefix: string, bytes = 32): string {
+  return `${prefix}_${randomBytes(bytes).toString("base64url")}`;
+}
+
+/**
+ * A signed, single-purpose token (e.g. an unsubscribe link that works without signing in):
+ * `purpose.payload.signature`, HMAC-SHA-256 over purpose and payload with TOKEN_SECRET.
+ */
+export function signToken(secret: string, purpose: string, payload: Record<string, string>): string {
+  const body = Buffer.from(JSON.stringify(payload)).toString("base64url");
+  const sig = createHmac("sha256", secret).update(`${purpose}.${body}`).digest("base64url");
+  return `${body}.${sig}`;
+}
+
+export function verifyToken(secret: string, purpose: string, token: string): Record<string, string> | null {
+  const [body, sig] = token.split(".");
+  if (!body || !sig) return null;
+  const expected = createHmac("sha256", secret).update(`${purpose}.${body}`).digest();
+  const given = Buffer.from(sig, "base64url");
+  if (given.length !== expected.length || !timingSafeEqual(given, expected)) return null;
+  try {
+    return JSON.parse(Buffer.from(body, "base64url").toString("utf8"));
+  } catch {
+    return null;
+  }
+}

@@ -1,0 +1,16 @@
+/** Display helpers shared by pages and e-mails. Numbers keep their units in the text. */
+export function formatGap(gapEv: number | null | undefined, closed?: boolean | null): string {
+  if (closed) return "closed";
+  if (gapEv == null || !Number.isFinite(gapEv)) return "—";
+  return `${(gapEv * 1000).toFixed(0)} meV`;
+}
+
+export function formatField(v: number | null | undefined, sigma?: number | null): string {
+  if (v == null || !Number.isFinite(v)) return "—";
+  return sigma != null && Number.isFinite(sigma) ? `${v.toFixed(2)} ± ${sigma.toFixed(2)} V/nm` : `${v.toFixed(2)} V/nm`;
+}
+
+export function formatInterval(ci: [number, number] | null | undefined): string {
+  if (!ci) return "—";
+  return `[${ci[0].toFixed(2)}, ${ci[1].toFixed(2)}] V/nm`;
+}

@@ -1,0 +1,113 @@
+import { z } from "zod";
+
+/**
+ * Inputs for samples, tips, sessions and members: one schema each, used by the browser forms, the
+ * server actions and the HTTP API alike. Numbers use `z.coerce` because forms send strings.
+ * Work-function bounds: every elemental metal and common 2D film lies within 2–7 eV
+ * (CRC Handbook, 2008, work functions of the elements); an uncertainty above 1 eV is a typo.
+ */
+const optionalText = (max: number) =>
+  z
+    .string()
+    .trim()
+    .max(max, `At most ${max} characters.`)
+    .optional()
+    .transform((v) => (v ? v : undefined));
+
+const workFunction = z.coerce
+  .number({ error: "Enter a number in eV." })
+  .min(2, "A work function below 2 eV is not physical for a tip or film.")
+  .max(7, "A work function above 7 eV is not physical for a tip or film.");
+const workFunctionSigma = z.coerce
+  .number({ error: "Enter a number in eV." })
+  .min(0, "An uncertainty cannot be negative.")
+  .max(1, "An uncertainty above 1 eV is almost certainly a typo.");
+
+const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use the form YYYY-MM-DD.");
+
+export const sampleInput = z.object({
+  name: z.string().trim().min(1, "Give the sample a name.").max(120, "At most 120 characters."),
+  material: z.string().trim().min(1, "Name the material, e.g. germanene.").max(120, "At most 120 characters."),
+  substrate: optionalText(120),
+  workFunction_eV: workFunction,
+  workFunctionSigma_eV: workFunctionSigma,
+  notes: optionalText(4000),
+});
+export type SampleInput = z.infer<typeof sampleInput>;
+export const samplePatch = sampleInput.partial();
+
+export const tipInput = z.object({
+  label: z.string().trim().min(1, "Give the tip a label.").max(80, "At most 80 characters."),
+  material: z.string().trim().min(1, "Name the tip material, e.g. W or PtIr.").max(80, "At most 80 characters."),
+  workFunction_eV: workFunction,
+  workFunctionSigma_eV: workFunctionSigma,
+  preparedOn: isoDate.optional().or(z.literal("").transform(() => undefined)),
+  notes: optionalText(4000),
+});
+export type TipInput = z.infer<typeof tipInput>;
+
+export const sessionInput = z.object({
+  sampleId: z.string().uuid("Choose a sample."),
+  tipId: z
+    .string()
+    .uuid("Choose a tip.")
+    .optional()
+    .or(z.literal("").transform(() => undefined)),
+  label: z.string().trim().min(1, "Give the session a label.").max(120, "At most 120 characters."),
+  date: isoDate,
+  instrument: optionalText(120),
+  temperature_K: z.coerce
+    .number({ error: "Enter a temperature in kelvin." })
+    .positive("Temperature is in kelvin and must be above zero.")
+    .max(400, "Above 400 K is outside what this instrument model covers.")
+    .optional(),
+  notes: optionalText(4000),
+});
+export type SessionInput = z.infer<typeof sessionInput>;
+
+export const memberRoleSchema = z.enum(["owner", "microscopist", "analyst", "collaborator"], {
+  error: "Choose one of owner, microscopist, analyst or collaborator.",
+});
+
+export const inviteInput = z.object({
+  email: z.string().trim().toLowerCase().email("Enter an e-mail address."),
+  role: memberRoleSchema,
+});
+
+export const labDefaultsInput = z.object({
+  name: z.string().trim().min(1, "Give the lab a name.").max(120),
+  defaultTipWorkFunction_eV: workFunction,
+  defaultTipWorkFunctionSigma_eV: workFunctionSigma,
+  defaultSampleWorkFunction_eV: workFunction,
+  defaultSampleWorkFunctionSigma_eV: workFunctionSigma,
+});
+
+export const tokenInput = z.object({
+  name: z.string().trim().min(1, "Name the token, e.g. 'acquisition PC'.").max(80),
+  userId: z
+    .string()
+    .uuid()
+    .optional()
+    .or(z.literal("").transform(() => undefined)),
+});
+
+export const passwordSchema = z
+  .string()
+  .min(10, "Use at least 10 characters.")
+  .max(200, "At most 200 characters.");
+
+export const acceptInviteInput = z.object({
+  token: z.string().min(20),
+  name: z.string().trim().min(1, "Tell us your name.").max(120),
+  password: passwordSchema,
+});
+
+/** Turn a zod error into `{ field: [messages] }` for forms and 422 bodies. */
+export function fieldErrorsOf(error: z.ZodError): Record<string, string[]> {
+  const out: Record<string, string[]> = {};
+  for (const issue of error.issues) {
+    const key = issue.path.join(".") || "_form";
+    (out[key] ??= []).push(issue.message);
+  }
+  return out;
+}

@@ -1,0 +1,21 @@
+import "server-only";
+import { and, eq, exists, inArray, type SQL } from "drizzle-orm";
+import { sampleAccess, samples } from "@/db/schema";
+import type { Ctx } from "../context";
+
+/**
+ * Which samples the actor may see. Members see all of their lab's samples; a collaborator with
+ * chosen samples (rows in sample_access) sees only those.
+ */
+export async function sampleVisibility(ctx: Ctx): Promise<SQL> {
+  const inLab = eq(samples.labId, ctx.actor.labId);
+  if (ctx.actor.role !== "collaborator") return inLab;
+  const granted = await ctx.db
+    .select({ sampleId: sampleAccess.sampleId })
+    .from(sampleAccess)
+    .where(and(eq(sampleAccess.labId, ctx.actor.labId), eq(sampleAccess.userId, ctx.actor.userId)));
+  if (granted.length === 0) return inLab;
+  return and(inLab, inArray(samples.id, granted.map((g) => g.sampleId)))!;
+}
+
+export { exists };
