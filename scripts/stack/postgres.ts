@@ -120,7 +120,7 @@ function tail(file: string, lines = 30): string {
  * a folder the `postgres` user cannot enter (e.g. a clone under /root), the cluster is placed under
  * /var/lib/bandcross/<hash> and <data>/pg becomes a symlink to it.
  */
-function layout(dataDir: string, user: string | null): { pgdata: string; socketDir: string } {
+function layout(dataDir: string, user: string | null): { pgdata: string; socketDir: string; home: string } {
   const link = path.join(dataDir, "pg");
   let pgdata = link;
   try {
@@ -135,15 +135,17 @@ function layout(dataDir: string, user: string | null): { pgdata: string; socketD
     if (!canAccess(user, link)) {
       fs.rmdirSync(link);
       const alt = path.join("/var/lib/bandcross", createHash("sha1").update(path.resolve(dataDir)).digest("hex").slice(0, 12));
+      // <data> was deleted (a reset): an old cluster there belongs to the old secrets, so it goes too.
+      fs.rmSync(alt, { recursive: true, force: true });
       fs.mkdirSync(path.join(alt, "pg"), { recursive: true, mode: 0o700 });
       fs.chmodSync("/var/lib/bandcross", 0o755);
       fs.chmodSync(alt, 0o755);
       chownTo(user, path.join(alt, "pg"));
       fs.symlinkSync(path.join(alt, "pg"), link);
-      return { pgdata: path.join(alt, "pg"), socketDir: socketDirFor(alt) };
+      return { pgdata: path.join(alt, "pg"), socketDir: socketDirFor(alt), home: alt };
     }
   }
-  return { pgdata, socketDir: socketDirFor(home) };
+  return { pgdata, socketDir: socketDirFor(home), home };
 }
 
 function socketDirFor(home: string): string {
@@ -183,13 +185,18 @@ export async function ensurePostgres(o: PgOptions): Promise<PgCluster> {
   if (!binDir) throw new Error("PostgreSQL binaries not found under /usr/lib/postgresql/*/bin (apt-get install -y postgresql)");
   fs.mkdirSync(o.dataDir, { recursive: true });
   const user = serverUser(path.join(o.dataDir, "pg"));
-  const { pgdata, socketDir } = layout(o.dataDir, user);
-  const logDir = path.join(o.dataDir, "logs");
-  const logFile = path.join(logDir, "postgres.log");
-  fs.mkdirSync(logDir, { recursive: true });
+  const { pgdata, socketDir, home } = layout(o.dataDir, user);
+  // The server writes its own log, so it lives next to the cluster (normally <data>/logs/postgres.log).
+  const logFile = path.join(home, "logs", "postgres.log");
+  fs.mkdirSync(path.dirname(logFile), { recursive: true });
   fs.mkdirSync(socketDir, { recursive: true, mode: 0o755 });
   if (!fs.existsSync(logFile)) fs.writeFileSync(logFile, "");
   chownTo(user, socketDir, logFile);
+  const visibleLog = path.join(o.dataDir, "logs", "postgres.log");
+  if (visibleLog !== logFile && !fs.existsSync(visibleLog)) {
+    fs.mkdirSync(path.dirname(visibleLog), { recursive: true });
+    fs.symlinkSync(logFile, visibleLog);
+  }
 
   // 1. initdb once
   if (!fs.existsSync(path.join(pgdata, "PG_VERSION"))) {
