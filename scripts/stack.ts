@@ -88,7 +88,24 @@ function isOurs(pid: number): boolean {
   return cwd === ROOT || cmdline(pid).includes(ROOT);
 }
 
+/** `npm start` and `npm test` share the .next build folder: say so when the other one is running here. */
+function warnIfOtherModeRunning() {
+  const other = path.join(ROOT, mode === "start" ? ".test-data" : ".data", "stack.json");
+  try {
+    const pid = JSON.parse(fs.readFileSync(other, "utf8")).supervisorPid as number;
+    if (pid && isAlive(pid) && /stack\.ts/.test(cmdline(pid))) {
+      say(
+        `note: \`npm ${mode === "start" ? "test" : "start"}\` is running from this folder (pid ${pid}); both use .next, ` +
+          `so ${mode === "test" ? "restart npm start after the tests" : "its build may be replaced"}`,
+      );
+    }
+  } catch {
+    // not running
+  }
+}
+
 async function reclaim(): Promise<void> {
+  warnIfOtherModeRunning();
   const state = readState();
   const sup = state?.supervisorPid;
   if (sup && sup !== process.pid && isAlive(sup) && /stack\.ts/.test(cmdline(sup))) {
@@ -190,6 +207,11 @@ async function httpReady(url: string): Promise<boolean> {
 }
 
 const exists = (p: string) => fs.existsSync(path.join(ROOT, p));
+
+/** After a signal, the shutdown path owns the exit: the interrupted flow just stops here. */
+async function checkpoint(): Promise<void> {
+  if (shuttingDown) await new Promise(() => {});
+}
 
 // ---------------------------------------------------------------------------------------------------
 
@@ -330,9 +352,12 @@ async function startMode() {
     const childEnv = { ...process.env, ...env };
     await oneShot("migrate", "scripts/migrate.ts", childEnv);
     await oneShot("seed", "db/seed.ts", childEnv);
-    if (!(await build(childEnv))) return shutdown(1);
+    const built = await build(childEnv);
+    await checkpoint();
+    if (!built) return shutdown(1);
     await serve(childEnv);
   } catch (e) {
+    await checkpoint();
     console.error(`bandcross start: ${(e as Error).message ?? e}`);
     return shutdown(1);
   }
@@ -407,10 +432,12 @@ async function testMode() {
     if (process.env.BANDCROSS_TEST_SEED === "1") await oneShot("seed", "db/seed.ts", { ...process.env, ...env });
     steps.push({ name: "setup", ok: true });
   } catch (e) {
+    await checkpoint();
     console.error(`bandcross test: setup failed: ${(e as Error).message ?? e}`);
     steps.push({ name: "setup", ok: false });
     setupOk = false;
   }
+  await checkpoint();
   console.log(`bandcross test: stack ready (${secs()})`);
 
   const record = (project: string, r: { code: number; counts: Counts | null }) => {
@@ -426,10 +453,12 @@ async function testMode() {
       continue;
     }
     record(project, await runVitest(project, testEnv(), extra));
+    await checkpoint();
   }
 
   if (setupOk) {
     const built = await build(testEnv());
+    await checkpoint();
     steps.push({ name: "build", ok: built });
     let served = false;
     if (built) {
@@ -441,7 +470,9 @@ async function testMode() {
         steps.push({ name: "serve", ok: false });
       }
     }
+    await checkpoint();
     if (served) record("e2e", await runVitest("e2e", testEnv(), extra));
+    await checkpoint();
     else steps.push({ name: "e2e", ok: false, note: "not run" });
   } else {
     steps.push({ name: "e2e", ok: false, note: "not run: setup failed" });
