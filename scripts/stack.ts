@@ -466,14 +466,15 @@ async function testMode() {
         await serve(testEnv());
         served = true;
       } catch (e) {
+        await checkpoint();
         console.error(`bandcross test: ${(e as Error).message ?? e}`);
         steps.push({ name: "serve", ok: false });
       }
     }
     await checkpoint();
     if (served) record("e2e", await runVitest("e2e", testEnv(), extra));
-    await checkpoint();
     else steps.push({ name: "e2e", ok: false, note: "not run" });
+    await checkpoint();
   } else {
     steps.push({ name: "e2e", ok: false, note: "not run: setup failed" });
   }
