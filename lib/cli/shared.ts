@@ -1,0 +1,196 @@
+/** Pieces shared by the analysis subcommands: reading files, picking gaps, option parsing, tables. */
+import { readFileSync, readdirSync, statSync } from "node:fs";
+import { basename, join } from "node:path";
+import { parseArgs, type ParseArgsConfig } from "node:util";
+import {
+  DEFAULT_IMPORT_LIMITS,
+  extractionSettingsSchema,
+  importSpectra,
+  pickGap,
+  resolveExtractionSettings,
+  type ExtractionSettings,
+  type GapPick,
+  type ParsedSpectrum,
+} from "../spectra";
+import { CliUsageError } from "./io";
+
+export interface GapJson {
+  vbEdge_V: number | null;
+  cbEdge_V: number | null;
+  gap_eV: number | null;
+  midgap_V: number | null;
+  uncertainty_eV: number | null;
+  closed: boolean;
+  vbSigma_V: number | null;
+  cbSigma_V: number | null;
+  resolution_meV: number;
+  method: string;
+}
+
+export interface Entry {
+  file: string;
+  index: number | null;
+  label: string | null;
+  status: "ok" | "no-gap" | "error";
+  message: string | null;
+  warnings: string[];
+  gap: GapJson | null;
+}
+
+export interface Analysed {
+  entry: Entry;
+  spectrum: ParsedSpectrum | null;
+  pick: GapPick | null;
+}
+
+export function parse(argv: string[], options: ParseArgsConfig["options"]) {
+  try {
+    return parseArgs({ args: argv, options, allowPositionals: true, strict: true });
+  } catch (e) {
+    throw new CliUsageError((e as Error).message.replace(/^TypeError \[[A-Z_]+\]: /, ""));
+  }
+}
+
+export function numberOption(v: unknown, name: string): number | undefined {
+  if (v === undefined) return undefined;
+  const x = Number(String(v).replace(",", "."));
+  if (!Number.isFinite(x)) throw new CliUsageError(`--${name} needs a number, got "${String(v)}"`);
+  return x;
+}
+
+export function loadSettings(path: string | undefined, overrides: Record<string, unknown>): ExtractionSettings {
+  let base: unknown = {};
+  if (path) {
+    let text: string;
+    try {
+      text = readFileSync(path, "utf8");
+    } catch {
+      throw new CliUsageError(`cannot read the settings file "${path}"`);
+    }
+    try {
+      base = JSON.parse(text);
+    } catch (e) {
+      throw new CliUsageError(`settings file "${path}" is not valid JSON (${(e as Error).message})`);
+    }
+  }
+  const merged = { ...(base as object), ...overrides };
+  try {
+    return resolveExtractionSettings(merged as never);
+  } catch (e) {
+    const issue = (e as { issues?: { path: (string | number)[]; message: string }[] }).issues?.[0];
+    throw new CliUsageError(issue ? `invalid extraction setting ${issue.path.join(".")}: ${issue.message}` : (e as Error).message);
+  }
+}
+void extractionSettingsSchema;
+
+/** Files named on the command line; directories are expanded (recursively, sorted). */
+export function expandPaths(paths: string[]): string[] {
+  const out: string[] = [];
+  for (const p of paths) {
+    let st;
+    try {
+      st = statSync(p);
+    } catch {
+      out.push(p);
+      continue;
+    }
+    if (st.isDirectory()) {
+      const walk = (d: string) => {
+        for (const name of readdirSync(d).sort()) {
+          if (name.startsWith(".")) continue;
+          const full = join(d, name);
+          if (statSync(full).isDirectory()) walk(full);
+          else out.push(full);
+        }
+      };
+      walk(p);
+    } else out.push(p);
+  }
+  return out;
+}
+
+function errorEntry(file: string, message: string): Analysed {
+  return { entry: { file, index: null, label: null, status: "error", message, warnings: [], gap: null }, spectrum: null, pick: null };
+}
+
+function gapJson(p: GapPick): GapJson {
+  return {
+    vbEdge_V: p.vbEdge_V,
+    cbEdge_V: p.cbEdge_V,
+    gap_eV: p.gap_eV,
+    midgap_V: p.midgap_V,
+    uncertainty_eV: p.uncertainty_eV,
+    closed: p.closed,
+    vbSigma_V: p.vbSigma_V,
+    cbSigma_V: p.cbSigma_V,
+    resolution_meV: p.resolution_meV,
+    method: p.method,
+  };
+}
+
+/** Read, import and pick every file; one Analysed per spectrum (or per failed file). */
+export function analyseFiles(paths: string[], settings: ExtractionSettings): Analysed[] {
+  const results: Analysed[] = [];
+  for (const path of expandPaths(paths)) {
+    const name = basename(path);
+    let bytes: Uint8Array;
+    try {
+      const st = statSync(path);
+      if (st.size > DEFAULT_IMPORT_LIMITS.maxFileBytes) {
+        results.push(errorEntry(name, `file is ${st.size} bytes, over the limit of ${DEFAULT_IMPORT_LIMITS.maxFileBytes}`));
+        continue;
+      }
+      bytes = readFileSync(path);
+    } catch (e) {
+      const code = (e as NodeJS.ErrnoException).code;
+      results.push(errorEntry(name, code === "ENOENT" ? "no such file" : code === "EACCES" ? "permission denied" : `cannot read the file (${code ?? (e as Error).message})`));
+      continue;
+    }
+    for (const f of importSpectra(name, bytes)) {
+      if (f.status === "error") {
+        results.push(errorEntry(f.file, f.message ?? "rejected"));
+        continue;
+      }
+      for (const s of f.spectra) {
+        try {
+          const p = pickGap(s, settings);
+          results.push({
+            entry: {
+              file: s.file,
+              index: s.index,
+              label: s.label,
+              status: p.status,
+              message: null,
+              warnings: [...f.warnings, ...s.warnings, ...p.warnings],
+              gap: gapJson(p),
+            },
+            spectrum: s,
+            pick: p,
+          });
+        } catch (e) {
+          results.push({ ...errorEntry(s.file, `spectrum ${s.index + 1}: ${(e as Error).message}`), spectrum: s });
+        }
+      }
+    }
+  }
+  return results;
+}
+
+const fmt = (v: number | null | undefined, scale: number, digits: number) => (v === null || v === undefined || !Number.isFinite(v) ? "—" : (v * scale).toFixed(digits));
+
+export function table(rows: string[][]): string {
+  const w = rows[0].map((_, c) => Math.max(...rows.map((r) => r[c].length)));
+  return rows.map((r) => r.map((cell, c) => (c === r.length - 1 ? cell : cell.padEnd(w[c]))).join("  ")).join("\n") + "\n";
+}
+
+export function gapCells(e: Entry): string[] {
+  const g = e.gap;
+  if (!g) return ["—", "—", "—", "—"];
+  const gap = g.gap_eV === null ? "—" : g.closed ? `closed (<${g.resolution_meV.toFixed(1)})` : `${fmt(g.gap_eV, 1000, 1)} ± ${fmt(g.uncertainty_eV, 1000, 1)}`;
+  return [fmt(g.vbEdge_V, 1000, 1), fmt(g.cbEdge_V, 1000, 1), gap, fmt(g.resolution_meV, 1, 1)];
+}
+
+export function noteOf(e: Entry): string {
+  if (e.status === "error") return e.message ?? "";
+  return e.warnings.length ? e.warnings[0] + (e.warnings.length > 1 ? ` (+${e.warnings.length - 1} more)` : "") : "";
+}

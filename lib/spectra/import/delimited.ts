@@ -1,0 +1,224 @@
+/**
+ * Delimited text spectra.
+ *
+ * Layout: optional metadata lines (`# key: value`, `# key = value`, or the same without `#` before the
+ * data), optional header row, then numeric rows. Delimiter: tab, semicolon, comma or whitespace,
+ * detected from the first data row; a decimal comma is accepted with tab, semicolon or whitespace
+ * delimiters. Header names carry units: `bias (mV)`, `Bias [V]`, `dI/dV (a.u.)`, `current (pA)`.
+ * Columns: one bias column and one or more dI/dV columns (each one spectrum), or current columns only
+ * (dI/dV = Savitzky–Golay derivative, done by the caller). Lines starting with `#` inside the data are
+ * comments. Errors name the line (1-based, as an editor shows it).
+ */
+import type { ImportLimits, SpectrumMeta } from "./types";
+import { ImportError } from "./types";
+import { applyMetaPair, emptyMeta, splitMetaLine } from "./metadata";
+import { splitNameUnit, unitFactor } from "./units";
+
+export type ColumnRole = "bias" | "didv" | "current";
+
+export interface ColumnInfo {
+  name: string;
+  unit: string;
+  role: ColumnRole;
+}
+
+export interface DelimitedTable {
+  columns: ColumnInfo[];
+  /** values[c][r]: column c, data row r; NaN = missing cell. */
+  values: Float64Array[];
+  /** 1-based source line of each data row. */
+  lines: Int32Array;
+  meta: SpectrumMeta;
+  warnings: string[];
+  delimiter: string;
+  decimalComma: boolean;
+}
+
+const MISSING = new Set(["", "nan", "-nan", "na", "n/a", "null", "none", "-", "--"]);
+
+const DIDV = /(d\s*i\s*\/\s*d\s*v|didv|di_dv|conductance|lock[ -]?in|\blia\b|^g$|^x$|^r$|ldos|signal|^demod)/i;
+const CURRENT = /(current|^i$|^it$|^i[ _]|^i\d)/i;
+const BIAS = /(bias|voltage|^v$|^u$|^v[ _]?s(ample)?$|^v_?bias|^e$|energy|^sweep)/i;
+
+function classify(name: string): ColumnRole | null {
+  if (DIDV.test(name)) return "didv";
+  if (BIAS.test(name)) return "bias";
+  if (CURRENT.test(name)) return "current";
+  return null;
+}
+
+function detectDelimiter(line: string): { delimiter: string; decimalComma: boolean } {
+  if (line.includes("\t")) return { delimiter: "\t", decimalComma: /\d,\d/.test(line) };
+  if (line.includes(";")) return { delimiter: ";", decimalComma: /\d,\d/.test(line) };
+  const t = line.trim();
+  if (t.includes(",")) {
+    // "0,5 1,2" (whitespace-separated decimal commas) versus "0.5,1.2" / "1, 2".
+    const ws = t.split(/\s+/);
+    if (ws.length >= 2 && !t.includes(".") && ws.every((c) => /^[-+]?\d+(,\d+)?([eE][-+]?\d+)?$/.test(c)))
+      return { delimiter: " ", decimalComma: true };
+    return { delimiter: ",", decimalComma: false };
+  }
+  return { delimiter: " ", decimalComma: false };
+}
+
+function splitLine(line: string, delimiter: string): string[] {
+  let cells = delimiter === " " ? line.trim().split(/\s+/) : line.split(delimiter);
+  // A trailing delimiter leaves one empty cell.
+  if (cells.length > 1 && cells[cells.length - 1].trim() === "") cells = cells.slice(0, -1);
+  return cells;
+}
+
+/** Number(cell) with decimal comma; NaN for a missing cell; undefined for a non-number. */
+function parseCell(cell: string, decimalComma: boolean): number | undefined {
+  let c = cell.trim();
+  if (c.length > 1 && (c[0] === '"' || c[0] === "'") && c[c.length - 1] === c[0]) c = c.slice(1, -1).trim();
+  if (decimalComma) c = c.replace(",", ".");
+  if (c === "") return NaN;
+  const v = Number(c);
+  if (!Number.isNaN(v)) return v;
+  if (MISSING.has(c.toLowerCase())) return NaN;
+  return undefined;
+}
+
+function isNumericRow(cells: string[], decimalComma: boolean): boolean {
+  let any = false;
+  for (const c of cells) {
+    const v = parseCell(c, decimalComma);
+    if (v === undefined) return false;
+    if (!Number.isNaN(v)) any = true;
+  }
+  return any;
+}
+
+export function parseDelimited(text: string, limits: ImportLimits): DelimitedTable {
+  const lines = text.split(/\r\n|\n|\r/);
+  const meta = emptyMeta();
+  const warnings: string[] = [];
+  let headerLine = -1;
+  let first = -1;
+  let fmt = { delimiter: ",", decimalComma: false };
+  for (let i = 0; i < lines.length; i++) {
+    const raw = lines[i];
+    const t = raw.trim();
+    if (t === "") continue;
+    if (t[0] === "#" || t[0] === "%") {
+      const kv = splitMetaLine(t.replace(/^[#%]+/, ""));
+      if (kv) {
+        const w = applyMetaPair(meta, kv[0], kv[1]);
+        if (w) warnings.push(`line ${i + 1}: ${w}`);
+      }
+      continue;
+    }
+    const f = detectDelimiter(t);
+    const cells = splitLine(t, f.delimiter);
+    if (cells.length >= 2 && isNumericRow(cells, f.decimalComma)) {
+      first = i;
+      fmt = f;
+      break;
+    }
+    // Not data: a "key: value" line before the data, or the header.
+    const kv = splitMetaLine(t);
+    if (kv && !/[,;\t]/.test(kv[0])) {
+      const w = applyMetaPair(meta, kv[0], kv[1]);
+      if (w) warnings.push(`line ${i + 1}: ${w}`);
+      continue;
+    }
+    headerLine = i;
+  }
+  if (first < 0) {
+    if (headerLine >= 0) throw new ImportError(`no numeric data rows after the header on line ${headerLine + 1}`);
+    throw new ImportError("no numeric data rows found");
+  }
+  const firstCells = splitLine(lines[first].trim(), fmt.delimiter);
+  const ncol = firstCells.length;
+  if (ncol > limits.maxColumns) throw new ImportError(`line ${first + 1}: ${ncol} columns exceed the limit of ${limits.maxColumns}`);
+  // Header: names, units and roles.
+  let columns: ColumnInfo[];
+  if (headerLine >= 0) {
+    let hc = splitLine(lines[headerLine].trim(), fmt.delimiter === " " ? (lines[headerLine].includes("\t") ? "\t" : " ") : fmt.delimiter);
+    if (fmt.delimiter === " " && hc.length !== ncol) {
+      // Whitespace-delimited data under a header whose names contain spaces: try two or more spaces.
+      const alt = lines[headerLine].trim().split(/\s{2,}|\t/);
+      if (alt.length === ncol) hc = alt;
+    }
+    if (hc.length !== ncol)
+      throw new ImportError(`line ${headerLine + 1}: header has ${hc.length} columns but the data on line ${first + 1} has ${ncol}`);
+    columns = hc.map((h) => {
+      const { name, unit } = splitNameUnit(h.replace(/^["']|["']$/g, ""));
+      return { name, unit, role: (classify(name) ?? "didv") as ColumnRole };
+    });
+    const unknown = hc.filter((h) => classify(splitNameUnit(h).name) === null);
+    const biasIdx = columns.findIndex((c) => c.role === "bias");
+    if (biasIdx < 0) {
+      columns[0].role = "bias";
+      warnings.push(`no column named like a bias; column 1 ("${columns[0].name}") taken as the bias`);
+    } else if (biasIdx !== 0 && columns.filter((c) => c.role === "bias").length > 1) {
+      warnings.push("several bias-like columns; the first is used");
+    }
+    const bi = columns.findIndex((c) => c.role === "bias");
+    columns.forEach((c, i) => {
+      if (c.role === "bias" && i !== bi) c.role = "didv";
+    });
+    if (unknown.length > 0 && unknown.length < hc.length)
+      warnings.push(`columns without a recognised name taken as dI/dV: ${unknown.slice(0, 5).map((u) => `"${u}"`).join(", ")}${unknown.length > 5 ? ` and ${unknown.length - 5} more` : ""}`);
+  } else {
+    columns = firstCells.map((_, i) => ({ name: i === 0 ? "bias" : ncol === 2 ? "dI/dV" : `dI/dV ${i}`, unit: "", role: i === 0 ? "bias" : "didv" }));
+    warnings.push("no header row; column 1 taken as the bias and the others as dI/dV");
+  }
+  // Data rows.
+  let nrows = 0;
+  for (let i = first; i < lines.length; i++) {
+    const t = lines[i].trim();
+    if (t !== "" && t[0] !== "#" && t[0] !== "%") nrows++;
+  }
+  if (nrows > limits.maxPoints) throw new ImportError(`${nrows} data rows exceed the limit of ${limits.maxPoints} points`);
+  const values = columns.map(() => new Float64Array(nrows));
+  const rowLines = new Int32Array(nrows);
+  let r = 0;
+  for (let i = first; i < lines.length; i++) {
+    const t = lines[i].trim();
+    if (t === "" || t[0] === "#" || t[0] === "%") continue;
+    const cells = splitLine(t, fmt.delimiter);
+    if (cells.length !== ncol)
+      throw new ImportError(`line ${i + 1}: ragged row with ${cells.length} cells where ${ncol} were expected`);
+    for (let c = 0; c < ncol; c++) {
+      const v = parseCell(cells[c], fmt.decimalComma);
+      if (v === undefined) {
+        const shown = cells[c].trim().slice(0, 40);
+        throw new ImportError(`line ${i + 1}, column ${c + 1}: "${shown}" is not a number`);
+      }
+      if (v === Infinity || v === -Infinity) throw new ImportError(`line ${i + 1}, column ${c + 1}: non-finite value "${cells[c].trim()}"`);
+      values[c][r] = v;
+    }
+    rowLines[r++] = i + 1;
+  }
+  // Units.
+  const bi = columns.findIndex((c) => c.role === "bias");
+  const bcol = columns[bi];
+  let bf = bcol.unit ? unitFactor("voltage", bcol.unit) : 1;
+  if (bf === null) throw new ImportError(`bias column "${bcol.name}" has unknown unit "${bcol.unit}"`);
+  if (!bcol.unit) {
+    let mx = 0;
+    for (const v of values[bi]) if (Math.abs(v) > mx) mx = Math.abs(v);
+    if (mx > 20) {
+      bf = 1e-3;
+      warnings.push("bias has no unit and exceeds 20: taken as mV");
+    }
+  }
+  if (bf !== 1) {
+    const b = values[bi];
+    for (let k = 0; k < b.length; k++) b[k] *= bf;
+  }
+  columns.forEach((c, ci) => {
+    if (c.role !== "current") return;
+    let f = c.unit ? unitFactor("current", c.unit) : null;
+    if (f === null) {
+      let mx = 0;
+      for (const v of values[ci]) if (Math.abs(v) > mx) mx = Math.abs(v);
+      f = mx < 1e-3 ? 1 : 1e-9;
+      warnings.push(`current column "${c.name}" has ${c.unit ? `unknown unit "${c.unit}"` : "no unit"}; taken as ${f === 1 ? "A" : "nA"}`);
+    }
+    if (f !== 1) for (let k = 0; k < values[ci].length; k++) values[ci][k] *= f;
+  });
+  return { columns, values, lines: rowLines, meta, warnings, delimiter: fmt.delimiter, decimalComma: fmt.decimalComma };
+}

@@ -1,0 +1,43 @@
+/**
+ * Bandcross analysis core: pure functions on typed arrays, no framework, database or network.
+ * Methods, units, defaults and sources: lib/spectra/README.md.
+ */
+export * from "./constants";
+export { makeRng, type Rng } from "./random";
+export { median, quantile, madSigma, MAD_TO_SIGMA, linearLeastSquares, type LeastSquaresResult } from "./stats";
+export {
+  extractionSettingsSchema,
+  DEFAULT_EXTRACTION_SETTINGS,
+  fieldModelSchema,
+  DEFAULT_FIELD_MODEL,
+  importLimitsSchema,
+  DEFAULT_IMPORT_LIMITS,
+  crossingOptionsSchema,
+  DEFAULT_CROSSING_OPTIONS,
+  resolveExtractionSettings,
+  resolveFieldModel,
+  resolveCrossingOptions,
+  resolveImportLimits,
+  type ExtractionSettings,
+  type FieldModel,
+  type CrossingOptions,
+} from "./settings";
+export { importSpectra, derivativeOfCurrent, ImportError, type ImportLimits, type ImportedFile, type ParsedSpectrum, type SpectrumMeta } from "./import";
+export { savgolFilter, savgolWeights, gaussianSmooth, fftLowpass } from "./smooth";
+export { smoothSpectrum, type Smoothed } from "./smooth/apply";
+export {
+  thermalFwhm_mV,
+  lockinFwhm_mV,
+  energyResolution_mV,
+  thermalKernel,
+  lockinKernel,
+  broadeningKernel,
+  convolvedOnset,
+  fwhmOf,
+  type BroadeningKernel,
+} from "./resolution";
+export { pickGap, type GapPick, type PickInput } from "./edges";
+export { tunnellingDistance, decayConstant_per_nm, apparentBarrierHeight_eV, type TunnellingDistanceInput } from "./distance";
+export { estimateField, fieldAssumptions, type FieldEstimate } from "./field";
+export { fitCrossing, type CrossingPoint, type CrossingFit } from "./crossing";
+export { makeSpectrum, makeSweep, modelDidv, sweepGap_eV, type SpectrumModel, type SyntheticSpectrum, type SweepModel, type SyntheticSweepPoint } from "./synthetic";
