@@ -267,6 +267,7 @@ async function oneShot(label: string, file: string, env: Record<string, string |
   }
   const logFile = path.join(logDir, `${label}.log`);
   const r = await sup.run(label, NODE, [...TSX, file], { env, output: quiet ? "log" : "tee", logFile });
+  await checkpoint();
   if (r.code !== 0) {
     if (quiet) console.error(tail(logFile));
     throw new Error(`${label} (${file}) failed with exit code ${r.code}; see ${rel(logFile)}`);
@@ -286,6 +287,7 @@ async function build(env: Record<string, string | undefined>): Promise<boolean> 
     output: quiet ? "log" : "tee",
     logFile,
   });
+  if (r.code !== 0 && shuttingDown) return false;
   if (r.code !== 0) {
     if (quiet) console.error(`--- last lines of ${rel(logFile)} ---\n${tail(logFile, 60)}`);
     console.error(`bandcross ${mode}: next build failed (exit ${r.code}); full log in ${rel(logFile)}`);

@@ -41,6 +41,7 @@ need_apt_packages() {
     bx_say "missing system packages: $*" >&2
     bx_say "run this once, then retry:" >&2
     printf '\n    sudo apt-get update && sudo apt-get install -y %s\n\n' "$*" >&2
+    printf '(or, as root: apt-get update && apt-get install -y %s)\n' "$*" >&2
     exit 1
   fi
 }
