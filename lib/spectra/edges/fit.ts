@@ -38,6 +38,8 @@ export interface EdgeFitResult {
   vbSigma: number;
   cbSigma: number;
   mode: "separate" | "joint";
+  /** Joint fits: χ²(gap forced to 0) − χ²_min; below 3.84 the gap is consistent with zero at 95%. */
+  closedDeltaChi2: number | null;
   warnings: string[];
 }
 
@@ -134,7 +136,13 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
       const a = side === "cb" ? Math.max(mid, guess - below) : guess - beyond;
       const b = side === "cb" ? guess + beyond : Math.min(mid, guess + below);
       if (!(b > a)) return null;
-      const m = scanMinimize(f, a, b, 41, tol);
+      let m = scanMinimize(f, a, b, 41, tol);
+      if (m.atBound) {
+        // The threshold edge can sit further out than expected (a weak onset in strong noise): widen once.
+        const a2 = side === "cb" ? Math.max(mid, a - below) : a - beyond;
+        const b2 = side === "cb" ? b + beyond : Math.min(mid, b + below);
+        m = scanMinimize(f, a2, b2, 61, tol);
+      }
       if (!Number.isFinite(m.fx)) return null;
       if (m.atBound) warnings.push(`${side === "cb" ? "conduction" : "valence"}-band edge fit reached its search limit`);
       return { e: m.x, s: curvatureSigma(f, m.x, Math.max(step / 2, res / 10), sigma) };
@@ -142,29 +150,61 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
     const v = fitOne("vb");
     const c = fitOne("cb");
     if (!v || !c) return null;
-    return { vb: v.e, cb: c.e, vbSigma: v.s, cbSigma: c.s, mode: "separate", warnings };
+    return { vb: v.e, cb: c.e, vbSigma: v.s, cbSigma: c.s, mode: "separate", closedDeltaChi2: null, warnings };
   }
   // Joint fit: one floor, two onsets.
   const [i0, i1] = indexRange(bias, vbGuess - W, cbGuess + W, lo, hi);
   if (i1 - i0 + 1 < 10) return null;
   const yy = y.subarray(i0, i1 + 1);
   const ones = new Float64Array(i1 - i0 + 1).fill(1);
+  // Coarse 2-D grid (the two edges are correlated when close), then alternating golden refinement.
+  const G = 21;
+  const vA = vbGuess - beyond;
+  const vB = vbGuess + below;
+  const cA = cbGuess - below;
+  const cB = cbGuess + beyond;
+  const vGrid = Array.from({ length: G }, (_, i) => vA + ((vB - vA) * i) / (G - 1));
+  const cGrid = Array.from({ length: G }, (_, i) => cA + ((cB - cA) * i) / (G - 1));
+  const vColsGrid = vGrid.map((e) => onsetColumns(bias, i0, i1, e, "vb", kernel, false));
+  const cColsGrid = cGrid.map((e) => onsetColumns(bias, i0, i1, e, "cb", kernel, false));
   let vb = vbGuess;
   let cb = cbGuess;
+  let bestRss = Infinity;
+  for (let a = 0; a < G; a++)
+    for (let b = 0; b < G; b++) {
+      if (cGrid[b] < vGrid[a]) continue;
+      const r = rssOf([ones, ...vColsGrid[a], ...cColsGrid[b]], yy, [1, 3]);
+      if (r < bestRss) {
+        bestRss = r;
+        vb = vGrid[a];
+        cb = cGrid[b];
+      }
+    }
+  if (!Number.isFinite(bestRss)) return null;
   let vCols = onsetColumns(bias, i0, i1, vb, "vb", kernel, false);
   let cCols = onsetColumns(bias, i0, i1, cb, "cb", kernel, false);
   const fV = (e: number) => (e > cb ? Infinity : rssOf([ones, ...onsetColumns(bias, i0, i1, e, "vb", kernel, false), ...cCols], yy, [1, 3]));
   const fC = (e: number) => (e < vb ? Infinity : rssOf([ones, ...vCols, ...onsetColumns(bias, i0, i1, e, "cb", kernel, false)], yy, [1, 3]));
-  for (let round = 0; round < 3; round++) {
-    const mv = scanMinimize(fV, vbGuess - beyond, Math.min(cb, vbGuess + below), 25, tol);
-    if (Number.isFinite(mv.fx)) vb = mv.x;
+  const dv = (vB - vA) / (G - 1);
+  const dc = (cB - cA) / (G - 1);
+  for (let round = 0; round < 4; round++) {
+    const mv = goldenMinimize(fV, vb - dv, Math.min(cb, vb + dv), tol);
+    if (Number.isFinite(mv.fx) && mv.fx <= fV(vb)) vb = mv.x;
     vCols = onsetColumns(bias, i0, i1, vb, "vb", kernel, false);
-    const mc = scanMinimize(fC, Math.max(vb, cbGuess - below), cbGuess + beyond, 25, tol);
-    if (Number.isFinite(mc.fx)) cb = mc.x;
+    const mc = goldenMinimize(fC, Math.max(vb, cb - dc), cb + dc, tol);
+    if (Number.isFinite(mc.fx) && mc.fx <= fC(cb)) cb = mc.x;
     cCols = onsetColumns(bias, i0, i1, cb, "cb", kernel, false);
   }
+  const atEdge = vb <= vA + dv / 2 || vb >= vB - dv / 2 || cb <= cA + dc / 2 || cb >= cB - dc / 2;
+  if (atEdge && cb - vb > res) warnings.push("joint edge fit reached its search limit");
   const h = Math.max(step / 2, res / 10);
   const fVs = (e: number) => rssOf([ones, ...onsetColumns(bias, i0, i1, e, "vb", kernel, false), ...cCols], yy, [1, 3]);
   const fCs = (e: number) => rssOf([ones, ...vCols, ...onsetColumns(bias, i0, i1, e, "cb", kernel, false)], yy, [1, 3]);
-  return { vb, cb, vbSigma: curvatureSigma(fVs, vb, h, sigma), cbSigma: curvatureSigma(fCs, cb, h, sigma), mode: "joint", warnings };
+  // Is the gap distinguishable from zero? Best fit with both onsets at one point m.
+  const rssMin = rssOf([ones, ...vCols, ...cCols], yy, [1, 3]);
+  // (Two steps at one point are collinear with the floor: keep one, of either sign.)
+  const f0 = (m: number) => rssOf([ones, onsetColumns(bias, i0, i1, m, "vb", kernel, false)[1], ...onsetColumns(bias, i0, i1, m, "cb", kernel, false)], yy, []);
+  const z = goldenMinimize(f0, vb - dv, cb + dv, tol);
+  const closedDeltaChi2 = Math.max(0, (z.fx - rssMin) / (sigma * sigma));
+  return { vb, cb, vbSigma: curvatureSigma(fVs, vb, h, sigma), cbSigma: curvatureSigma(fCs, cb, h, sigma), mode: "joint", closedDeltaChi2, warnings };
 }

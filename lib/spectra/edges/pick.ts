@@ -11,7 +11,9 @@
  * 7. Uncertainty per edge: fit (or threshold-sensitivity) error ⊕ sampling step/√12 ⊕ a model term
  *    (0.05 × resolution after the fit, 0.5 × resolution for threshold edges).
  * A spectrum whose floor is a large fraction of its signal (metallic) or that has no edge on one side
- * is "no-gap"; a gap below the resolution is flagged `closed` ("closed within resolution").
+ * is "no-gap". A gap is flagged `closed` ("closed within resolution") when it is below the resolution
+ * or when, for close edges fitted jointly, a zero gap fits the data as well (Δχ² < 3.84); then the
+ * uncertainty is widened so that the 95% range reaches zero.
  * Bias is the sample bias: positive bias probes empty states, so the conduction band is at V > 0 side.
  */
 import { broadeningKernel, energyResolution_mV } from "../resolution";
@@ -155,6 +157,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   let vbSigma = Math.hypot(vbSens, sampling, 0.5 * res_V);
   let cbSigma = Math.hypot(cbSens, sampling, 0.5 * res_V);
   let method: GapPick["method"] = "threshold";
+  let consistentWithZero = false;
   if (st.fit.enabled) {
     const kern = broadeningKernel(T, vrms);
     const f = fitEdges({ bias, y, kernel: kern, vbGuess: vb, cbGuess: cb, sigma: nf.sigma, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
@@ -165,22 +168,29 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
       vbSigma = Math.hypot(fs(f.vbSigma), sampling / 4, 0.05 * res_V);
       cbSigma = Math.hypot(fs(f.cbSigma), sampling / 4, 0.05 * res_V);
       method = f.mode === "joint" ? "fit-joint" : "fit-separate";
+      consistentWithZero = f.closedDeltaChi2 !== null && f.closedDeltaChi2 < 3.841458820694124;
       warnings.push(...f.warnings);
     } else {
       warnings.push("broadening-aware fit failed; threshold edges reported");
     }
   }
   const gap = Math.max(0, cb - vb);
+  let uncertainty = Math.hypot(vbSigma, cbSigma);
+  if (consistentWithZero) {
+    // A zero gap fits as well (Δχ² < 3.84): widen the error bar so that its 95% range reaches zero.
+    uncertainty = Math.max(uncertainty, gap / 1.959963984540054);
+    warnings.push("gap consistent with zero at 95% (closed within resolution)");
+  }
   return {
     status: "ok",
     vbEdge_V: vb,
     cbEdge_V: cb,
     gap_eV: gap,
     midgap_V: (vb + cb) / 2,
-    uncertainty_eV: Math.hypot(vbSigma, cbSigma),
+    uncertainty_eV: uncertainty,
     vbSigma_V: vbSigma,
     cbSigma_V: cbSigma,
-    closed: gap < res_V,
+    closed: gap < res_V || consistentWithZero,
     resolution_meV: res_mV,
     ...base,
     method,
