@@ -76,7 +76,9 @@ function parseCell(cell: string, decimalComma: boolean): number | undefined {
   if (c === "") return NaN;
   const v = Number(c);
   if (!Number.isNaN(v)) return v;
-  if (MISSING.has(c.toLowerCase())) return NaN;
+  const lc = c.toLowerCase();
+  if (MISSING.has(lc)) return NaN;
+  if (/^[-+]?inf(inity)?$/.test(lc)) return lc[0] === "-" ? -Infinity : Infinity;
   return undefined;
 }
 
