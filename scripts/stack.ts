@@ -424,7 +424,7 @@ async function testMode() {
     NODE_ENV: "test",
     CHROMIUM_PATH: CHROMIUM,
     BANDCROSS_TEST: "1",
-    ...(process.stdout.isTTY ? { FORCE_COLOR: "1" } : {}),
+    ...(process.stdout.isTTY ? { FORCE_COLOR: "1" } : { NO_COLOR: "1", FORCE_COLOR: undefined }),
   });
 
   console.log(`bandcross test: setting up a fresh stack in ${rel(cfg.dataDir)}/ …`);
