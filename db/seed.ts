@@ -7,7 +7,8 @@ import { drizzle } from "drizzle-orm/node-postgres";
 import { Pool } from "pg";
 import bcrypt from "bcryptjs";
 import * as schema from "./schema";
-import { labs, measurementSessions, memberships, samples, tips, users, type MemberRole } from "./schema";
+import { extractionSettingsVersions, fieldModelVersions, labs, measurementSessions, memberships, samples, tips, users, type MemberRole } from "./schema";
+import { initialVersionRows } from "../lib/services/samples/initialVersions";
 
 export const DEMO_LAB = { slug: "demo", name: "Halvorsen Surface Physics Group", institution: "Lindqvist Institute (invented)" };
 
@@ -45,7 +46,12 @@ export async function seedDemo(db: ReturnType<typeof drizzle<typeof schema>>) {
       .insert(samples)
       .values({ labId: lab.id, name: "GX-12 bilayer", material: "germanene (bilayer)", substrate: "MoS2 flake", workFunctionEv: 3.9, workFunctionSigmaEv: 0.1, notes: "Grown 2026-11-12, transferred in UHV suitcase.", createdBy: people.owner })
       .returning();
-    await tx.insert(samples).values({ labId: lab.id, name: "SN-03 monolayer", material: "stanene (monolayer)", substrate: "Bi2Te3(111)", workFunctionEv: 4.3, workFunctionSigmaEv: 0.15, createdBy: people.owner });
+    const [film2] = await tx.insert(samples).values({ labId: lab.id, name: "SN-03 monolayer", material: "stanene (monolayer)", substrate: "Bi2Te3(111)", workFunctionEv: 4.3, workFunctionSigmaEv: 0.15, createdBy: people.owner }).returning();
+    for (const s of [film, film2]) {
+      const v = initialVersionRows(lab.id, s.id, people.owner);
+      await tx.insert(extractionSettingsVersions).values(v.settings);
+      await tx.insert(fieldModelVersions).values(v.field);
+    }
     await tx.insert(measurementSessions).values({ labId: lab.id, sampleId: film.id, tipId: tipW.id, label: "GX-12 approach series A", date: "2026-11-20", instrument: "LT-STM bay 2", temperatureK: 4.6, operatorId: people.microscopist, createdBy: people.microscopist });
   });
   return { created: true };

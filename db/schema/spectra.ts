@@ -173,3 +173,23 @@ export const pickHistory = pgTable(
   },
   (t) => [index("pick_history_pick_idx").on(t.pickId)],
 );
+
+/** A background re-analysis of a sample (after its settings or field model changed), with its progress. */
+export const analysisRuns = pgTable(
+  "analysis_runs",
+  {
+    id: id(),
+    labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
+    sampleId: uuid("sample_id").notNull().references(() => samples.id, { onDelete: "cascade" }),
+    reason: text("reason").notNull(),
+    /** queued | running | done | failed */
+    status: text("status").notNull().default("queued"),
+    total: integer("total").notNull().default(0),
+    done: integer("done").notNull().default(0),
+    message: text("message"),
+    createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [index("analysis_runs_sample_idx").on(t.sampleId, t.createdAt)],
+);

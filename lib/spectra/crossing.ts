@@ -112,7 +112,7 @@ function solveV(E: Float64Array, g: Float64Array, sg: Float64Array, sE: Float64A
         }
       }
       cov = new Float64Array([NaN, NaN, NaN, NaN]);
-    } else if (cols.length === 2) cov = r.cov;
+    } else if (cols.length === 2) cov = Float64Array.from(r.cov);
     else cov = use1 ? new Float64Array([r.cov[0], NaN, NaN, NaN]) : new Float64Array([NaN, NaN, NaN, r.cov[0]]);
   }
   let chi2 = 0;

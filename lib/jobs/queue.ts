@@ -1,0 +1,65 @@
+import "server-only";
+import PgBoss from "pg-boss";
+import { env } from "@/lib/env";
+
+/**
+ * The background queue: pg-boss on the product's own PostgreSQL (schema `pgboss`), so a queued
+ * upload survives a restart and any number of worker processes on any number of machines share
+ * the work. Job kinds and their options live here and nowhere else.
+ */
+export const QUEUES = {
+  /** Parse a raw file, store its spectra, pick gaps, estimate fields, refit the sample. */
+  processUpload: "process-upload",
+  /** Re-run the automatic picks and fields of a sample after its settings or field model changed. */
+  reanalyzeSample: "reanalyze-sample",
+} as const;
+
+export type ProcessUploadJob = { uploadId: string };
+export type ReanalyzeSampleJob = { sampleId: string; labId: string; reason: string };
+
+/** Seconds a job may stay active before it is presumed dead (worker killed) and retried. */
+export function jobExpireSeconds(): number {
+  return Number(process.env.JOB_EXPIRE_SECONDS ?? 600);
+}
+
+const globalForBoss = globalThis as unknown as { bandcrossBoss?: Promise<PgBoss> };
+
+export function boss(): Promise<PgBoss> {
+  globalForBoss.bandcrossBoss ??= (async () => {
+    const b = new PgBoss({
+      connectionString: env().DATABASE_URL,
+      max: Number(process.env.JOB_POOL_MAX ?? 4),
+      application_name: "bandcross-jobs",
+      maintenanceIntervalSeconds: Number(process.env.JOB_MAINTENANCE_SECONDS ?? 60),
+      monitorStateIntervalSeconds: undefined,
+    });
+    b.on("error", (e) => console.error("[jobs]", e instanceof Error ? e.message : e));
+    await b.start();
+    const common = { retryLimit: 4, retryDelay: 2, retryBackoff: true, expireInSeconds: jobExpireSeconds() };
+    await b.createQueue(QUEUES.processUpload, { name: QUEUES.processUpload, ...common });
+    await b.createQueue(QUEUES.reanalyzeSample, { name: QUEUES.reanalyzeSample, ...common });
+    return b;
+  })();
+  return globalForBoss.bandcrossBoss;
+}
+
+/**
+ * Queues processing of an upload. The job id is the upload id for the first run, so a repeated
+ * "complete" call never queues the same file twice; a retry asked for by a person gets a fresh id.
+ */
+export async function enqueueProcessUpload(uploadId: string, opts: { retry?: boolean } = {}): Promise<void> {
+  const b = await boss();
+  await b.send(QUEUES.processUpload, { uploadId } satisfies ProcessUploadJob, opts.retry ? {} : { id: uploadId });
+}
+
+export async function enqueueReanalyzeSample(job: ReanalyzeSampleJob): Promise<void> {
+  const b = await boss();
+  // One pending re-analysis per sample is enough: a later settings change is read when it runs.
+  await b.send(QUEUES.reanalyzeSample, job, { singletonKey: job.sampleId });
+}
+
+export async function stopBoss(): Promise<void> {
+  const b = await globalForBoss.bandcrossBoss;
+  globalForBoss.bandcrossBoss = undefined;
+  await b?.stop({ graceful: true, wait: true, timeout: 10_000 });
+}

@@ -1,0 +1,78 @@
+/**
+ * The background worker: `npm start` runs one; run more on any machine with the same environment
+ * (`node --import tsx lib/jobs/worker.ts`) and they share the queue. SIGINT/SIGTERM finish the
+ * current jobs and stop.
+ */
+import type PgBoss from "pg-boss";
+import { closeDb, db } from "@/db/client";
+import { reanalyzeSample } from "@/lib/services/analysis/reanalyzeSample";
+import { markUploadFailed, processUpload } from "@/lib/services/uploads/processUpload";
+import { afterRefit } from "@/lib/services/alerts/afterRefit";
+import { boss, QUEUES, stopBoss, type ProcessUploadJob, type ReanalyzeSampleJob } from "./queue";
+import { analysisRuns } from "@/db/schema";
+import { and, eq, inArray } from "drizzle-orm";
+
+const log = (msg: string) => console.log(`[worker ${process.pid}] ${msg}`);
+
+const lastTry = (job: PgBoss.JobWithMetadata<unknown>) => job.retryCount >= job.retryLimit;
+
+export async function startWorker(): Promise<() => Promise<void>> {
+  const b = await boss();
+  const concurrency = Number(process.env.WORKER_CONCURRENCY ?? 2);
+  const handleUpload = async ([job]: PgBoss.JobWithMetadata<ProcessUploadJob>[]) => {
+    const started = Date.now();
+    try {
+      const out = await processUpload(db(), job.data.uploadId);
+      log(`${QUEUES.processUpload} ${job.data.uploadId}: ${out.status}${out.status === "done" ? ` (${out.spectra} spectra, ${Date.now() - started} ms)` : ""}`);
+      if (out.status === "done") await afterRefit(db(), out.refit);
+    } catch (e) {
+      log(`${QUEUES.processUpload} ${job.data.uploadId}: attempt ${job.retryCount + 1} failed: ${(e as Error).message}`);
+      if (lastTry(job)) return markUploadFailed(db(), job.data.uploadId, e);
+      throw e;
+    }
+  };
+  // Several pollers on one queue let this process work on more than one file at a time.
+  for (let i = 0; i < concurrency; i++) {
+    await b.work<ProcessUploadJob>(QUEUES.processUpload, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 0.5 }, handleUpload);
+  }
+  await b.work<ReanalyzeSampleJob>(QUEUES.reanalyzeSample, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
+    const runs = await db()
+      .select({ id: analysisRuns.id })
+      .from(analysisRuns)
+      .where(and(eq(analysisRuns.sampleId, job.data.sampleId), inArray(analysisRuns.status, ["queued", "running"])));
+    const started = Date.now();
+    const refit = await reanalyzeSample(db(), { sampleId: job.data.sampleId, runId: runs.at(-1)?.id });
+    // Every run queued before this one is covered by it.
+    if (runs.length) await db().update(analysisRuns).set({ status: "done" }).where(inArray(analysisRuns.id, runs.map((r) => r.id)));
+    await afterRefit(db(), refit);
+    log(`${QUEUES.reanalyzeSample} ${job.data.sampleId}: done in ${Date.now() - started} ms (${job.data.reason})`);
+  });
+  log(`listening on ${Object.values(QUEUES).join(", ")} (concurrency ${concurrency})`);
+  return async () => {
+    await stopBoss();
+    await closeDb();
+  };
+}
+
+const isMain = process.argv[1] && /lib\/jobs\/worker\.ts$/.test(process.argv[1]);
+if (isMain) {
+  startWorker()
+    .then((stop) => {
+      let stopping = false;
+      const shutdown = (sig: string) => {
+        if (stopping) return;
+        stopping = true;
+        log(`${sig}: finishing current jobs`);
+        stop().then(
+          () => process.exit(0),
+          () => process.exit(1),
+        );
+      };
+      process.on("SIGINT", () => shutdown("SIGINT"));
+      process.on("SIGTERM", () => shutdown("SIGTERM"));
+    })
+    .catch((e) => {
+      console.error(`worker: ${e instanceof Error ? e.message : String(e)}`);
+      process.exit(1);
+    });
+}

@@ -1,0 +1,60 @@
+import { z } from "zod";
+
+/** File names as the browser or the command line sends them: a base name, no folders or control characters. */
+const fileName = z
+  .string()
+  .trim()
+  .min(1, "A file needs a name.")
+  .max(255, "File names are at most 255 characters.")
+  .refine((n) => !/[\u0000-\u001f\u007f]/.test(n), "File names cannot contain control characters.")
+  .transform((n) => n.split(/[\\/]/).filter(Boolean).pop() ?? n);
+
+export const createUploadsInput = z.object({
+  sessionId: z.string().uuid("sessionId must be a session id."),
+  files: z
+    .array(
+      z.object({
+        name: fileName,
+        size: z.number().int("size is a whole number of bytes.").min(1, "An empty file has nothing to analyse."),
+        sha256: z.string().regex(/^[0-9a-f]{64}$/i, "sha256 must be 64 hexadecimal characters.").transform((s) => s.toLowerCase()),
+      }),
+    )
+    .min(1, "Send at least one file.")
+    .max(500, "At most 500 files per request; send the rest in another."),
+});
+export type CreateUploadsInput = z.infer<typeof createUploadsInput>;
+
+export const tagPatch = z
+  .object({
+    region: z.string().trim().max(80).nullable().optional(),
+    setpointBias_V: z.coerce.number().finite().refine((v) => v !== 0, "The setpoint bias cannot be zero.").nullable().optional(),
+    setpointCurrent_A: z.coerce.number().finite().positive("The setpoint current is positive (in A, e.g. 1e-10 for 100 pA).").max(1e-6, "Above 1 µA is not a tunnelling setpoint.").nullable().optional(),
+    zOffset_pm: z.coerce.number().finite().min(-2000).max(2000).nullable().optional(),
+    tipId: z.string().uuid().nullable().optional(),
+  })
+  .refine((p) => Object.keys(p).length > 0, "Change at least one field.");
+
+export const tagSpectraInput = z.object({
+  ids: z.array(z.string().uuid()).min(1).max(5000),
+  patch: tagPatch,
+});
+
+export const spectraQuery = z.object({
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(500).default(50),
+  sort: z.enum(["index", "file", "region", "setpointCurrent", "zOffset", "gap", "field"]).default("index"),
+  dir: z.enum(["asc", "desc"]).default("asc"),
+  q: z.string().trim().max(120).optional(),
+  region: z.string().trim().max(80).optional(),
+});
+export type SpectraQuery = z.infer<typeof spectraQuery>;
+
+export const fieldModelInput = z.object({
+  contactDistance_nm: z.coerce.number().min(0, "The contact distance cannot be negative.").max(1, "A contact distance above 1 nm is not a tunnel junction."),
+  contactDistanceSigma_nm: z.coerce.number().min(0).max(0.5).default(0.05),
+  /** "mean-work-function" or "measured" (then barrierHeight_eV is the measured apparent barrier). */
+  decayConstantSource: z.enum(["mean-work-function", "measured"]).default("mean-work-function"),
+  barrierHeight_eV: z.coerce.number().min(0.1).max(10).nullable().optional(),
+  screening: z.coerce.number().min(1, "A screening factor below 1 would amplify the field.").max(100).default(1),
+  note: z.string().trim().max(500).optional(),
+}).refine((m) => m.decayConstantSource !== "measured" || m.barrierHeight_eV != null, { message: "Give the measured apparent barrier height.", path: ["barrierHeight_eV"] });

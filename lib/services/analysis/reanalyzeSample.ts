@@ -1,0 +1,65 @@
+import "server-only";
+import { and, asc, eq, gt, sql } from "drizzle-orm";
+import type { DbOrTx } from "@/db/client";
+import { analysisRuns, gapPicks, measurementSessions, spectra, tips } from "@/db/schema";
+import { autoPick, fieldFor, pickColumns } from "./analyzeSpectrum";
+import { refitSample, type RefitResult } from "./refitSample";
+import { loadSampleAnalysis } from "./sampleModel";
+
+const CHUNK = 250;
+
+/**
+ * Re-runs a sample's analysis with its current versions: every spectrum's distance and field with
+ * the current field model, and every automatic pick with the current extraction settings. Picks an
+ * analyst corrected by hand keep their edges (their stored automatic pick is refreshed beside
+ * them). Progress is written to analysis_runs as it goes, in chunks, each its own transaction.
+ */
+export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; runId?: string }): Promise<RefitResult> {
+  const analysis = await loadSampleAnalysis(db, input.sampleId);
+  const [{ n }] = await db.select({ n: sql<number>`count(*)::int` }).from(spectra).where(eq(spectra.sampleId, input.sampleId));
+  if (input.runId) await db.update(analysisRuns).set({ status: "running", total: n, done: 0, updatedAt: new Date() }).where(eq(analysisRuns.id, input.runId));
+  const tipRows = await db.select().from(tips).where(eq(tips.labId, analysis.sample.labId));
+  const tipById = new Map(tipRows.map((t) => [t.id, t]));
+  const sessions = await db.select({ id: measurementSessions.id, temperatureK: measurementSessions.temperatureK }).from(measurementSessions).where(eq(measurementSessions.sampleId, input.sampleId));
+  const sessionT = new Map(sessions.map((s) => [s.id, s.temperatureK]));
+
+  let after = "00000000-0000-0000-0000-000000000000";
+  let done = 0;
+  for (;;) {
+    const rows = await db
+      .select({ s: spectra, pickId: gapPicks.id, source: gapPicks.source })
+      .from(spectra)
+      .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
+      .where(and(eq(spectra.sampleId, input.sampleId), gt(spectra.id, after)))
+      .orderBy(asc(spectra.id))
+      .limit(CHUNK);
+    if (rows.length === 0) break;
+    await db.transaction(async (tx) => {
+      for (const { s, pickId, source } of rows) {
+        const meta = {
+          setpoint_bias_V: s.setpointBiasV ?? undefined,
+          setpoint_current_A: s.setpointCurrentA ?? undefined,
+          z_offset_pm: s.zOffsetPm ?? undefined,
+          lockin_modulation_mV_rms: s.lockinModulationMvRms ?? undefined,
+          temperature_K: s.temperatureK ?? sessionT.get(s.sessionId) ?? undefined,
+        };
+        const field = fieldFor(analysis.modelFor(s.tipId ? (tipById.get(s.tipId) ?? null) : null), meta);
+        const { warning: _w, ...fieldCols } = field;
+        await tx.update(spectra).set({ ...fieldCols, fieldModelVersionId: analysis.fieldVersion.id, updatedAt: new Date() }).where(eq(spectra.id, s.id));
+        const pick = autoPick({ bias_V: s.biasV, didv: s.didv, meta }, analysis.settings);
+        const cols = pickColumns(pick, analysis.settingsVersion.id);
+        if (source === "auto") {
+          await tx.update(gapPicks).set({ ...cols, version: sql`${gapPicks.version} + 1`, updatedAt: new Date() }).where(eq(gapPicks.id, pickId));
+        } else {
+          await tx.update(gapPicks).set({ autoPick: cols.autoPick, updatedAt: new Date() }).where(eq(gapPicks.id, pickId));
+        }
+      }
+    });
+    done += rows.length;
+    after = rows[rows.length - 1].s.id;
+    if (input.runId) await db.update(analysisRuns).set({ done, updatedAt: new Date() }).where(eq(analysisRuns.id, input.runId));
+  }
+  const refit = await refitSample(db, input.sampleId);
+  if (input.runId) await db.update(analysisRuns).set({ status: "done", done, updatedAt: new Date() }).where(eq(analysisRuns.id, input.runId));
+  return refit;
+}

@@ -1,0 +1,73 @@
+import "server-only";
+import { and, desc, eq, isNotNull, isNull } from "drizzle-orm";
+import type { DbOrTx } from "@/db/client";
+import { crossings, gapPicks, spectra, type Crossing } from "@/db/schema";
+import { fitCrossing, median, type CrossingFit, type CrossingPoint } from "@/lib/spectra";
+import { loadSampleAnalysis } from "./sampleModel";
+
+export interface RefitResult {
+  previous: Crossing | null;
+  current: Crossing;
+  fit: CrossingFit;
+}
+
+/**
+ * Points of a phase plot, turned into the fit's input. The field model's uncertainty (work
+ * functions, contact distance) is common to every spectrum of a sample — a scale error — so it
+ * widens the critical field's total interval rather than weighting points against each other.
+ */
+export function crossingInput(rows: { field: number; fieldSigma: number | null; gap: number; gapSigma: number | null }[]) {
+  const points: CrossingPoint[] = rows.map((r) => ({ field_V_per_nm: r.field, fieldSigma_V_per_nm: 0, gap_eV: r.gap, gapSigma_eV: r.gapSigma ?? 0 }));
+  const rel = rows.filter((r) => r.field !== 0 && r.fieldSigma != null).map((r) => r.fieldSigma! / Math.abs(r.field));
+  return { points, options: { systematicFieldRelSigma: rel.length ? median(rel) : 0 } };
+}
+
+/** Refits a sample's gap versus field over its included spectra and stores the result as its current crossing. */
+export async function refitSample(db: DbOrTx, sampleId: string): Promise<RefitResult> {
+  const analysis = await loadSampleAnalysis(db, sampleId);
+  const rows = await db
+    .select({ field: spectra.fieldVPerNm, fieldSigma: spectra.fieldSigmaVPerNm, gap: gapPicks.gapEv, gapSigma: gapPicks.uncertaintyEv })
+    .from(spectra)
+    .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
+    .where(and(eq(spectra.sampleId, sampleId), eq(gapPicks.excluded, false), eq(gapPicks.status, "ok"), isNotNull(spectra.fieldVPerNm), isNotNull(gapPicks.gapEv)));
+  const { points, options } = crossingInput(rows.map((r) => ({ field: r.field!, fieldSigma: r.fieldSigma, gap: r.gap!, gapSigma: r.gapSigma })));
+  const fit = fitCrossing(points, options);
+  const [previous] = await db
+    .select()
+    .from(crossings)
+    .where(and(eq(crossings.sampleId, sampleId), isNull(crossings.region)))
+    .orderBy(desc(crossings.createdAt))
+    .limit(1);
+  const ci = fit.ci95Total_V_per_nm ?? fit.ci95_V_per_nm;
+  const [current] = await db
+    .insert(crossings)
+    .values({
+      labId: analysis.sample.labId,
+      sampleId,
+      region: null,
+      state: fit.state,
+      found: fit.found,
+      fieldVPerNm: fit.field_V_per_nm,
+      ci95LoVPerNm: ci?.[0] ?? null,
+      ci95HiVPerNm: ci?.[1] ?? null,
+      slopeBelowEvPerVPerNm: fit.slopes?.below ?? null,
+      slopeAboveEvPerVPerNm: fit.slopes?.above ?? null,
+      extrapolatedVPerNm: fit.extrapolated_V_per_nm,
+      nPoints: fit.n,
+      comparison: { ...fit.comparison, statisticalCi95_V_per_nm: fit.ci95_V_per_nm } as Record<string, unknown>,
+      curve: fit.curve,
+      settingsVersionId: analysis.settingsVersion.id,
+      fieldModelVersionId: analysis.fieldVersion.id,
+      // A confirmation holds while the fit stays where it was confirmed.
+      status: previous?.status === "confirmed" && sameCrossing(previous, fit) ? "confirmed" : "candidate",
+      confirmedBy: previous?.status === "confirmed" && sameCrossing(previous, fit) ? previous.confirmedBy : null,
+      confirmedAt: previous?.status === "confirmed" && sameCrossing(previous, fit) ? previous.confirmedAt : null,
+    })
+    .returning();
+  return { previous: previous ?? null, current, fit };
+}
+
+function sameCrossing(prev: Crossing, fit: CrossingFit): boolean {
+  if (prev.state !== fit.state || fit.field_V_per_nm == null || prev.ci95LoVPerNm == null || prev.ci95HiVPerNm == null) return false;
+  return fit.field_V_per_nm >= prev.ci95LoVPerNm && fit.field_V_per_nm <= prev.ci95HiVPerNm;
+}

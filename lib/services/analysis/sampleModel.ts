@@ -1,0 +1,58 @@
+import "server-only";
+import { desc, eq } from "drizzle-orm";
+import type { DbOrTx } from "@/db/client";
+import { extractionSettingsVersions, fieldModelVersions, labs, samples, type Tip } from "@/db/schema";
+import { resolveExtractionSettings, resolveFieldModel, type ExtractionSettings, type FieldModel } from "@/lib/spectra";
+import { notFound } from "../errors";
+
+/** The stored part of a field model version: the work functions come from the sample and each spectrum's tip. */
+export interface StoredFieldModel {
+  contactDistance_nm: number;
+  contactDistanceSigma_nm: number;
+  /** Measured apparent barrier height, eV; null = mean of the two work functions. */
+  barrierHeight_eV: number | null;
+  screening: number;
+}
+
+export interface SampleAnalysis {
+  sample: typeof samples.$inferSelect;
+  lab: typeof labs.$inferSelect;
+  settingsVersion: { id: string; version: number };
+  settings: ExtractionSettings;
+  fieldVersion: { id: string; version: number };
+  fieldStored: StoredFieldModel;
+  /** The full field model for a spectrum measured with this tip (or the lab's default tip). */
+  modelFor(tip: Pick<Tip, "workFunctionEv" | "workFunctionSigmaEv"> | null): FieldModel;
+}
+
+/** Everything the analysis of one sample needs, with the current settings and field-model versions. */
+export async function loadSampleAnalysis(db: DbOrTx, sampleId: string): Promise<SampleAnalysis> {
+  const [row] = await db.select({ sample: samples, lab: labs }).from(samples).innerJoin(labs, eq(labs.id, samples.labId)).where(eq(samples.id, sampleId));
+  if (!row) throw notFound("sample");
+  const [sv] = await db.select().from(extractionSettingsVersions).where(eq(extractionSettingsVersions.sampleId, sampleId)).orderBy(desc(extractionSettingsVersions.version)).limit(1);
+  const [fv] = await db.select().from(fieldModelVersions).where(eq(fieldModelVersions.sampleId, sampleId)).orderBy(desc(fieldModelVersions.version)).limit(1);
+  if (!sv || !fv) throw new Error(`sample ${sampleId} has no settings versions`);
+  const settings = resolveExtractionSettings(sv.settings as never);
+  const fieldStored = fv.model as unknown as StoredFieldModel;
+  const { sample, lab } = row;
+  return {
+    sample,
+    lab,
+    settingsVersion: { id: sv.id, version: sv.version },
+    settings,
+    fieldVersion: { id: fv.id, version: fv.version },
+    fieldStored,
+    modelFor(tip) {
+      return resolveFieldModel({
+        tipWorkFunction_eV: tip?.workFunctionEv ?? lab.defaultTipWorkFunctionEv,
+        tipWorkFunctionSigma_eV: tip?.workFunctionSigmaEv ?? lab.defaultTipWorkFunctionSigmaEv,
+        sampleWorkFunction_eV: sample.workFunctionEv,
+        sampleWorkFunctionSigma_eV: sample.workFunctionSigmaEv,
+        contactDistance_nm: fieldStored.contactDistance_nm,
+        contactDistanceSigma_nm: fieldStored.contactDistanceSigma_nm,
+        barrierHeight_eV: fieldStored.barrierHeight_eV,
+        screening: fieldStored.screening,
+      });
+    },
+  };
+}

@@ -1,0 +1,209 @@
+import "server-only";
+import { and, asc, desc, eq, ilike, isNull, or, sql, type SQL } from "drizzle-orm";
+import { crossings, extractionSettingsVersions, fieldModelVersions, gapPicks, measurementSessions, samples, spectra, tips, uploads } from "@/db/schema";
+import { assertCan } from "@/lib/auth/permissions";
+import type { SpectraQuery } from "@/lib/schemas/uploads";
+import type { Ctx } from "../context";
+import { notFound } from "../errors";
+import { getSample, isUuid } from "../samples/getSample";
+import { sampleVisibility } from "../samples/visibility";
+
+/** One spectrum with everything needed to trust its numbers: arrays, metadata, pick, field, versions, raw-file hash. */
+export async function getSpectrum({ ctx, input }: { ctx: Ctx; input: { id: string } }) {
+  assertCan(ctx.actor, "lab:read");
+  if (!isUuid(input.id)) throw notFound("spectrum");
+  const visible = await sampleVisibility(ctx);
+  const [row] = await ctx.db
+    .select({ s: spectra, p: gapPicks, upload: { id: uploads.id, fileName: uploads.fileName }, sampleName: samples.name, sv: { id: extractionSettingsVersions.id, version: extractionSettingsVersions.version }, fv: { id: fieldModelVersions.id, version: fieldModelVersions.version }, tipLabel: tips.label })
+    .from(spectra)
+    .innerJoin(samples, eq(samples.id, spectra.sampleId))
+    .innerJoin(uploads, eq(uploads.id, spectra.uploadId))
+    .leftJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
+    .leftJoin(extractionSettingsVersions, eq(extractionSettingsVersions.id, gapPicks.settingsVersionId))
+    .leftJoin(fieldModelVersions, eq(fieldModelVersions.id, spectra.fieldModelVersionId))
+    .leftJoin(tips, eq(tips.id, spectra.tipId))
+    .where(and(eq(spectra.id, input.id), eq(spectra.labId, ctx.actor.labId), visible));
+  if (!row) throw notFound("spectrum");
+  const { s, p } = row;
+  return {
+    id: s.id,
+    sampleId: s.sampleId,
+    sampleName: row.sampleName,
+    sessionId: s.sessionId,
+    upload: { id: row.upload.id, fileName: row.upload.fileName, sha256: s.rawSha256 },
+    sourceName: s.sourceName,
+    index: s.indexInFile,
+    label: s.label,
+    metadata: {
+      setpointBias_V: s.setpointBiasV,
+      setpointCurrent_A: s.setpointCurrentA,
+      zOffset_pm: s.zOffsetPm,
+      lockinModulation_mV_rms: s.lockinModulationMvRms,
+      temperature_K: s.temperatureK,
+      x_nm: s.xNm,
+      y_nm: s.yNm,
+      region: s.region,
+      tipId: s.tipId,
+      tipLabel: row.tipLabel,
+      extra: s.meta,
+    },
+    warnings: s.warnings,
+    arrays: { bias_V: Array.from(s.biasV), didv: Array.from(s.didv), current_A: s.currentA ? Array.from(s.currentA) : null },
+    pick: p
+      ? {
+          version: p.version,
+          source: p.source,
+          status: p.status,
+          vbEdge_V: p.vbEdgeV,
+          cbEdge_V: p.cbEdgeV,
+          gap_eV: p.gapEv,
+          midgap_V: p.midgapV,
+          uncertainty_eV: p.uncertaintyEv,
+          closed: p.closed,
+          resolution_meV: p.resolutionMev,
+          method: p.method,
+          excluded: p.excluded,
+          excludedReason: p.excludedReason,
+          auto: p.autoPick,
+          updatedAt: p.updatedAt.toISOString(),
+        }
+      : null,
+    distance_nm: s.distanceNm,
+    distanceSigma_nm: s.distanceSigmaNm,
+    field_V_per_nm: s.fieldVPerNm,
+    fieldSigma_V_per_nm: s.fieldSigmaVPerNm,
+    versions: { extractionSettings: row.sv?.id ? row.sv : null, fieldModel: row.fv?.id ? row.fv : null },
+  };
+}
+
+export interface PhasePoint {
+  spectrumId: string;
+  field_V_per_nm: number;
+  fieldSigma_V_per_nm: number | null;
+  distance_nm: number | null;
+  setpointConductance_S: number | null;
+  gap_eV: number;
+  gapSigma_eV: number | null;
+  closed: boolean;
+  source: "auto" | "corrected";
+  excluded: boolean;
+  region: string | null;
+}
+
+/** The phase plot's data: every spectrum with a gap and a field, and the sample's current crossing. */
+export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }) {
+  const sample = await getSample({ ctx, input: { id: input.sampleId } });
+  const rows = await ctx.db
+    .select({
+      spectrumId: spectra.id,
+      field: spectra.fieldVPerNm,
+      fieldSigma: spectra.fieldSigmaVPerNm,
+      distance: spectra.distanceNm,
+      vset: spectra.setpointBiasV,
+      iset: spectra.setpointCurrentA,
+      gap: gapPicks.gapEv,
+      gapSigma: gapPicks.uncertaintyEv,
+      closed: gapPicks.closed,
+      source: gapPicks.source,
+      excluded: gapPicks.excluded,
+      region: spectra.region,
+    })
+    .from(spectra)
+    .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
+    .where(and(eq(spectra.sampleId, sample.id), eq(gapPicks.status, "ok"), sql`${spectra.fieldVPerNm} is not null`, sql`${gapPicks.gapEv} is not null`))
+    .orderBy(asc(spectra.fieldVPerNm));
+  const points: PhasePoint[] = rows.map((r) => ({
+    spectrumId: r.spectrumId,
+    field_V_per_nm: r.field!,
+    fieldSigma_V_per_nm: r.fieldSigma,
+    distance_nm: r.distance,
+    setpointConductance_S: r.vset && r.iset ? Math.abs(r.iset / r.vset) : null,
+    gap_eV: r.gap!,
+    gapSigma_eV: r.gapSigma,
+    closed: r.closed,
+    source: r.source,
+    excluded: r.excluded,
+    region: r.region,
+  }));
+  const [c] = await ctx.db
+    .select()
+    .from(crossings)
+    .where(and(eq(crossings.sampleId, sample.id), isNull(crossings.region)))
+    .orderBy(desc(crossings.createdAt))
+    .limit(1);
+  return {
+    sample: { id: sample.id, name: sample.name },
+    points,
+    crossing: c
+      ? {
+          id: c.id,
+          state: c.state,
+          found: c.found,
+          field_V_per_nm: c.fieldVPerNm,
+          ci95_V_per_nm: c.ci95LoVPerNm != null && c.ci95HiVPerNm != null ? ([c.ci95LoVPerNm, c.ci95HiVPerNm] as [number, number]) : null,
+          slopes: c.slopeBelowEvPerVPerNm != null ? { below: c.slopeBelowEvPerVPerNm, above: c.slopeAboveEvPerVPerNm } : null,
+          extrapolated_V_per_nm: c.extrapolatedVPerNm,
+          n: c.nPoints,
+          status: c.status,
+          comparison: c.comparison,
+          curve: c.curve,
+          settingsVersionId: c.settingsVersionId,
+          fieldModelVersionId: c.fieldModelVersionId,
+          fittedAt: c.createdAt.toISOString(),
+        }
+      : { state: "none" as const, found: false, field_V_per_nm: null, ci95_V_per_nm: null },
+  };
+}
+
+const SORT_COLS = {
+  index: [spectra.sourceName, spectra.indexInFile],
+  file: [spectra.sourceName],
+  region: [spectra.region],
+  setpointCurrent: [spectra.setpointCurrentA],
+  zOffset: [spectra.zOffsetPm],
+  gap: [gapPicks.gapEv],
+  field: [spectra.fieldVPerNm],
+} as const;
+
+/** A session's spectra for the tagging table: sorted, filtered and paginated in the database. */
+export async function listSessionSpectra({ ctx, input }: { ctx: Ctx; input: { sessionId: string; query: SpectraQuery } }) {
+  assertCan(ctx.actor, "lab:read");
+  if (!isUuid(input.sessionId)) throw notFound("session");
+  const [session] = await ctx.db.select({ id: measurementSessions.id }).from(measurementSessions).where(and(eq(measurementSessions.id, input.sessionId), eq(measurementSessions.labId, ctx.actor.labId)));
+  if (!session) throw notFound("session");
+  const q = input.query;
+  const filters: (SQL | undefined)[] = [eq(spectra.sessionId, session.id)];
+  if (q.q) filters.push(or(ilike(spectra.sourceName, `%${q.q}%`), ilike(spectra.label, `%${q.q}%`), ilike(spectra.region, `%${q.q}%`)));
+  if (q.region) filters.push(q.region === "(none)" ? isNull(spectra.region) : eq(spectra.region, q.region));
+  const where = and(...filters);
+  const order = SORT_COLS[q.sort].map((c) => (q.dir === "desc" ? sql`${c} desc nulls last` : sql`${c} asc nulls last`));
+  const [{ total }] = await ctx.db.select({ total: sql<number>`count(*)::int` }).from(spectra).where(where);
+  const rows = await ctx.db
+    .select({
+      id: spectra.id,
+      sourceName: spectra.sourceName,
+      index: spectra.indexInFile,
+      label: spectra.label,
+      region: spectra.region,
+      setpointBias_V: spectra.setpointBiasV,
+      setpointCurrent_A: spectra.setpointCurrentA,
+      zOffset_pm: spectra.zOffsetPm,
+      tipId: spectra.tipId,
+      field_V_per_nm: spectra.fieldVPerNm,
+      fieldSigma_V_per_nm: spectra.fieldSigmaVPerNm,
+      gap_eV: gapPicks.gapEv,
+      closed: gapPicks.closed,
+      pickStatus: gapPicks.status,
+      source: gapPicks.source,
+      excluded: gapPicks.excluded,
+    })
+    .from(spectra)
+    .leftJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
+    .where(where)
+    .orderBy(...order, asc(spectra.id))
+    .limit(q.pageSize)
+    .offset((q.page - 1) * q.pageSize);
+  const regions = await ctx.db.selectDistinct({ region: spectra.region }).from(spectra).where(eq(spectra.sessionId, session.id));
+  return { total, page: q.page, pageSize: q.pageSize, rows, regions: regions.map((r) => r.region).filter((r): r is string => r != null).sort() };
+}
+

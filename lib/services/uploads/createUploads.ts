@@ -1,0 +1,69 @@
+import "server-only";
+import { and, eq, inArray } from "drizzle-orm";
+import { measurementSessions, uploads } from "@/db/schema";
+import { assertCan } from "@/lib/auth/permissions";
+import { env } from "@/lib/env";
+import { createUploadsInput } from "@/lib/schemas/uploads";
+import { presignPut, rawKey } from "@/lib/storage/s3";
+import { recordAudit } from "../audit";
+import type { Ctx } from "../context";
+import { notFound, tooLarge } from "../errors";
+import { parseInput } from "../parse";
+
+export interface UploadTicket {
+  id: string;
+  name: string;
+  status: string;
+  /** Already in this lab (same SHA-256): nothing to send. */
+  duplicate: boolean;
+  url: string | null;
+  method: "PUT";
+  headers: Record<string, string>;
+  expiresInSeconds: number | null;
+}
+
+/**
+ * Registers files of a session and returns a presigned PUT per file, so the bytes go straight from
+ * the browser or the acquisition PC to object storage. A file whose SHA-256 is already in the lab
+ * is recognised and not stored twice.
+ */
+export async function createUploads({ ctx, input }: { ctx: Ctx; input: unknown }): Promise<{ uploads: UploadTicket[] }> {
+  assertCan(ctx.actor, "upload:write");
+  const data = parseInput(createUploadsInput, input);
+  const max = env().UPLOAD_MAX_BYTES;
+  const big = data.files.find((f) => f.size > max);
+  if (big) throw tooLarge(`${big.name} is ${(big.size / 1e6).toFixed(1)} MB; the largest file Bandcross accepts is ${(max / 1e6).toFixed(0)} MB. Split the grid into several files.`);
+  const [session] = await ctx.db
+    .select({ id: measurementSessions.id })
+    .from(measurementSessions)
+    .where(and(eq(measurementSessions.id, data.sessionId), eq(measurementSessions.labId, ctx.actor.labId)));
+  if (!session) throw notFound("session");
+
+  const shas = [...new Set(data.files.map((f) => f.sha256))];
+  const existing = await ctx.db.select().from(uploads).where(and(eq(uploads.labId, ctx.actor.labId), inArray(uploads.sha256, shas)));
+  const bySha = new Map(existing.map((u) => [u.sha256, u]));
+  const out: UploadTicket[] = [];
+  for (const f of data.files) {
+    const dup = bySha.get(f.sha256);
+    // A registered file whose bytes never arrived may be sent again.
+    if (dup && dup.status !== "pending") {
+      out.push({ id: dup.id, name: dup.fileName, status: dup.status, duplicate: true, url: null, method: "PUT", headers: {}, expiresInSeconds: null });
+      continue;
+    }
+    const row =
+      dup ??
+      (
+        await ctx.db
+          .insert(uploads)
+          .values({ labId: ctx.actor.labId, sessionId: data.sessionId, fileName: f.name, sizeBytes: f.size, sha256: f.sha256, storageKey: rawKey(ctx.actor.labId, f.sha256), status: "pending", createdBy: ctx.actor.userId })
+          .onConflictDoNothing()
+          .returning()
+      )[0] ??
+      (await ctx.db.select().from(uploads).where(and(eq(uploads.labId, ctx.actor.labId), eq(uploads.sha256, f.sha256))))[0];
+    bySha.set(f.sha256, row);
+    const put = await presignPut(row.storageKey, f.size);
+    out.push({ id: row.id, name: row.fileName, status: row.status, duplicate: false, url: put.url, method: "PUT", headers: put.headers, expiresInSeconds: put.expiresInSeconds });
+  }
+  await recordAudit(ctx, "upload.create", { type: "session", id: data.sessionId }, { files: data.files.length, duplicates: out.filter((u) => u.duplicate).length });
+  return { uploads: out };
+}

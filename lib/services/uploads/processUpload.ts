@@ -1,0 +1,120 @@
+import "server-only";
+import { eq, inArray } from "drizzle-orm";
+import type { DbOrTx } from "@/db/client";
+import { gapPicks, measurementSessions, spectra, tips, uploads } from "@/db/schema";
+import { sha256Hex } from "@/lib/auth/secrets";
+import { importSpectra, type ParsedSpectrum } from "@/lib/spectra";
+import { getObjectBytes } from "@/lib/storage/s3";
+import { autoPick, fieldFor, pickColumns } from "../analysis/analyzeSpectrum";
+import { refitSample, type RefitResult } from "../analysis/refitSample";
+import { loadSampleAnalysis } from "../analysis/sampleModel";
+
+const INSERT_BATCH = 400;
+
+export type ProcessOutcome =
+  | { status: "done"; spectra: number; refit: RefitResult }
+  | { status: "failed"; message: string }
+  | { status: "skipped"; reason: string };
+
+/**
+ * The worker's job for one raw file: read it from storage, parse it with the analysis core, store
+ * its spectra with their automatic picks and field estimates, and refit the sample. A file's
+ * spectra are stored in one transaction or not at all; running it again (a retry after a crash)
+ * replaces what an earlier run stored. A file that cannot be read is marked failed with the
+ * parser's message; its raw bytes stay in storage. Infrastructure errors (storage or database
+ * unreachable) are thrown, so the queue retries with backoff.
+ */
+export async function processUpload(db: DbOrTx, uploadId: string, hooks: { afterParse?: () => Promise<void> } = {}): Promise<ProcessOutcome> {
+  const [u] = await db.select().from(uploads).where(eq(uploads.id, uploadId));
+  if (!u) return { status: "skipped", reason: "no such upload" };
+  if (u.status === "done") return { status: "skipped", reason: "already done" };
+  await db.update(uploads).set({ status: "processing", attempts: u.attempts + 1, updatedAt: new Date() }).where(eq(uploads.id, u.id));
+
+  const bytes = await getObjectBytes(u.storageKey);
+  if (sha256Hex(bytes) !== u.sha256) {
+    return fail(db, u.id, "The stored bytes do not match the file's SHA-256: the transfer was damaged. Upload the file again.");
+  }
+  const files = importSpectra(u.fileName, bytes);
+  await hooks.afterParse?.();
+  const good = files.filter((f) => f.status === "ok" && f.spectra.length > 0);
+  const bad = files.filter((f) => f.status === "error");
+  if (good.length === 0) {
+    const message = bad.length === 1 ? (bad[0].message ?? "The file could not be read.") : bad.map((f) => `${f.file}: ${f.message}`).join("\n");
+    return fail(db, u.id, message || "The file holds no spectra.");
+  }
+
+  const [session] = await db.select().from(measurementSessions).where(eq(measurementSessions.id, u.sessionId));
+  const analysis = await loadSampleAnalysis(db, session.sampleId);
+  const [tip] = session.tipId ? await db.select().from(tips).where(eq(tips.id, session.tipId)) : [];
+  const model = analysis.modelFor(tip ?? null);
+
+  const warnings = [...files.flatMap((f) => f.warnings.map((w) => (files.length > 1 ? `${f.file}: ${w}` : w))), ...bad.map((f) => `${f.file} skipped: ${f.message}`)];
+  const all: ParsedSpectrum[] = good.flatMap((f) => f.spectra);
+  const prepared = all.map((s) => {
+    const meta = { ...s.meta, temperature_K: s.meta.temperature_K ?? session.temperatureK ?? undefined };
+    const pick = autoPick({ bias_V: s.bias_V, didv: s.didv, meta }, analysis.settings);
+    const field = fieldFor(model, meta);
+    const spectrumWarnings = [...s.warnings, ...pick.warnings, ...(field.warning ? [field.warning] : [])];
+    return { s, meta, pick, field, spectrumWarnings };
+  });
+  const noSetpoint = prepared.filter((p) => p.field.fieldVPerNm == null).length;
+  if (noSetpoint) warnings.push(`${noSetpoint} of ${prepared.length} spectra have no field estimate (no setpoint in the file): tag their setpoint to place them on the phase plot.`);
+
+  await db.transaction(async (tx) => {
+    const old = await tx.select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, u.id));
+    if (old.length) await tx.delete(spectra).where(inArray(spectra.id, old.map((o) => o.id)));
+    for (let i = 0; i < prepared.length; i += INSERT_BATCH) {
+      const batch = prepared.slice(i, i + INSERT_BATCH);
+      const rows = await tx
+        .insert(spectra)
+        .values(
+          batch.map(({ s, meta, field, spectrumWarnings }) => ({
+            labId: u.labId,
+            uploadId: u.id,
+            sessionId: u.sessionId,
+            sampleId: session.sampleId,
+            tipId: session.tipId,
+            sourceName: s.file,
+            indexInFile: s.index,
+            label: s.label,
+            rawSha256: u.sha256,
+            nPoints: s.bias_V.length,
+            biasV: s.bias_V,
+            didv: s.didv,
+            currentA: s.current_A,
+            setpointBiasV: meta.setpoint_bias_V ?? null,
+            setpointCurrentA: meta.setpoint_current_A ?? null,
+            zOffsetPm: meta.z_offset_pm ?? null,
+            lockinModulationMvRms: meta.lockin_modulation_mV_rms ?? null,
+            temperatureK: meta.temperature_K ?? null,
+            xNm: meta.x_nm ?? null,
+            yNm: meta.y_nm ?? null,
+            region: meta.region ?? null,
+            meta: meta.extra,
+            warnings: spectrumWarnings,
+            ...field,
+            fieldModelVersionId: analysis.fieldVersion.id,
+          })),
+        )
+        .returning({ id: spectra.id });
+      await tx.insert(gapPicks).values(batch.map((p, j) => ({ labId: u.labId, spectrumId: rows[j].id, ...pickColumns(p.pick, analysis.settingsVersion.id) })));
+    }
+    await tx
+      .update(uploads)
+      .set({ status: "done", message: null, spectraCount: prepared.length, warnings: warnings.slice(0, 200), updatedAt: new Date() })
+      .where(eq(uploads.id, u.id));
+  });
+  const refit = await refitSample(db, session.sampleId);
+  return { status: "done", spectra: prepared.length, refit };
+}
+
+async function fail(db: DbOrTx, id: string, message: string): Promise<ProcessOutcome> {
+  await db.update(uploads).set({ status: "failed", message, updatedAt: new Date() }).where(eq(uploads.id, id));
+  return { status: "failed", message };
+}
+
+/** After the queue's last retry: the file is marked failed with the reason, and its bytes are kept. */
+export async function markUploadFailed(db: DbOrTx, id: string, error: unknown): Promise<void> {
+  const reason = error instanceof Error ? error.message : String(error);
+  await fail(db, id, `Processing failed after several attempts (${reason}). The raw file is kept; retry once the problem is fixed.`);
+}

@@ -1,0 +1,91 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { closeDb } from "@/db/client";
+import type { MemberRole } from "@/db/schema";
+import { createSample } from "@/lib/services/samples/createSample";
+import { createToken } from "@/lib/services/tokens/tokens";
+import { APP_URL } from "../support/browser";
+import { makeLab, sampleBody, tipBody, type LabFixture } from "../support/fixtures";
+
+/** The HTTP API as scripts meet it: bearer tokens, JSON errors with the right status codes. */
+let a: LabFixture;
+let b: LabFixture;
+const tokens: Partial<Record<`${"a" | "b"}-${MemberRole}`, string>> = {};
+let aSampleId: string;
+
+const call = (method: string, path: string, token?: string, body?: unknown) =>
+  fetch(`${APP_URL}/api/v1${path}`, {
+    method,
+    headers: { ...(token ? { authorization: `Bearer ${token}` } : {}), ...(body !== undefined ? { "content-type": "application/json" } : {}) },
+    body: body === undefined ? undefined : typeof body === "string" ? body : JSON.stringify(body),
+  });
+
+beforeAll(async () => {
+  a = await makeLab("API A");
+  b = await makeLab("API B");
+  for (const role of ["owner", "microscopist", "analyst", "collaborator"] as const) {
+    tokens[`a-${role}`] = (await createToken({ ctx: a.ctx("owner"), input: { name: role, userId: a.people[role].id } })).token;
+  }
+  tokens["b-owner"] = (await createToken({ ctx: b.ctx("owner"), input: { name: "b" } })).token;
+  aSampleId = (await createSample({ ctx: a.ctx("owner"), input: sampleBody("A-private") })).id;
+});
+afterAll(closeDb);
+
+describe("HTTP API v1", () => {
+  it("401 without a token, with a JSON error body", async () => {
+    const res = await call("GET", "/samples");
+    expect(res.status).toBe(401);
+    expect(await res.json()).toEqual({ error: { code: "unauthorized", message: expect.any(String) } });
+  });
+
+  it("401 for an unknown token", async () => {
+    expect((await call("GET", "/samples", "bxt_not-a-real-token")).status).toBe(401);
+  });
+
+  it("POST /samples creates a sample with 201 and the API's field names", async () => {
+    const res = await call("POST", "/samples", tokens["a-microscopist"], sampleBody("API-made"));
+    expect(res.status).toBe(201);
+    expect(await res.json()).toMatchObject({ id: expect.any(String), name: "API-made", workFunction_eV: 3.9, workFunctionSigma_eV: 0.1 });
+  });
+
+  it("400 for malformed JSON, 422 with field errors for an invalid body, 409 for a duplicate", async () => {
+    expect((await call("POST", "/samples", tokens["a-owner"], "{not json")).status).toBe(400);
+    const bad = await call("POST", "/samples", tokens["a-owner"], { name: "", workFunction_eV: "lots" });
+    expect(bad.status).toBe(422);
+    const body = (await bad.json()) as { error: { code: string; fields: Record<string, string[]> } };
+    expect(body.error.code).toBe("invalid");
+    expect(Object.keys(body.error.fields)).toEqual(expect.arrayContaining(["name", "material", "workFunction_eV"]));
+    expect((await call("POST", "/samples", tokens["a-owner"], sampleBody("A-private"))).status).toBe(409);
+  });
+
+  it("a collaborator's token reads but every write is refused with 403", async () => {
+    const t = tokens["a-collaborator"];
+    expect((await call("GET", "/samples", t)).status).toBe(200);
+    expect((await call("POST", "/samples", t, sampleBody())).status).toBe(403);
+    expect((await call("PATCH", `/samples/${aSampleId}`, t, { notes: "x" })).status).toBe(403);
+    expect((await call("POST", "/tips", t, tipBody())).status).toBe(403);
+    expect((await call("POST", "/sessions", t, { sampleId: aSampleId, label: "x", date: "2026-11-01" })).status).toBe(403);
+  });
+
+  it("an analyst may create samples but not tips or sessions", async () => {
+    expect((await call("POST", "/samples", tokens["a-analyst"], sampleBody())).status).toBe(201);
+    expect((await call("POST", "/tips", tokens["a-analyst"], tipBody())).status).toBe(403);
+  });
+
+  it("lab B's token never sees lab A's records", async () => {
+    const t = tokens["b-owner"];
+    expect((await call("GET", `/samples/${aSampleId}`, t)).status).toBe(404);
+    expect((await call("PATCH", `/samples/${aSampleId}`, t, { notes: "x" })).status).toBe(404);
+    expect((await call("POST", "/sessions", t, { sampleId: aSampleId, label: "x", date: "2026-11-01" })).status).toBe(404);
+    const list = (await (await call("GET", "/samples", t)).json()) as { samples: { id: string }[] };
+    expect(list.samples.map((s) => s.id)).not.toContain(aSampleId);
+  });
+
+  it("a microscopist creates a tip and a session on it", async () => {
+    const tip = await call("POST", "/tips", tokens["a-microscopist"], tipBody());
+    expect(tip.status).toBe(201);
+    const { id: tipId } = (await tip.json()) as { id: string };
+    const s = await call("POST", "/sessions", tokens["a-microscopist"], { sampleId: aSampleId, tipId, date: "2026-11-20", temperature_K: 4.6, label: "approach A" });
+    expect(s.status).toBe(201);
+    expect(await s.json()).toMatchObject({ sampleId: aSampleId, tipId, temperature_K: 4.6 });
+  });
+});

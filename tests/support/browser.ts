@@ -1,0 +1,37 @@
+/**
+ * Browser tests drive Debian's chromium through playwright-core (no browser download). The app is
+ * built and served by `npm test` at APP_URL.
+ */
+import fs from "node:fs";
+import path from "node:path";
+import { chromium, type Browser, type Page } from "playwright-core";
+
+export const APP_URL = process.env.APP_URL ?? "http://localhost:3100";
+export const SHOTS_DIR = path.resolve("test-results/screenshots");
+
+export async function launch(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
+    args: ["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--disable-dev-shm-usage"],
+  });
+}
+
+export async function shot(page: Page, name: string): Promise<string> {
+  fs.mkdirSync(SHOTS_DIR, { recursive: true });
+  const file = path.join(SHOTS_DIR, `${name}.png`);
+  await page.screenshot({ path: file, fullPage: true });
+  return file;
+}
+
+/** Page object for the sign-in screen. */
+export class SignInPage {
+  constructor(private readonly page: Page) {}
+  async open() {
+    await this.page.goto(`${APP_URL}/sign-in`);
+  }
+  async signIn(email: string, password: string) {
+    await this.page.fill('[data-testid="sign-in-form"] input[name="email"]', email);
+    await this.page.fill('[data-testid="sign-in-form"] input[name="password"]', password);
+    await this.page.click('[data-testid="sign-in-submit"]');
+  }
+}
