@@ -38,7 +38,7 @@ export interface EdgeFitResult {
   vbSigma: number;
   cbSigma: number;
   mode: "separate" | "joint";
-  /** Joint fits: χ²(gap forced to 0) − χ²_min; below 3.84 the gap is consistent with zero at 95%. */
+  /** Joint fits: χ²(gap forced to 0) − χ²_min (2 parameters fewer: compare with χ²₂, 5.99 at 95%). */
   closedDeltaChi2: number | null;
   warnings: string[];
 }

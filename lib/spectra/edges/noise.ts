@@ -6,6 +6,7 @@
  */
 import { madSigma, median } from "../stats";
 
+
 export interface NoiseFloor {
   floor: number;
   /** σ of the raw data in the quiet region. */
@@ -23,16 +24,22 @@ export interface NoiseFloor {
  * @param y raw samples
  * @param s smoothed samples
  * @param gain noise gain of the smoothing filter, √(Σ hᵢ²) for its impulse response h
- * @param residualGain √(1 − 2h₀ + Σ hᵢ²): σ of (y − s) per unit σ of y
+ * @param residualGain unused (kept for callers); σ comes from first differences
  * @param k threshold multiplier
  * @param lo first index searched; hi last index searched (inclusive)
  */
 export function noiseFloor(y: Float64Array, s: Float64Array, gain: number, residualGain: number, k: number, lo: number, hi: number): NoiseFloor {
   let iMin = lo;
   for (let i = lo; i <= hi; i++) if (s[i] < s[iMin]) iMin = i;
-  const resid = new Float64Array(hi - lo + 1);
-  for (let i = lo; i <= hi; i++) resid[i - lo] = y[i] - s[i];
-  let sigma = madSigma(resid) / (residualGain > 0 ? residualGain : 1);
+  // σ from first differences (white noise: var(Δy) = 2σ²), which removes the slow signal and leaves
+  // the band edges as a few outliers that the median ignores; independent of the smoothing filter.
+  const diffSigma = (a: number, b: number) => {
+    const d = new Float64Array(b - a);
+    for (let i = a; i < b; i++) d[i - a] = y[i + 1] - y[i];
+    return madSigma(d) / Math.SQRT2;
+  };
+  let sigma = diffSigma(lo, hi);
+  void residualGain;
   let floor = s[iMin];
   let from = iMin;
   let to = iMin;
@@ -47,9 +54,7 @@ export function noiseFloor(y: Float64Array, s: Float64Array, gain: number, resid
     while (to < hi && s[to + 1] < level) to++;
     floor = median(y.subarray(from, to + 1));
     if (to - from + 1 >= 30) {
-      const r = new Float64Array(to - from + 1);
-      for (let i = from; i <= to; i++) r[i - from] = y[i] - s[i];
-      const sg = madSigma(r) / (residualGain > 0 ? residualGain : 1);
+      const sg = diffSigma(from, to);
       if (sg > 0) sigma = sg;
     }
     if (pass > 0 && from === f0 && to === t0) break;

@@ -12,7 +12,8 @@
  *    (0.05 × resolution after the fit, 0.5 × resolution for threshold edges).
  * A spectrum whose floor is a large fraction of its signal (metallic) or that has no edge on one side
  * is "no-gap". A gap is flagged `closed` ("closed within resolution") when it is below the resolution
- * or when, for close edges fitted jointly, a zero gap fits the data as well (Δχ² < 3.84); then the
+ * or when, for close edges fitted jointly, a zero gap fits the data as well (Δχ² below the 95% point
+ * of χ² with 2 degrees of freedom, 5.99); then the
  * uncertainty is widened so that the 95% range reaches zero.
  * Bias is the sample bias: positive bias probes empty states, so the conduction band is at V > 0 side.
  */
@@ -168,7 +169,8 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
       vbSigma = Math.hypot(fs(f.vbSigma), sampling / 4, 0.05 * res_V);
       cbSigma = Math.hypot(fs(f.cbSigma), sampling / 4, 0.05 * res_V);
       method = f.mode === "joint" ? "fit-joint" : "fit-separate";
-      consistentWithZero = f.closedDeltaChi2 !== null && f.closedDeltaChi2 < 3.841458820694124;
+      // Zero-gap model has two parameters fewer (the gap and one step): χ²₂ 95% quantile 5.991.
+      consistentWithZero = f.closedDeltaChi2 !== null && f.closedDeltaChi2 < 5.991464547107979;
       warnings.push(...f.warnings);
     } else {
       warnings.push("broadening-aware fit failed; threshold edges reported");
@@ -177,7 +179,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   const gap = Math.max(0, cb - vb);
   let uncertainty = Math.hypot(vbSigma, cbSigma);
   if (consistentWithZero) {
-    // A zero gap fits as well (Δχ² < 3.84): widen the error bar so that its 95% range reaches zero.
+    // A zero gap fits as well (Δχ² < 5.99): widen the error bar so that its 95% range reaches zero.
     uncertainty = Math.max(uncertainty, gap / 1.959963984540054);
     warnings.push("gap consistent with zero at 95% (closed within resolution)");
   }

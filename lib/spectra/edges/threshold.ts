@@ -31,9 +31,10 @@ export function thresholdEdgeDown(bias: Float64Array, s: Float64Array, start: nu
 }
 
 /**
- * Log-scale onset: fit ln(s − floor) against bias over the first `span` points beyond the edge that lie
- * above floor + σ, and return where that line meets ln σ (the noise level). Null if under 4 usable points
- * or the line does not rise away from the gap.
+ * Log-scale onset: fit ln(s − floor) against bias over the rising part of the onset — from the threshold
+ * edge outward, the points above floor + σ, up to `span` points or until the signal exceeds 30σ above the
+ * floor — and return where that line meets ln σ (the noise level). Null if under 4 usable points or the
+ * line does not rise away from the gap.
  */
 export function logOnset(bias: Float64Array, s: Float64Array, index: number, dir: 1 | -1, span: number, floor: number, sigma: number, lo: number, hi: number): number | null {
   let sx = 0, sy = 0, sxx = 0, sxy = 0, n = 0;
@@ -42,6 +43,7 @@ export function logOnset(bias: Float64Array, s: Float64Array, index: number, dir
     if (i < lo || i > hi) break;
     const d = s[i] - floor;
     if (!(d > sigma)) continue;
+    if (d > 30 * sigma && n >= 4) break;
     const x = bias[i];
     const ly = Math.log(d);
     sx += x; sy += ly; sxx += x * x; sxy += x * ly; n++;
