@@ -1,0 +1,158 @@
+import { spawn } from "node:child_process";
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { zipSync } from "fflate";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { makeSpectrum, makeSweep, type SyntheticSpectrum } from "@/lib/spectra";
+
+const root = new URL("../../../", import.meta.url).pathname;
+let dir = "";
+
+function toCsv(s: SyntheticSpectrum): string {
+  const m = s.meta;
+  const lines = [
+    `# setpoint_bias_V: ${m.setpoint_bias_V}`,
+    `# setpoint current (pA): ${(m.setpoint_current_A! * 1e12).toPrecision(8)}`,
+    `# temperature_K: ${m.temperature_K}`,
+    `# lockin_modulation_mV_rms: ${m.lockin_modulation_mV_rms}`,
+    "bias (mV),dI/dV (a.u.)",
+  ];
+  for (let i = 0; i < s.bias_V.length; i++) lines.push(`${(s.bias_V[i] * 1000).toFixed(4)},${s.didv[i].toExponential(8)}`);
+  return lines.join("\n") + "\n";
+}
+
+interface Run {
+  code: number | null;
+  stdout: string;
+  stderr: string;
+}
+
+function cli(args: string[]): Promise<Run> {
+  return new Promise((resolve) => {
+    const p = spawn("npx", ["tsx", "lib/cli/main.ts", ...args], { cwd: root, env: { ...process.env, NO_COLOR: "1" } });
+    let stdout = "";
+    let stderr = "";
+    p.stdout.on("data", (d) => (stdout += d));
+    p.stderr.on("data", (d) => (stderr += d));
+    p.on("close", (code) => resolve({ code, stdout, stderr }));
+  });
+}
+
+const runs: Record<string, Run> = {};
+const truthEc = 0.97;
+
+beforeAll(async () => {
+  dir = mkdtempSync(join(tmpdir(), "bandcross-cli-"));
+  const f = (name: string) => join(dir, name);
+  const good = makeSpectrum({ vbEdge_V: -0.12, cbEdge_V: 0.18, T_K: 4.5, vrms_mV: 2, seed: 61 });
+  writeFileSync(f("good.csv"), toCsv(good));
+  const lines = ["# temperature_K: 4.5", "# lockin_modulation_mV_rms: 2", "bias (V)\tdI/dV 1\tdI/dV 2"];
+  const other = makeSpectrum({ vbEdge_V: -0.2, cbEdge_V: 0.1, T_K: 4.5, vrms_mV: 2, seed: 62 });
+  for (let i = 0; i < good.bias_V.length; i++) lines.push(`${good.bias_V[i]}\t${good.didv[i]}\t${other.didv[i]}`);
+  writeFileSync(f("line.tsv"), lines.join("\n"));
+  const raggedLines = toCsv(good).split("\n");
+  raggedLines[29] += ",7"; // line 30 of the file
+  writeFileSync(f("ragged.csv"), raggedLines.join("\n"));
+  writeFileSync(f("blob.bin"), new Uint8Array([0, 1, 2, 3, 0, 0, 0xff, 0x10, 0, 0]));
+  writeFileSync(f("run.zip"), zipSync({ "a.csv": new TextEncoder().encode(toCsv(good)), "../escape.csv": new TextEncoder().encode(toCsv(good)) }));
+  const sw = makeSweep({ seed: 31, n: 16, criticalField_V_per_nm: truthEc, slopeRatio: 0.9 });
+  const sweepFiles = sw.spectra.map((s, k) => {
+    const name = f(`sweep-${String(k).padStart(2, "0")}.csv`);
+    writeFileSync(name, toCsv(s));
+    return name;
+  });
+  const shrink = makeSweep({ seed: 32, n: 12, criticalField_V_per_nm: 1.3 });
+  const shrinkFiles = shrink.spectra.map((s, k) => {
+    const name = f(`shrink-${k}.csv`);
+    writeFileSync(name, toCsv(s));
+    return name;
+  });
+  const wf = ["--tip-work-function", "4.7", "--sample-work-function", "3.9"];
+  const jobs: [string, string[]][] = [
+    ["mixed", ["analyze", f("good.csv"), f("line.tsv"), f("ragged.csv"), f("blob.bin"), f("run.zip"), f("missing.csv"), "--json"]],
+    ["table", ["analyze", f("good.csv"), f("line.tsv")]],
+    ["sweep", ["sweep", ...sweepFiles, ...wf, "--contact-distance", "0.25", "--json"]],
+    ["shrink", ["sweep", ...shrinkFiles, ...wf]],
+    ["usage", ["sweep", f("good.csv"), "--json"]],
+    ["unknown", ["analyze", f("good.csv"), "--frobnicate"]],
+  ];
+  const results = await Promise.all(jobs.map(([, a]) => cli(a)));
+  jobs.forEach(([k], i) => (runs[k] = results[i]));
+}, 120_000);
+
+afterAll(() => {
+  if (dir) rmSync(dir, { recursive: true, force: true });
+});
+
+const noStack = (r: Run) => expect(`${r.stdout}\n${r.stderr}`).not.toMatch(/\n\s+at .+:\d+:\d+/);
+
+describe("bandcross analyze", () => {
+  it("lists every spectrum and every rejected file, exits 1 when any file is rejected", () => {
+    const r = runs.mixed;
+    expect(r.code).toBe(1);
+    noStack(r);
+    const out = JSON.parse(r.stdout);
+    const files = out.spectra.map((e: { file: string }) => e.file);
+    expect(files).toEqual(["good.csv", "line.tsv", "line.tsv", "ragged.csv", "blob.bin", "run.zip/a.csv", "run.zip/../escape.csv", "missing.csv"]);
+    const byFile = (name: string) => out.spectra.filter((e: { file: string }) => e.file === name);
+    const good = byFile("good.csv")[0];
+    expect(Object.keys(good)).toEqual(expect.arrayContaining(["file", "index", "status", "message", "warnings", "gap"]));
+    expect(Object.keys(good.gap)).toEqual(expect.arrayContaining(["vbEdge_V", "cbEdge_V", "gap_eV", "midgap_V", "uncertainty_eV", "closed"]));
+    expect(good.status).toBe("ok");
+    expect(Math.abs(good.gap.gap_eV - 0.3)).toBeLessThan(0.005);
+    expect(Math.abs(good.gap.midgap_V - 0.03)).toBeLessThan(0.005);
+    expect(byFile("line.tsv").map((e: { index: number }) => e.index)).toEqual([0, 1]);
+    expect(Math.abs(byFile("line.tsv")[1].gap.gap_eV - 0.3)).toBeLessThan(0.005);
+    expect(byFile("ragged.csv")[0]).toMatchObject({ status: "error", gap: null });
+    expect(byFile("ragged.csv")[0].message).toMatch(/^line 30: ragged row with 3 cells where 2 were expected$/);
+    expect(byFile("blob.bin")[0].message).toMatch(/binary/);
+    expect(byFile("run.zip/a.csv")[0].status).toBe("ok");
+    expect(byFile("run.zip/../escape.csv")[0].message).toMatch(/refused/);
+    expect(byFile("missing.csv")[0].message).toMatch(/no such file/);
+  });
+  it("prints a readable table without --json and exits 0 when every file was read", () => {
+    const r = runs.table;
+    expect(r.code).toBe(0);
+    expect(r.stdout.split("\n")[0]).toMatch(/^file\s+#\s+status\s+VB edge \(mV\)\s+CB edge \(mV\)\s+gap \(meV\)/);
+    expect(r.stdout).toMatch(/good\.csv\s+0\s+ok\s+-12\d\.\d\s+1[78]\d\.\d\s+30\d\.\d ± \d+\.\d/);
+  });
+  it("an unknown option is a usage error with a message, exit 2, no stack trace", () => {
+    expect(runs.unknown.code).toBe(2);
+    expect(runs.unknown.stderr).toMatch(/frobnicate/);
+    noStack(runs.unknown);
+  });
+});
+
+describe("bandcross sweep", () => {
+  it("adds distance and field to every entry and finds the crossing", () => {
+    const r = runs.sweep;
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.spectra).toHaveLength(16);
+    for (const e of out.spectra) {
+      expect(e.distance_nm).toBeGreaterThan(0.5);
+      expect(e.field_V_per_nm).toBeGreaterThan(0.8);
+    }
+    const c = out.crossing;
+    expect(Object.keys(c)).toEqual(expect.arrayContaining(["state", "found", "field_V_per_nm", "ci95_V_per_nm", "slopes"]));
+    expect(c.state).toBe("crossed");
+    expect(c.found).toBe(true);
+    // Goal: within 0.03 V/nm of the truth and inside the 95% interval.
+    expect(Math.abs(c.field_V_per_nm - truthEc)).toBeLessThan(0.03);
+    expect(c.ci95_V_per_nm[0]).toBeLessThanOrEqual(truthEc);
+    expect(c.ci95_V_per_nm[1]).toBeGreaterThanOrEqual(truthEc);
+    expect(c.slopes.below).toBeLessThan(0);
+    expect(c.slopes.above).toBeGreaterThan(0);
+  });
+  it("a sweep that only shrinks says closing, not crossed", () => {
+    expect(runs.shrink.code).toBe(0);
+    expect(runs.shrink.stdout).toMatch(/closing, not yet crossed: the gap extrapolates to zero at 1\.\d+ V\/nm/);
+  });
+  it("missing work functions: a usage message, exit 2, nothing on stdout", () => {
+    expect(runs.usage.code).toBe(2);
+    expect(runs.usage.stdout).toBe("");
+    expect(runs.usage.stderr).toMatch(/--tip-work-function and --sample-work-function are required/);
+    noStack(runs.usage);
+  });
+});
