@@ -43,9 +43,15 @@ export interface Analysed {
   pick: GapPick | null;
 }
 
-export function parse(argv: string[], options: ParseArgsConfig["options"]) {
+export interface ParsedArgs {
+  values: Record<string, string | boolean | undefined>;
+  positionals: string[];
+}
+
+export function parse(argv: string[], options: NonNullable<ParseArgsConfig["options"]>): ParsedArgs {
   try {
-    return parseArgs({ args: argv, options, allowPositionals: true, strict: true });
+    const r = parseArgs({ args: argv, options, allowPositionals: true, strict: true });
+    return { values: r.values as ParsedArgs["values"], positionals: r.positionals };
   } catch (e) {
     throw new CliUsageError((e as Error).message.replace(/^TypeError \[[A-Z_]+\]: /, ""));
   }

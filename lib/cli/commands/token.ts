@@ -1,0 +1,66 @@
+/**
+ * bandcross token create --lab SLUG [--email EMAIL] [--name NAME]
+ * Run on the server: talks to the database directly and prints a new API token for a member of the
+ * lab (by default its first owner). The token is on the last line of the output.
+ */
+import fs from "node:fs";
+import path from "node:path";
+import type { Command } from "../io";
+import { CliUsageError } from "../io";
+import { parse } from "../shared";
+
+const usage = `usage: bandcross token create --lab SLUG [--email EMAIL] [--name NAME]
+  --lab SLUG      the lab's slug (the demo lab's is "demo")
+  --email EMAIL   the member the token acts as (default: the lab's first owner)
+  --name NAME     a label shown in lab settings (default "command line")
+Needs DATABASE_URL, or the local stack's .data/env.local (written by npm start).`;
+
+/** Reads KEY=VALUE lines (optionally quoted) into process.env, without overriding what is set. */
+export function loadEnvFile(file: string): boolean {
+  if (!fs.existsSync(file)) return false;
+  for (const line of fs.readFileSync(file, "utf8").split(/\r?\n/)) {
+    const m = /^([A-Z][A-Z0-9_]*)=(.*)$/.exec(line.trim());
+    if (!m || process.env[m[1]] !== undefined) continue;
+    process.env[m[1]] = m[2].replace(/^'(.*)'$/, "$1").replace(/^"(.*)"$/, "$1");
+  }
+  return true;
+}
+
+export const token: Command = {
+  name: "token",
+  summary: "create an API token for a lab member (run on the server)",
+  usage,
+  async run(argv, io) {
+    const [verb, ...rest] = argv;
+    if (verb === "--help" || verb === "-h") {
+      io.out(usage + "\n");
+      return 0;
+    }
+    if (verb !== "create") throw new CliUsageError(verb ? `unknown token action "${verb}"` : "say what to do: token create");
+    const { values } = parse(rest, { lab: { type: "string" }, email: { type: "string" }, name: { type: "string" }, help: { type: "boolean", short: "h" } });
+    if (values.help) {
+      io.out(usage + "\n");
+      return 0;
+    }
+    const lab = values.lab as string | undefined;
+    if (!lab) throw new CliUsageError("--lab is required");
+    if (!process.env.DATABASE_URL) loadEnvFile(path.join(process.cwd(), ".data", "env.local"));
+    if (!process.env.DATABASE_URL) {
+      io.err("bandcross token: DATABASE_URL is not set and .data/env.local was not found (start the stack with npm start first)\n");
+      return 1;
+    }
+    const [{ createTokenForLab }, { db, closeDb }] = await Promise.all([import("../../services/tokens/tokens"), import("../../../db/client")]);
+    try {
+      const made = await createTokenForLab({ db: db(), labSlug: lab, email: values.email as string | undefined, name: values.name as string | undefined });
+      io.err(`token "${made.row.name}" for ${made.member.email} (${made.member.role}) in lab ${made.lab.slug}; it is shown once:\n`);
+      io.out(`${made.token}\n`);
+      return 0;
+    } catch (e) {
+      const code = (e as { code?: string }).code;
+      io.err(`bandcross token: ${code === "not_found" ? (e as Error).message : `could not create the token: ${(e as Error).message}`}\n`);
+      return 1;
+    } finally {
+      await closeDb();
+    }
+  },
+};
