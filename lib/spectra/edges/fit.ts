@@ -14,7 +14,7 @@
  * each other both are fitted together (one floor, two onsets), alternating the two searches.
  */
 import { type BroadeningKernel, convolvedOnset } from "../resolution";
-import { goldenMinimize, linearLeastSquares } from "../stats";
+import { goldenMinimize } from "../stats";
 
 export interface EdgeFitInput {
   bias: Float64Array;
@@ -63,15 +63,88 @@ function onsetColumns(bias: Float64Array, i0: number, i1: number, e: number, sid
   return s2 ? [s0, s1, s2] : [s0, s1];
 }
 
+const MAXP = 8;
+const scratchA = new Float64Array(MAXP * MAXP);
+const scratchB = new Float64Array(MAXP);
+const work = new Float64Array(MAXP * MAXP);
+const workB = new Float64Array(MAXP);
+
+/** Solve the sub-system of (A, b) (p×p, row-major) restricted to `use`; returns bᵀx, or NaN if singular. */
+function solveSub(p: number, use: boolean[], x: Float64Array): number {
+  const idx: number[] = [];
+  for (let i = 0; i < p; i++) if (use[i]) idx.push(i);
+  const m = idx.length;
+  let scale = 0;
+  for (let r = 0; r < m; r++) {
+    for (let c = 0; c < m; c++) {
+      const v = scratchA[idx[r] * p + idx[c]];
+      work[r * m + c] = v;
+      scale = Math.max(scale, Math.abs(v));
+    }
+    workB[r] = scratchB[idx[r]];
+  }
+  // Gaussian elimination with partial pivoting on the small system.
+  for (let c = 0; c < m; c++) {
+    let piv = c;
+    for (let r = c + 1; r < m; r++) if (Math.abs(work[r * m + c]) > Math.abs(work[piv * m + c])) piv = r;
+    if (!(Math.abs(work[piv * m + c]) > scale * 1e-13)) return NaN;
+    if (piv !== c) {
+      for (let k = 0; k < m; k++) {
+        const t = work[c * m + k];
+        work[c * m + k] = work[piv * m + k];
+        work[piv * m + k] = t;
+      }
+      const t = workB[c];
+      workB[c] = workB[piv];
+      workB[piv] = t;
+    }
+    for (let r = c + 1; r < m; r++) {
+      const f = work[r * m + c] / work[c * m + c];
+      if (f === 0) continue;
+      for (let k = c; k < m; k++) work[r * m + k] -= f * work[c * m + k];
+      workB[r] -= f * workB[c];
+    }
+  }
+  for (let r = m - 1; r >= 0; r--) {
+    let v = workB[r];
+    for (let k = r + 1; k < m; k++) v -= work[r * m + k] * x[idx[k]];
+    x[idx[r]] = v / work[r * m + r];
+  }
+  let bx = 0;
+  for (let r = 0; r < m; r++) bx += scratchB[idx[r]] * x[idx[r]];
+  for (let i = 0; i < p; i++) if (!use[i]) x[i] = 0;
+  return bx;
+}
+
+/**
+ * Residual sum of squares of the least-squares fit of y by the columns, RSS = yᵀy − bᵀx (normal
+ * equations, no allocation). A physical onset does not step down: step coefficients (indices in
+ * `stepCol`) that come out negative are fixed at zero and the rest refitted.
+ */
 function rssOf(cols: Float64Array[], y: Float64Array, stepCol: number[]): number {
-  const r = linearLeastSquares(cols, y);
-  if (!r) return Infinity;
-  // A physical onset does not step down: if a step coefficient is negative, refit without it.
-  const neg = stepCol.filter((c) => r.coef[c] < 0);
-  if (neg.length === 0) return r.rss;
-  const keep = cols.filter((_, i) => !neg.includes(i));
-  const r2 = linearLeastSquares(keep, y);
-  return r2 ? r2.rss : Infinity;
+  const p = cols.length;
+  const n = y.length;
+  scratchA.fill(0, 0, p * p);
+  scratchB.fill(0, 0, p);
+  let yy = 0;
+  for (let i = 0; i < n; i++) {
+    const yi = y[i];
+    yy += yi * yi;
+    for (let r = 0; r < p; r++) {
+      const xr = cols[r][i];
+      scratchB[r] += xr * yi;
+      for (let c = r; c < p; c++) scratchA[r * p + c] += xr * cols[c][i];
+    }
+  }
+  for (let r = 0; r < p; r++) for (let c = 0; c < r; c++) scratchA[r * p + c] = scratchA[c * p + r];
+  const use = new Array<boolean>(p).fill(true);
+  const x = new Float64Array(p);
+  let bx = solveSub(p, use, x);
+  let again = false;
+  for (const c of stepCol) if (x[c] < 0) { use[c] = false; again = true; }
+  if (again) bx = solveSub(p, use, x);
+  if (!Number.isFinite(bx)) return Infinity;
+  return Math.max(0, yy - bx);
 }
 
 /** Minimise f over [a, b]: grid scan with `n` points, then golden-section around the best cell. */
@@ -114,7 +187,7 @@ function indexRange(bias: Float64Array, from: number, to: number, lo: number, hi
 export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
   const { bias, y, kernel, vbGuess, cbGuess, sigma, resolution_V: res, step_V: step, bandWindow_V: W, lo, hi } = inp;
   const warnings: string[] = [];
-  const tol = Math.min(step, res) / 200;
+  const tol = Math.min(step, res) / 50;
   // Thermal tails (∝ e^(−x/k_BT)) can push the threshold edge into the gap by several k_BT; lock-in
   // and a weak onset push it outward. Search both ways generously.
   const kT = (kernel.T_K * 8.617333262e-5);
@@ -136,12 +209,12 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
       const a = side === "cb" ? Math.max(mid, guess - below) : guess - beyond;
       const b = side === "cb" ? guess + beyond : Math.min(mid, guess + below);
       if (!(b > a)) return null;
-      let m = scanMinimize(f, a, b, 41, tol);
+      let m = scanMinimize(f, a, b, 25, tol);
       if (m.atBound) {
         // The threshold edge can sit further out than expected (a weak onset in strong noise): widen once.
         const a2 = side === "cb" ? Math.max(mid, a - below) : a - beyond;
         const b2 = side === "cb" ? b + beyond : Math.min(mid, b + below);
-        m = scanMinimize(f, a2, b2, 61, tol);
+        m = scanMinimize(f, a2, b2, 41, tol);
       }
       if (!Number.isFinite(m.fx)) return null;
       if (m.atBound) warnings.push(`${side === "cb" ? "conduction" : "valence"}-band edge fit reached its search limit`);
@@ -158,7 +231,7 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
   const yy = y.subarray(i0, i1 + 1);
   const ones = new Float64Array(i1 - i0 + 1).fill(1);
   // Coarse 2-D grid (the two edges are correlated when close), then alternating golden refinement.
-  const G = 21;
+  const G = 15;
   const vA = vbGuess - beyond;
   const vB = vbGuess + below;
   const cA = cbGuess - below;
