@@ -42,15 +42,22 @@ if (!fs.existsSync(path.join(ROOT, "package.json")) || !fs.existsSync(path.join(
   process.exit(2);
 }
 
+// BANDCROSS_PORT_OFFSET shifts every port, so a second checkout can run beside this one.
+const offset = Number(process.env.BANDCROSS_PORT_OFFSET || 0);
+if (!Number.isInteger(offset) || offset < 0 || offset > 20000) {
+  console.error("BANDCROSS_PORT_OFFSET must be a whole number between 0 and 20000");
+  process.exit(2);
+}
+const shift = (p: Ports): Ports => ({ pg: p.pg + offset, s3: p.s3 + offset, mail: p.mail + offset, app: p.app + offset });
 const cfg =
   mode === "start"
     ? {
         dataDir: path.join(ROOT, ".data"),
-        ports: { pg: 54329, s3: 9010, mail: 9020, app: Number(process.env.PORT || 3000) } satisfies Ports,
+        ports: shift({ pg: 54329, s3: 9010, mail: 9020, app: Number(process.env.PORT || 3000) }),
       }
     : {
         dataDir: path.join(ROOT, ".test-data"),
-        ports: { pg: 54339, s3: 9011, mail: 9021, app: 3100 } satisfies Ports,
+        ports: shift({ pg: 54339, s3: 9011, mail: 9021, app: 3100 }),
       };
 const quiet = mode === "test";
 const logDir = path.join(cfg.dataDir, "logs");
@@ -312,7 +319,8 @@ async function serve(env: Record<string, string | undefined>) {
     sup.start({
       name: "worker",
       cmd: NODE,
-      args: [...TSX, "lib/jobs/worker.ts"],
+      // react-server: the worker imports server-only modules, which refuse to load elsewhere.
+      args: ["--conditions=react-server", ...TSX, "lib/jobs/worker.ts"],
       env: appEnv,
       logFile: path.join(logDir, "worker.log"),
       echo: !quiet,

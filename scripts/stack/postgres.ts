@@ -6,7 +6,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import pg from "pg";
-import { cmdline, isAlive, portFree, sleep } from "./proc";
+import { cmdline, isAlive, listenerPids, portFree, procCwd, sleep } from "./proc";
 
 export interface PgOptions {
   /** the data folder of the stack (.data or .test-data) */
@@ -239,8 +239,10 @@ export async function ensurePostgres(o: PgOptions): Promise<PgCluster> {
   if (running) {
     o.log(`PostgreSQL already running (pid ${running.pid}), reusing it`);
   } else {
+    if (!(await portFree(o.port))) await stopOrphanedServer(o, pgdata);
     if (!(await portFree(o.port))) {
-      throw new Error(`port ${o.port} on 127.0.0.1 is used by another program; stop it or free the port`);
+      const who = listenerPids(o.port).map((p) => `pid ${p}: ${cmdline(p).slice(0, 100)}`).join("; ");
+      throw new Error(`port ${o.port} on 127.0.0.1 is used by another program${who ? ` (${who})` : ""}; stop it or free the port`);
     }
     const opts = `-c listen_addresses=127.0.0.1 -p ${o.port} -k ${socketDir}`;
     const r = run(binDir, user, "pg_ctl", ["-D", pgdata, "-l", logFile, "-w", "-t", "60", "-o", opts, "start"]);
@@ -253,6 +255,26 @@ export async function ensurePostgres(o: PgOptions): Promise<PgCluster> {
   // 3. the database
   await createDatabaseIfMissing(o);
   return { pgdata, socketDir, logFile, binDir, startedHere };
+}
+
+/**
+ * A postmaster of this project's cluster that lost its lock file — typically because the data folder
+ * was deleted while it ran — still holds the port. It serves nothing useful: stop it.
+ */
+async function stopOrphanedServer(o: PgOptions, pgdata: string) {
+  for (const pid of listenerPids(o.port)) {
+    const cwd = procCwd(pid)?.replace(/ \(deleted\)$/, "");
+    if (!/postgres|postmaster/.test(cmdline(pid)) || cwd !== pgdata) continue;
+    o.log(`stopping an orphaned PostgreSQL server of this folder (pid ${pid}) that holds port ${o.port}`);
+    try {
+      process.kill(pid, "SIGINT"); // fast shutdown
+    } catch {
+      continue;
+    }
+    for (let i = 0; i < 100 && isAlive(pid); i++) await sleep(100);
+    if (isAlive(pid)) process.kill(pid, "SIGQUIT"); // immediate shutdown
+    for (let i = 0; i < 50 && isAlive(pid); i++) await sleep(100);
+  }
 }
 
 async function createDatabaseIfMissing(o: PgOptions) {
