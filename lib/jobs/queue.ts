@@ -22,16 +22,25 @@ export function jobExpireSeconds(): number {
   return Number(process.env.JOB_EXPIRE_SECONDS ?? 600);
 }
 
-const globalForBoss = globalThis as unknown as { bandcrossBoss?: Promise<PgBoss> };
+const globalForBoss = globalThis as unknown as { bandcrossBoss?: Promise<PgBoss>; bandcrossBossRole?: "worker" | "sender" };
 
-export function boss(): Promise<PgBoss> {
+/**
+ * The queue client of this process. Web processes only send jobs; worker processes also run the
+ * queue's upkeep (expiring jobs of dead workers so they are retried, archiving old ones).
+ */
+export function boss(role: "worker" | "sender" = "sender"): Promise<PgBoss> {
+  if (globalForBoss.bandcrossBoss && role === "worker" && globalForBoss.bandcrossBossRole !== "worker") {
+    throw new Error("the queue client was started as a sender; start the worker before sending");
+  }
+  globalForBoss.bandcrossBossRole ??= role;
   globalForBoss.bandcrossBoss ??= (async () => {
     const b = new PgBoss({
+      supervise: role === "worker",
+      schedule: false,
       connectionString: env().DATABASE_URL,
       max: Number(process.env.JOB_POOL_MAX ?? 4),
       application_name: "bandcross-jobs",
       maintenanceIntervalSeconds: Number(process.env.JOB_MAINTENANCE_SECONDS ?? 60),
-      monitorStateIntervalSeconds: undefined,
     });
     b.on("error", (e) => console.error("[jobs]", e instanceof Error ? e.message : e));
     await b.start();
@@ -49,7 +58,8 @@ export function boss(): Promise<PgBoss> {
  */
 export async function enqueueProcessUpload(uploadId: string, opts: { retry?: boolean } = {}): Promise<void> {
   const b = await boss();
-  await b.send(QUEUES.processUpload, { uploadId } satisfies ProcessUploadJob, opts.retry ? {} : { id: uploadId });
+  const options = { expireInSeconds: jobExpireSeconds(), ...(opts.retry ? {} : { id: uploadId }) };
+  await b.send(QUEUES.processUpload, { uploadId } satisfies ProcessUploadJob, options);
 }
 
 export async function enqueueReanalyzeSample(job: ReanalyzeSampleJob): Promise<void> {
@@ -61,5 +71,6 @@ export async function enqueueReanalyzeSample(job: ReanalyzeSampleJob): Promise<v
 export async function stopBoss(): Promise<void> {
   const b = await globalForBoss.bandcrossBoss;
   globalForBoss.bandcrossBoss = undefined;
+  globalForBoss.bandcrossBossRole = undefined;
   await b?.stop({ graceful: true, wait: true, timeout: 10_000 });
 }

@@ -16,13 +16,22 @@ const log = (msg: string) => console.log(`[worker ${process.pid}] ${msg}`);
 
 const lastTry = (job: PgBoss.JobWithMetadata<unknown>) => job.retryCount >= job.retryLimit;
 
+/**
+ * Fault injection for the crash-recovery test only (NODE_ENV=test): WORKER_FAULT=hang-after-parse
+ * makes this worker stop forever mid-job, as a killed process would, so the test can kill it.
+ */
+function faultHooks() {
+  if (process.env.NODE_ENV !== "test" || process.env.WORKER_FAULT !== "hang-after-parse") return {};
+  return { afterParse: () => new Promise<void>(() => log("fault injection: hanging mid-job")) };
+}
+
 export async function startWorker(): Promise<() => Promise<void>> {
-  const b = await boss();
+  const b = await boss("worker");
   const concurrency = Number(process.env.WORKER_CONCURRENCY ?? 2);
   const handleUpload = async ([job]: PgBoss.JobWithMetadata<ProcessUploadJob>[]) => {
     const started = Date.now();
     try {
-      const out = await processUpload(db(), job.data.uploadId);
+      const out = await processUpload(db(), job.data.uploadId, faultHooks());
       log(`${QUEUES.processUpload} ${job.data.uploadId}: ${out.status}${out.status === "done" ? ` (${out.spectra} spectra, ${Date.now() - started} ms)` : ""}`);
       if (out.status === "done") await afterRefit(db(), out.refit);
     } catch (e) {

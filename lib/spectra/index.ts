@@ -41,3 +41,4 @@ export { tunnellingDistance, decayConstant_per_nm, apparentBarrierHeight_eV, typ
 export { estimateField, fieldAssumptions, type FieldEstimate } from "./field";
 export { fitCrossing, type CrossingPoint, type CrossingFit } from "./crossing";
 export { makeSpectrum, makeSweep, modelDidv, sweepGap_eV, type SpectrumModel, type SyntheticSpectrum, type SweepModel, type SyntheticSweepPoint } from "./synthetic";
+export { spectrumToCsv, columnsToCsv } from "./write";

@@ -4,6 +4,7 @@ import type { DbOrTx } from "@/db/client";
 import { extractionSettingsVersions, fieldModelVersions, labs, samples, type Tip } from "@/db/schema";
 import { resolveExtractionSettings, resolveFieldModel, type ExtractionSettings, type FieldModel } from "@/lib/spectra";
 import { notFound } from "../errors";
+import { initialVersionRows } from "../samples/initialVersions";
 
 /** The stored part of a field model version: the work functions come from the sample and each spectrum's tip. */
 export interface StoredFieldModel {
@@ -29,9 +30,15 @@ export interface SampleAnalysis {
 export async function loadSampleAnalysis(db: DbOrTx, sampleId: string): Promise<SampleAnalysis> {
   const [row] = await db.select({ sample: samples, lab: labs }).from(samples).innerJoin(labs, eq(labs.id, samples.labId)).where(eq(samples.id, sampleId));
   if (!row) throw notFound("sample");
-  const [sv] = await db.select().from(extractionSettingsVersions).where(eq(extractionSettingsVersions.sampleId, sampleId)).orderBy(desc(extractionSettingsVersions.version)).limit(1);
-  const [fv] = await db.select().from(fieldModelVersions).where(eq(fieldModelVersions.sampleId, sampleId)).orderBy(desc(fieldModelVersions.version)).limit(1);
-  if (!sv || !fv) throw new Error(`sample ${sampleId} has no settings versions`);
+  let [sv] = await db.select().from(extractionSettingsVersions).where(eq(extractionSettingsVersions.sampleId, sampleId)).orderBy(desc(extractionSettingsVersions.version)).limit(1);
+  let [fv] = await db.select().from(fieldModelVersions).where(eq(fieldModelVersions.sampleId, sampleId)).orderBy(desc(fieldModelVersions.version)).limit(1);
+  if (!sv || !fv) {
+    // A sample made before versions existed (or by hand) starts at version 1 of the defaults.
+    const rows = initialVersionRows(row.sample.labId, sampleId, null);
+    if (!sv) [sv] = await db.insert(extractionSettingsVersions).values(rows.settings).onConflictDoNothing().returning();
+    if (!fv) [fv] = await db.insert(fieldModelVersions).values(rows.field).onConflictDoNothing().returning();
+    if (!sv || !fv) return loadSampleAnalysis(db, sampleId);
+  }
   const settings = resolveExtractionSettings(sv.settings as never);
   const fieldStored = fv.model as unknown as StoredFieldModel;
   const { sample, lab } = row;

@@ -47,12 +47,13 @@ export async function completeUpload({ ctx, input }: { ctx: Ctx; input: { id: st
   const size = await objectSize(u.storageKey);
   if (size == null) throw conflict("The file has not arrived in storage yet: send it with the presigned URL first (or ask for a new one if it expired).");
   if (size !== u.sizeBytes) throw invalid(`Storage holds ${size} bytes but ${u.sizeBytes} were announced; upload the file again.`);
+  // Queue first: if that fails the upload stays pending and "complete" can simply be called again.
+  await enqueueProcessUpload(u.id);
   const [row] = await ctx.db
     .update(uploads)
     .set({ status: "queued", updatedAt: new Date() })
     .where(and(eq(uploads.id, u.id), eq(uploads.status, "pending")))
     .returning();
-  await enqueueProcessUpload(u.id);
   await recordAudit(ctx, "upload.complete", { type: "upload", id: u.id });
   return { id: u.id, status: row?.status ?? "queued" };
 }

@@ -1,0 +1,69 @@
+/**
+ * Helpers for tests of the upload pipeline against the real services started by `npm test`:
+ * the presigned upload exactly as a browser or `bandcross push` does it, background workers as
+ * separate processes (so one can be killed), and waiting for processing.
+ */
+import { spawn, type ChildProcess } from "node:child_process";
+import { createHash } from "node:crypto";
+import { eq } from "drizzle-orm";
+import { db } from "@/db/client";
+import { uploads } from "@/db/schema";
+import type { Ctx } from "@/lib/services/context";
+import { createUploads } from "@/lib/services/uploads/createUploads";
+import { completeUpload } from "@/lib/services/uploads/uploadStatus";
+
+export const sha256 = (b: Uint8Array) => createHash("sha256").update(b).digest("hex");
+export const bytesOf = (text: string) => new TextEncoder().encode(text);
+
+/** Registers, PUTs to the presigned URL and completes one file; returns the upload id. */
+export async function uploadFile(ctx: Ctx, sessionId: string, name: string, bytes: Uint8Array): Promise<{ id: string; duplicate: boolean }> {
+  const { uploads: [t] } = await createUploads({ ctx, input: { sessionId, files: [{ name, size: bytes.length, sha256: sha256(bytes) }] } });
+  if (t.duplicate) return { id: t.id, duplicate: true };
+  const res = await fetch(t.url!, { method: "PUT", headers: t.headers, body: Buffer.from(bytes) });
+  if (!res.ok) throw new Error(`presigned PUT answered ${res.status}: ${await res.text()}`);
+  await completeUpload({ ctx, input: { id: t.id } });
+  return { id: t.id, duplicate: false };
+}
+
+export async function waitForUploads(ids: string[], { timeoutMs = 60_000, until = ["done", "failed"] } = {}) {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    const rows = await Promise.all(ids.map(async (id) => (await db().select().from(uploads).where(eq(uploads.id, id)))[0]));
+    if (rows.every((r) => until.includes(r.status))) return rows;
+    if (Date.now() > deadline) throw new Error(`uploads still ${rows.map((r) => r.status).join(", ")} after ${timeoutMs} ms`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+}
+
+/** Starts a worker process with the test environment (plus overrides); resolves once it listens. */
+export function startWorkerProcess(extraEnv: Record<string, string> = {}): Promise<ChildProcess> {
+  const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "lib/jobs/worker.ts"], {
+    env: { ...process.env, NODE_ENV: "test", JOB_MAINTENANCE_SECONDS: "1", ...extraEnv },
+    stdio: ["ignore", "pipe", "pipe"],
+  });
+  let log = "";
+  return new Promise((resolve, reject) => {
+    const timer = setTimeout(() => reject(new Error(`worker did not start:\n${log}`)), 30_000);
+    const onData = (d: Buffer) => {
+      log += d.toString();
+      if (log.includes("listening on")) {
+        clearTimeout(timer);
+        resolve(child);
+      }
+    };
+    child.stdout!.on("data", onData);
+    child.stderr!.on("data", (d: Buffer) => (log += d.toString()));
+    child.on("exit", (code) => {
+      clearTimeout(timer);
+      if (!log.includes("listening on")) reject(new Error(`worker exited ${code}:\n${log}`));
+    });
+  });
+}
+
+export async function stopWorkerProcess(child: ChildProcess | undefined, signal: NodeJS.Signals = "SIGTERM"): Promise<void> {
+  if (!child || child.exitCode !== null) return;
+  await new Promise<void>((resolve) => {
+    child.once("exit", () => resolve());
+    child.kill(signal);
+  });
+}
