@@ -366,6 +366,8 @@ async function startMode() {
     await checkpoint();
     if (!built) return shutdown(1);
     await serve(childEnv);
+    await sleep(300); // a service that dies right away (bad config) is reported before "up"
+    await checkpoint();
   } catch (e) {
     await checkpoint();
     console.error(`bandcross start: ${(e as Error).message ?? e}`);
