@@ -1,23 +1,67 @@
 /** Small numerical helpers shared by the analysis modules: robust statistics and linear least squares. */
 
-/** Median of the values (copy-sorted); NaN for an empty input. */
+/** k-th smallest element (0-based) of a, rearranging a in place (Hoare's selection, O(n) expected). */
+function select(a: Float64Array, k: number): number {
+  let lo = 0;
+  let hi = a.length - 1;
+  while (hi > lo) {
+    const mid = (lo + hi) >> 1;
+    // Median of three as the pivot.
+    let x = a[lo], y = a[mid], z = a[hi];
+    const pivot = x < y ? (y < z ? y : x < z ? z : x) : x < z ? x : y < z ? z : y;
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (a[i] < pivot) i++;
+      while (a[j] > pivot) j--;
+      if (i <= j) {
+        x = a[i];
+        a[i] = a[j];
+        a[j] = x;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else return a[k];
+  }
+  return a[k];
+}
+
+/** Smallest element of a[from…]. */
+function minFrom(a: Float64Array, from: number): number {
+  let m = a[from];
+  for (let i = from + 1; i < a.length; i++) if (a[i] < m) m = a[i];
+  return m;
+}
+
+/** Median of the values (by selection on a copy); NaN for an empty input. */
 export function median(values: ArrayLike<number>): number {
   const n = values.length;
   if (n === 0) return NaN;
-  const a = Float64Array.from(values as ArrayLike<number>).sort();
+  const a = Float64Array.from(values as ArrayLike<number>);
   const h = n >> 1;
-  return n % 2 ? a[h] : 0.5 * (a[h - 1] + a[h]);
+  const upper = select(a, h);
+  if (n % 2) return upper;
+  // After selection every element left of h is ≤ a[h]: the lower middle is their maximum.
+  let lower = a[0];
+  for (let i = 1; i < h; i++) if (a[i] > lower) lower = a[i];
+  return 0.5 * (lower + upper);
 }
 
 /** Linear-interpolated quantile (q in [0, 1]), the "type 7" definition used by numpy's default. */
 export function quantile(values: ArrayLike<number>, q: number): number {
   const n = values.length;
   if (n === 0) return NaN;
-  const a = Float64Array.from(values as ArrayLike<number>).sort();
+  const a = Float64Array.from(values as ArrayLike<number>);
   const pos = q * (n - 1);
   const lo = Math.floor(pos);
-  const hi = Math.min(n - 1, lo + 1);
-  return a[lo] + (a[hi] - a[lo]) * (pos - lo);
+  const vlo = select(a, lo);
+  if (lo + 1 >= n || pos === lo) return vlo;
+  // Elements right of lo are ≥ a[lo]; the next order statistic is their minimum.
+  const vhi = minFrom(a, lo + 1);
+  return vlo + (vhi - vlo) * (pos - lo);
 }
 
 /** Scale factor from the median absolute deviation to σ for Gaussian noise: 1/Φ⁻¹(3/4). */
