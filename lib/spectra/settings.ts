@@ -6,6 +6,15 @@ import { z } from "zod";
 import type { ImportLimits } from "./import/types";
 
 const positive = z.number().finite().positive();
+
+/** Freeze an object and everything inside it, so that a shared default cannot be changed by accident. */
+function deepFreeze<T>(o: T): T {
+  if (o && typeof o === "object") {
+    for (const v of Object.values(o)) deepFreeze(v);
+    Object.freeze(o);
+  }
+  return o;
+}
 const nonNegative = z.number().finite().nonnegative();
 
 export const extractionSettingsSchema = z.object({
@@ -50,7 +59,7 @@ export const extractionSettingsSchema = z.object({
 });
 export type ExtractionSettings = z.infer<typeof extractionSettingsSchema>;
 
-export const DEFAULT_EXTRACTION_SETTINGS: ExtractionSettings = Object.freeze({
+export const DEFAULT_EXTRACTION_SETTINGS: ExtractionSettings = deepFreeze({
   smoothing: {
     method: "savitzky-golay",
     window_mV: null,
@@ -66,7 +75,7 @@ export const DEFAULT_EXTRACTION_SETTINGS: ExtractionSettings = Object.freeze({
   metallicFloorRatio: 0.2,
   assumedTemperature_K: 4.5,
   assumedLockinModulation_mV_rms: 0,
-}) as ExtractionSettings;
+});
 
 export const fieldModelSchema = z.object({
   tipWorkFunction_eV: positive,
