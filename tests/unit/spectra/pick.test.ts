@@ -127,3 +127,26 @@ describe("extraction settings", () => {
     expect(() => pickGap(makeSpectrum({ vbEdge_V: -0.1, cbEdge_V: 0.1 }), { smoothing: { order: 9 } })).toThrow();
   });
 });
+
+describe("regressions", () => {
+  it("a wide gap with noise: the floor search starts generously, so a noise dip is not taken for the quiet region (was: gap 496 meV picked as 39 meV)", () => {
+    const s = makeSpectrum({ vbEdge_V: -0.2482, cbEdge_V: 0.2482, T_K: 4.5, vrms_mV: 1.8, noise: 0.035, seed: 1117, step_V: 0.001 });
+    expect(Math.abs(pickGap(s).gap_eV! - 0.4963)).toBeLessThan(0.005);
+  });
+  it("77 K: thermal tails put the threshold edge inside the gap; the fit searches far enough out (was: 293 meV picked as 270 meV)", () => {
+    const s = makeSpectrum({ vbEdge_V: -0.0514, cbEdge_V: 0.2417, T_K: 77, vrms_mV: 2.1, noise: 0.006, seed: 1179, step_V: 0.001 });
+    const p = pickGap(s);
+    expect(Math.abs(p.gap_eV! - 0.2931)).toBeLessThan(0.003);
+    expect(p.warnings.join()).not.toMatch(/search limit/);
+  });
+  it("smoothing 'none' still estimates the noise (was: σ = 0 and a threshold at the floor)", () => {
+    const s = makeSpectrum({ vbEdge_V: -0.15, cbEdge_V: 0.15, noise: 0.01, seed: 8 });
+    const p = pickGap(s, { smoothing: { method: "none" } });
+    expect(p.noiseSigma!).toBeGreaterThan(0.008);
+    expect(Math.abs(p.gap_eV! - 0.3)).toBeLessThan(0.003);
+  });
+  it("the zero-gap comparison model is not singular (was: two steps at one point collinear with the floor, Δχ² = ∞)", () => {
+    const s = makeSpectrum({ vbEdge_V: 0.05, cbEdge_V: 0.05, T_K: 4.5, vrms_mV: 3, noise: 0.02, seed: 3 });
+    expect(pickGap(s).closed).toBe(true);
+  });
+});
