@@ -340,15 +340,26 @@ function demoHint(): string {
       const body: string[] = [];
       for (const l of readme.slice(start + 1)) {
         if (/^#+\s/.test(l)) break;
-        body.push(l);
+        body.push(l.trim());
       }
-      const lines = body.map((l) => l.trimEnd()).filter((l) => l.trim() !== "" && !/^\|[-\s|:]+\|$/.test(l.trim()));
-      if (lines.length) return ["Demo accounts (from README.md):", ...lines.slice(0, 14).map((l) => `    ${l}`)].join("\n");
+      // A table "| role | e-mail | password | ... |": print its first three columns, aligned.
+      const rows = body
+        .filter((l) => l.startsWith("|") && !/^\|[-\s|:]+\|$/.test(l))
+        .map((l) => l.split("|").slice(1, 4).map((c) => c.trim().replace(/`/g, "")));
+      if (rows.length > 1) {
+        const w = [0, 1].map((i) => Math.max(...rows.map((r) => (r[i] ?? "").length)));
+        return [
+          "Demo accounts (README.md):",
+          ...rows.slice(1).map((r) => `    ${(r[0] ?? "").padEnd(w[0]!)}  ${(r[1] ?? "").padEnd(w[1]!)}  ${r[2] ?? ""}`),
+        ].join("\n");
+      }
+      const lines = body.filter((l) => l !== "");
+      if (lines.length) return ["Demo accounts (README.md):", ...lines.slice(0, 12).map((l) => `    ${l}`)].join("\n");
     }
   } catch {
     // no README yet
   }
-  return "Demo accounts: see README.md (\"Demo accounts\").";
+  return 'Demo accounts: see README.md ("Demo accounts").';
 }
 
 // ---------------------------------------------------------------------------------------------------
