@@ -92,6 +92,8 @@ export interface BroadeningKernel {
 }
 
 const kernelCache = new Map<string, BroadeningKernel>();
+let lastKernel: BroadeningKernel | null = null;
+let lastH: number | undefined;
 
 /**
  * Build (and cache) the combined kernel tables for temperature T and lock-in modulation V_rms.
@@ -100,11 +102,16 @@ const kernelCache = new Map<string, BroadeningKernel>();
  * @param h_V table spacing in V; default 1/60 of the resolution, at most 0.25 mV
  */
 export function broadeningKernel(T_K: number, vrms_mV: number, h_V?: number): BroadeningKernel {
+  if (lastKernel && lastKernel.T_K === T_K && lastKernel.vrms_mV === vrms_mV && lastH === h_V) return lastKernel;
   const res_V = Math.max(energyResolution_mV(T_K, vrms_mV) / 1000, 1e-5);
   const h = h_V ?? Math.min(res_V / 60, 2.5e-4);
   const key = `${T_K}:${vrms_mV}:${h}`;
   const hit = kernelCache.get(key);
-  if (hit) return hit;
+  if (hit) {
+    lastKernel = hit;
+    lastH = h_V;
+    return hit;
+  }
   const kT = BOLTZMANN_EV_PER_K * T_K;
   const R = Math.SQRT2 * (vrms_mV / 1000);
   const tw = 18 * kT + h; // thermal tail mass beyond 18 kT ≈ 1.5e-8
@@ -152,6 +159,8 @@ export function broadeningKernel(T_K: number, vrms_mV: number, h_V?: number): Br
   };
   if (kernelCache.size > 64) kernelCache.clear();
   kernelCache.set(key, kernel);
+  lastKernel = kernel;
+  lastH = h_V;
   return kernel;
 }
 

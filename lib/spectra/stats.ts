@@ -197,3 +197,70 @@ export function goldenMinimize(f: (x: number) => number, a: number, b: number, t
   }
   return fc < fd ? { x: c, fx: fc } : { x: d, fx: fd };
 }
+
+/**
+ * Minimise f on [a, b] by Brent's method (golden-section steps with parabolic interpolation), to
+ * absolute tolerance tol. R. P. Brent, "Algorithms for Minimization without Derivatives" (1973), ch. 5.
+ */
+export function brentMinimize(f: (x: number) => number, a: number, b: number, tol: number, maxIter = 60): { x: number; fx: number } {
+  const cgold = 0.381966011250105;
+  let x = a + cgold * (b - a);
+  let w = x;
+  let v = x;
+  let fx = f(x);
+  let fw = fx;
+  let fv = fx;
+  let d = 0;
+  let e = 0;
+  for (let it = 0; it < maxIter; it++) {
+    const m = 0.5 * (a + b);
+    const tol1 = tol / 3 + 1e-12 * Math.abs(x);
+    const tol2 = 2 * tol1;
+    if (Math.abs(x - m) <= tol2 - 0.5 * (b - a)) break;
+    let golden = true;
+    if (Math.abs(e) > tol1) {
+      const r = (x - w) * (fx - fv);
+      let q = (x - v) * (fx - fw);
+      let p = (x - v) * q - (x - w) * r;
+      q = 2 * (q - r);
+      if (q > 0) p = -p;
+      else q = -q;
+      if (Math.abs(p) < Math.abs(0.5 * q * e) && p > q * (a - x) && p < q * (b - x)) {
+        e = d;
+        d = p / q;
+        const u = x + d;
+        if (u - a < tol2 || b - u < tol2) d = x < m ? tol1 : -tol1;
+        golden = false;
+      }
+    }
+    if (golden) {
+      e = (x < m ? b : a) - x;
+      d = cgold * e;
+    }
+    const u = Math.abs(d) >= tol1 ? x + d : x + (d > 0 ? tol1 : -tol1);
+    const fu = f(u);
+    if (fu <= fx) {
+      if (u < x) b = x;
+      else a = x;
+      v = w;
+      fv = fw;
+      w = x;
+      fw = fx;
+      x = u;
+      fx = fu;
+    } else {
+      if (u < x) a = u;
+      else b = u;
+      if (fu <= fw || w === x) {
+        v = w;
+        fv = fw;
+        w = u;
+        fw = fu;
+      } else if (fu <= fv || v === x || v === w) {
+        v = u;
+        fv = fu;
+      }
+    }
+  }
+  return { x, fx };
+}

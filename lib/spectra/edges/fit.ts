@@ -14,7 +14,7 @@
  * each other both are fitted together (one floor, two onsets), alternating the two searches.
  */
 import { type BroadeningKernel, convolvedOnset } from "../resolution";
-import { goldenMinimize } from "../stats";
+import { brentMinimize, goldenMinimize } from "../stats";
 
 export interface EdgeFitInput {
   bias: Float64Array;
@@ -46,11 +46,11 @@ export interface EdgeFitResult {
 type Side = "vb" | "cb";
 
 /** Basis columns for one onset at edge e over indices [i0, i1]. */
-function onsetColumns(bias: Float64Array, i0: number, i1: number, e: number, side: Side, kern: BroadeningKernel, quad: boolean): Float64Array[] {
+function onsetColumns(bias: Float64Array, i0: number, i1: number, e: number, side: Side, kern: BroadeningKernel, quad: boolean, out?: Float64Array[]): Float64Array[] {
   const n = i1 - i0 + 1;
-  const s0 = new Float64Array(n);
-  const s1 = new Float64Array(n);
-  const s2 = quad ? new Float64Array(n) : null;
+  const s0 = out ? out[0] : new Float64Array(n);
+  const s1 = out ? out[1] : new Float64Array(n);
+  const s2 = quad ? (out ? out[2] : new Float64Array(n)) : null;
   const o = new Float64Array(3);
   for (let i = 0; i < n; i++) {
     const v = bias[i0 + i];
@@ -162,7 +162,7 @@ function scanMinimize(f: (x: number) => number, a: number, b: number, n: number,
       ib = i;
     }
   }
-  const g = goldenMinimize(f, Math.max(a, best - dx), Math.min(b, best + dx), tol);
+  const g = brentMinimize(f, Math.max(a, best - dx), Math.min(b, best + dx), tol);
   const res = g.fx <= fb ? g : { x: best, fx: fb };
   return { ...res, atBound: ib === 0 || ib === n - 1 };
 }
@@ -204,8 +204,14 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
       const [i0, i1] = indexRange(bias, from, to, lo, hi);
       if (i1 - i0 + 1 < 8) return null;
       const yy = y.subarray(i0, i1 + 1);
-      const ones = new Float64Array(i1 - i0 + 1).fill(1);
-      const f = (e: number) => rssOf([ones, ...onsetColumns(bias, i0, i1, e, side, kernel, true)], yy, [1]);
+      const nw = i1 - i0 + 1;
+      const ones = new Float64Array(nw).fill(1);
+      const buf = [new Float64Array(nw), new Float64Array(nw), new Float64Array(nw)];
+      const cols = [ones, ...buf];
+      const f = (e: number) => {
+        onsetColumns(bias, i0, i1, e, side, kernel, true, buf);
+        return rssOf(cols, yy, [1]);
+      };
       const a = side === "cb" ? Math.max(mid, guess - below) : guess - beyond;
       const b = side === "cb" ? guess + beyond : Math.min(mid, guess + below);
       if (!(b > a)) return null;

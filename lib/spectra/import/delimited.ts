@@ -92,6 +92,88 @@ function isNumericRow(cells: string[], decimalComma: boolean): boolean {
   return any;
 }
 
+const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22];
+
+/**
+ * Fast path for a row of plain numbers separated by a one-character delimiter: parses in place without
+ * splitting, exactly (Clinger's fast path: an integer mantissa below 2^53 times or divided by an exact
+ * power of ten ≤ 10^22 is correctly rounded). Returns false when any cell needs the general parser
+ * (spaces, quotes, missing values, many digits, wrong cell count), and the caller falls back.
+ */
+function parseRowFast(line: string, delim: number, dec: number, ncol: number, values: Float64Array[], r: number): boolean {
+  const len = line.length;
+  let i = 0;
+  for (let c = 0; c < ncol; c++) {
+    if (i >= len) return false;
+    let neg = false;
+    let ch = line.charCodeAt(i);
+    if (ch === 45 || ch === 43) {
+      neg = ch === 45;
+      i++;
+    }
+    let mant = 0;
+    let digits = 0;
+    let frac = 0;
+    let any = false;
+    while (i < len) {
+      ch = line.charCodeAt(i);
+      if (ch >= 48 && ch <= 57) {
+        if (mant !== 0 || ch !== 48) digits++;
+        mant = mant * 10 + (ch - 48);
+        any = true;
+        i++;
+      } else break;
+    }
+    if (i < len && line.charCodeAt(i) === dec) {
+      i++;
+      while (i < len) {
+        ch = line.charCodeAt(i);
+        if (ch >= 48 && ch <= 57) {
+          if (mant !== 0 || ch !== 48) digits++;
+          mant = mant * 10 + (ch - 48);
+          frac++;
+          any = true;
+          i++;
+        } else break;
+      }
+    }
+    if (!any || digits > 15) return false;
+    let exp = 0;
+    if (i < len && (line.charCodeAt(i) === 101 || line.charCodeAt(i) === 69)) {
+      i++;
+      let eneg = false;
+      ch = line.charCodeAt(i);
+      if (ch === 45 || ch === 43) {
+        eneg = ch === 45;
+        i++;
+      }
+      let ed = 0;
+      while (i < len) {
+        ch = line.charCodeAt(i);
+        if (ch >= 48 && ch <= 57) {
+          exp = exp * 10 + (ch - 48);
+          ed++;
+          i++;
+        } else break;
+      }
+      if (ed === 0 || ed > 3) return false;
+      if (eneg) exp = -exp;
+    }
+    const e10 = exp - frac;
+    let v: number;
+    if (e10 === 0) v = mant;
+    else if (e10 > 0 && e10 <= 22) v = mant * POW10[e10];
+    else if (e10 < 0 && e10 >= -22) v = mant / POW10[-e10];
+    else return false;
+    values[c][r] = neg ? -v : v;
+    if (c < ncol - 1) {
+      if (i >= len || line.charCodeAt(i) !== delim) return false;
+      i++;
+    }
+  }
+  return i === len;
+}
+
 export function parseDelimited(text: string, limits: ImportLimits): DelimitedTable {
   const lines = text.split(/\r\n|\n|\r/);
   const meta = emptyMeta();
@@ -177,9 +259,15 @@ export function parseDelimited(text: string, limits: ImportLimits): DelimitedTab
   const values = columns.map(() => new Float64Array(nrows));
   const rowLines = new Int32Array(nrows);
   let r = 0;
+  const delimCode = fmt.delimiter === " " ? -1 : fmt.delimiter.charCodeAt(0);
+  const decCode = fmt.decimalComma ? 44 : 46;
   for (let i = first; i < lines.length; i++) {
     const t = lines[i].trim();
     if (t === "" || t[0] === "#" || t[0] === "%") continue;
+    if (delimCode >= 0 && parseRowFast(t, delimCode, decCode, ncol, values, r)) {
+      rowLines[r++] = i + 1;
+      continue;
+    }
     const cells = splitLine(t, fmt.delimiter);
     if (cells.length !== ncol)
       throw new ImportError(`line ${i + 1}: ragged row with ${cells.length} cells where ${ncol} were expected`);
