@@ -182,8 +182,27 @@ for (const sig of ["SIGINT", "SIGTERM"] as const) {
 }
 process.on("SIGHUP", () => void shutdown(mode === "start" ? 0 : 129));
 
+let appIsUp = false;
+let workerSpec: Parameters<Supervisor["start"]>[0] | null = null;
+const workerCrashes: number[] = [];
+
 sup.onUnexpectedExit = (name, code) => {
   const log = path.join(logDir, `${name}.log`);
+  // Once the app is up, a crashing worker is restarted (at most 3 times a minute): queued jobs are
+  // kept in PostgreSQL and picked up again. A crash during start-up, or of anything else, stops all.
+  if (mode === "start" && name === "worker" && appIsUp && workerSpec) {
+    const now = Date.now();
+    workerCrashes.push(now);
+    while (workerCrashes.length && workerCrashes[0]! < now - 60_000) workerCrashes.shift();
+    if (workerCrashes.length <= 3) {
+      console.error(`bandcross start: worker exited (code ${code}); restarting it in 2 s — see ${rel(log)}`);
+      const spec = workerSpec;
+      setTimeout(() => {
+        if (!shuttingDown) sup.start(spec);
+      }, 2000);
+      return;
+    }
+  }
   if (mode === "start") {
     console.error(`bandcross start: ${name} exited unexpectedly (code ${code}); last lines of ${rel(log)}:\n${tail(log)}`);
     void shutdown(1);
@@ -316,7 +335,7 @@ async function serve(env: Record<string, string | undefined>) {
     graceMs: 10_000,
   });
   if (exists("lib/jobs/worker.ts")) {
-    sup.start({
+    workerSpec = {
       name: "worker",
       cmd: NODE,
       // react-server: the worker imports server-only modules, which refuse to load elsewhere.
@@ -325,7 +344,8 @@ async function serve(env: Record<string, string | undefined>) {
       logFile: path.join(logDir, "worker.log"),
       echo: !quiet,
       graceMs: 15_000,
-    });
+    };
+    sup.start(workerSpec);
   } else if (!quiet) {
     say("lib/jobs/worker.ts not found yet — no background worker");
   }
@@ -379,6 +399,7 @@ async function startMode() {
     await serve(childEnv);
     await sleep(300); // a service that dies right away (bad config) is reported before "up"
     await checkpoint();
+    appIsUp = true;
   } catch (e) {
     await checkpoint();
     console.error(`bandcross start: ${(e as Error).message ?? e}`);
