@@ -2,6 +2,7 @@ import { notFound } from "next/navigation";
 import { EntityForm } from "@/components/forms/entity-form";
 import { sessionFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
+import { SafetyNote } from "@/components/ui/safety";
 import { pageCtx } from "@/lib/actions/validated";
 import { can } from "@/lib/auth/permissions";
 import { listSamples } from "@/lib/services/samples/listSamples";
@@ -26,6 +27,9 @@ export default async function NewSessionPage({ params, searchParams }: { params:
           fields={sessionFields({ samples, tips }, { sampleId: sample ?? "", date: new Date().toISOString().slice(0, 10) })}
         />
       </Card>
+      <div className="mt-5">
+        <SafetyNote topic="session" />
+      </div>
     </>
   );
 }

@@ -2,6 +2,7 @@ import { notFound } from "next/navigation";
 import { EntityForm } from "@/components/forms/entity-form";
 import { tipFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
+import { SafetyNote } from "@/components/ui/safety";
 import { pageCtx } from "@/lib/actions/validated";
 import { can } from "@/lib/auth/permissions";
 import { getLab } from "@/lib/services/labs/labSettings";
@@ -24,6 +25,9 @@ export default async function NewTipPage({ params }: { params: Promise<{ lab: st
           fields={tipFields({ workFunction_eV: String(l.defaultTipWorkFunctionEv), workFunctionSigma_eV: String(l.defaultTipWorkFunctionSigmaEv) })}
         />
       </Card>
+      <div className="mt-5">
+        <SafetyNote topic="tip" />
+      </div>
     </>
   );
 }
