@@ -40,6 +40,12 @@ export interface EdgeFitResult {
   mode: "separate" | "joint";
   /** Joint fits: χ²(gap forced to 0) − χ²_min (2 parameters fewer: compare with χ²₂, 5.99 at 95%). */
   closedDeltaChi2: number | null;
+  /**
+   * Joint fits: σ of the gap from its profile likelihood — (upper 95% bound − estimate)/1.96, where the
+   * bound is the gap at which χ², minimised over the midgap, rises by 3.84. Robust where the two edges
+   * are strongly correlated or the gap sits at zero.
+   */
+  gapSigmaProfile: number | null;
   warnings: string[];
 }
 
@@ -229,7 +235,7 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
     const v = fitOne("vb");
     const c = fitOne("cb");
     if (!v || !c) return null;
-    return { vb: v.e, cb: c.e, vbSigma: v.s, cbSigma: c.s, mode: "separate", closedDeltaChi2: null, warnings };
+    return { vb: v.e, cb: c.e, vbSigma: v.s, cbSigma: c.s, mode: "separate", closedDeltaChi2: null, gapSigmaProfile: null, warnings };
   }
   // Joint fit: one floor, two onsets.
   const [i0, i1] = indexRange(bias, vbGuess - W, cbGuess + W, lo, hi);
@@ -285,5 +291,36 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
   const f0 = (m: number) => rssOf([ones, onsetColumns(bias, i0, i1, m, "vb", kernel, false)[1], ...onsetColumns(bias, i0, i1, m, "cb", kernel, false)], yy, []);
   const z = goldenMinimize(f0, vb - dv, cb + dv, tol);
   const closedDeltaChi2 = Math.max(0, (z.fx - rssMin) / (sigma * sigma));
-  return { vb, cb, vbSigma: curvatureSigma(fVs, vb, h, sigma), cbSigma: curvatureSigma(fCs, cb, h, sigma), mode: "joint", closedDeltaChi2, warnings };
+  // Gap profile: χ²(g) minimised over the midgap m, edges at m ∓ g/2.
+  const gHat = cb - vb;
+  const profile = (g: number) => {
+    const mHat = (vb + cb) / 2;
+    return brentMinimize(
+      (m) => rssOf([ones, ...onsetColumns(bias, i0, i1, m - g / 2, "vb", kernel, false), ...onsetColumns(bias, i0, i1, m + g / 2, "cb", kernel, false)], yy, [1, 3]),
+      mHat - Math.max(res, step),
+      mHat + Math.max(res, step),
+      tol,
+    ).fx;
+  };
+  const limit = rssMin + 3.841458820694124 * sigma * sigma;
+  let gapSigmaProfile: number | null = null;
+  const dg = Math.max(res / 4, step / 2);
+  let gLo = gHat;
+  for (let k = 1; k <= 16; k++) {
+    const g = gHat + k * dg;
+    if (profile(g) > limit) {
+      let a = gLo;
+      let b = g;
+      for (let it = 0; it < 6; it++) {
+        const mid = (a + b) / 2;
+        if (profile(mid) > limit) b = mid;
+        else a = mid;
+      }
+      gapSigmaProfile = ((a + b) / 2 - gHat) / 1.959963984540054;
+      break;
+    }
+    gLo = g;
+  }
+  if (gapSigmaProfile === null) gapSigmaProfile = (16 * dg) / 1.959963984540054;
+  return { vb, cb, vbSigma: curvatureSigma(fVs, vb, h, sigma), cbSigma: curvatureSigma(fCs, cb, h, sigma), mode: "joint", closedDeltaChi2, gapSigmaProfile, warnings };
 }

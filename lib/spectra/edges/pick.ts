@@ -9,7 +9,8 @@
  * 5. Log-scale cross-check (onset line in ln(dI/dV − floor) meets the noise level).
  * 6. Broadening-aware fit of each edge to the raw data (fit.ts), recovering the unbroadened edges.
  * 7. Uncertainty per edge: fit (or threshold-sensitivity) error ⊕ sampling step/√12 ⊕ a model term
- *    (0.05 × resolution after the fit, 0.5 × resolution for threshold edges).
+ *    (0.05 × resolution after the fit, 0.5 × resolution for threshold edges). For jointly fitted edges
+ *    the gap's uncertainty is at least its profile-likelihood σ (fit.ts).
  * A spectrum whose floor is a large fraction of its signal (metallic) or that has no edge on one side
  * is "no-gap". A gap is flagged `closed` ("closed within resolution") when it is below the resolution
  * or when, for close edges fitted jointly, a zero gap fits the data as well (Δχ² below the 95% point
@@ -159,6 +160,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   let cbSigma = Math.hypot(cbSens, sampling, 0.5 * res_V);
   let method: GapPick["method"] = "threshold";
   let consistentWithZero = false;
+  let gapSigmaProfile = 0;
   if (st.fit.enabled) {
     const kern = broadeningKernel(T, vrms);
     const f = fitEdges({ bias, y, kernel: kern, vbGuess: vb, cbGuess: cb, sigma: nf.sigma, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
@@ -171,13 +173,14 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
       method = f.mode === "joint" ? "fit-joint" : "fit-separate";
       // Zero-gap model has two parameters fewer (the gap and one step): χ²₂ 95% quantile 5.991.
       consistentWithZero = f.closedDeltaChi2 !== null && f.closedDeltaChi2 < 5.991464547107979;
+      gapSigmaProfile = f.gapSigmaProfile ?? 0;
       warnings.push(...f.warnings);
     } else {
       warnings.push("broadening-aware fit failed; threshold edges reported");
     }
   }
   const gap = Math.max(0, cb - vb);
-  let uncertainty = Math.hypot(vbSigma, cbSigma);
+  let uncertainty = Math.max(Math.hypot(vbSigma, cbSigma), gapSigmaProfile);
   if (consistentWithZero) {
     // A zero gap fits as well (Δχ² < 5.99): widen the error bar so that its 95% range reaches zero.
     uncertainty = Math.max(uncertainty, gap / 1.959963984540054);
