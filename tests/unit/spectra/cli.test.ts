@@ -1,5 +1,5 @@
 import { spawn } from "node:child_process";
-import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { zipSync } from "fflate";
@@ -69,6 +69,11 @@ beforeAll(async () => {
     return name;
   });
   const wf = ["--tip-work-function", "4.7", "--sample-work-function", "3.9"];
+  mkdirSync(f("folder/nested"), { recursive: true });
+  writeFileSync(f("folder/one.csv"), toCsv(good));
+  writeFileSync(f("folder/nested/two.csv"), toCsv(other));
+  writeFileSync(f("threshold.json"), JSON.stringify({ fit: { enabled: false }, threshold: { k: 4 } }));
+  writeFileSync(f("broken.json"), JSON.stringify({ threshold: { k: -2 } }));
   const jobs: [string, string[]][] = [
     ["mixed", ["analyze", f("good.csv"), f("line.tsv"), f("ragged.csv"), f("blob.bin"), f("run.zip"), f("missing.csv"), "--json"]],
     ["table", ["analyze", f("good.csv"), f("line.tsv")]],
@@ -76,6 +81,8 @@ beforeAll(async () => {
     ["shrink", ["sweep", ...shrinkFiles, ...wf]],
     ["usage", ["sweep", f("good.csv"), "--json"]],
     ["unknown", ["analyze", f("good.csv"), "--frobnicate"]],
+    ["folder", ["analyze", f("folder"), "--settings", f("threshold.json"), "--json"]],
+    ["badSettings", ["analyze", f("good.csv"), "--settings", f("broken.json")]],
   ];
   const results = await Promise.all(jobs.map(([, a]) => cli(a)));
   jobs.forEach(([k], i) => (runs[k] = results[i]));
@@ -121,6 +128,21 @@ describe("bandcross analyze", () => {
     expect(runs.unknown.code).toBe(2);
     expect(runs.unknown.stderr).toMatch(/frobnicate/);
     noStack(runs.unknown);
+  });
+});
+
+describe("bandcross analyze options", () => {
+  it("a directory is read recursively, and --settings applies extraction settings from a JSON file", () => {
+    const r = runs.folder;
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.spectra.map((e: { file: string }) => e.file).sort()).toEqual(["one.csv", "two.csv"]);
+    for (const e of out.spectra) expect(e.gap.method).toBe("threshold");
+  });
+  it("an invalid settings file is a usage error naming the setting", () => {
+    expect(runs.badSettings.code).toBe(2);
+    expect(runs.badSettings.stderr).toMatch(/invalid extraction setting threshold\.k/);
+    noStack(runs.badSettings);
   });
 });
 

@@ -164,6 +164,38 @@ describe("delimited text", () => {
   });
 });
 
+describe("more layouts", () => {
+  it("bias, dI/dV and current columns: one spectrum with its current in A", () => {
+    const lines = ["bias (V),dI/dV (nS),current (pA)"];
+    for (let i = 0; i < 20; i++) lines.push(`${(i * 0.01).toFixed(2)},${i},${i * 10}`);
+    const f = one("three.csv", lines.join("\n"));
+    expect(f.spectra).toHaveLength(1);
+    expect(f.spectra[0].didv[4]).toBe(4);
+    expect(f.spectra[0].current_A![4]).toBeCloseTo(40e-12, 22);
+  });
+  it("CRLF line endings, quoted header names and quoted cells", () => {
+    const lines = ['"Bias [V]","dI/dV (a.u.)"'];
+    for (let i = 0; i < 15; i++) lines.push(`"${(i * 0.01).toFixed(2)}","${(2 * i).toFixed(1)}"`);
+    const f = one("q.csv", lines.join("\r\n") + "\r\n");
+    expect(f.status).toBe("ok");
+    expect(f.spectra[0].bias_V[3]).toBeCloseTo(0.03, 12);
+    expect(f.spectra[0].didv[3]).toBe(6);
+  });
+  it("a bias column without a unit whose values exceed 20 is taken as mV, with a warning", () => {
+    const f = one("nounit.csv", csv({ header: "bias,dI/dV", scale: 1000 }));
+    expect(f.spectra[0].bias_V[0]).toBeCloseTo(-0.2, 12);
+    expect(f.warnings.join()).toMatch(/taken as mV/);
+  });
+  it("numbers are read exactly as JavaScript's Number() reads them (fast path and general path agree)", () => {
+    const cells = ["0.1", "-2.5e-3", "1e+2", "123456789012345", "7.00000000000000001", "0.30000000000000004", "+4.25", "-0"];
+    const lines = ["bias (V),dI/dV"];
+    cells.forEach((c, i) => lines.push(`${i},${c}`));
+    for (let i = cells.length; i < 12; i++) lines.push(`${i},1`);
+    const f = one("exact.csv", lines.join("\n"));
+    cells.forEach((c, i) => expect(Object.is(f.spectra[0].didv[i], Number(c))).toBe(true));
+  });
+});
+
 describe("rejections name the problem and the line", () => {
   const cases: [string, string | Uint8Array, RegExp][] = [
     ["empty", "", /empty file/],
