@@ -1,3 +1,4 @@
+import { sql } from "drizzle-orm";
 import { boolean, doublePrecision, index, integer, jsonb, pgEnum, pgTable, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import { labs, users } from "./auth";
 import { createdAt, id } from "./columns";
@@ -55,8 +56,15 @@ export const crossingEvents = pgTable(
     data: jsonb("data").$type<Record<string, unknown>>().notNull().default({}),
     createdAt: createdAt(),
   },
-  (t) => [index("crossing_events_sample_idx").on(t.sampleId, t.createdAt)],
+  (t) => [
+    index("crossing_events_sample_idx").on(t.sampleId, t.createdAt),
+    // One event of a kind per crossing row: a second decision about the same fit is a no-op even if
+    // the row lock in lib/services/alerts/recordEvent.ts were ever bypassed.
+    uniqueIndex("crossing_events_crossing_kind_unique").on(t.crossingId, t.kind),
+  ],
 );
+export type CrossingEvent = typeof crossingEvents.$inferSelect;
+export type CrossingEventKind = "found" | "moved" | "confirmed";
 
 export const subscriptions = pgTable(
   "subscriptions",
@@ -69,6 +77,7 @@ export const subscriptions = pgTable(
   },
   (t) => [uniqueIndex("subscriptions_sample_user_unique").on(t.sampleId, t.userId)],
 );
+export type Subscription = typeof subscriptions.$inferSelect;
 
 export const notifications = pgTable(
   "notifications",
@@ -83,8 +92,14 @@ export const notifications = pgTable(
     readAt: timestamp("read_at", { withTimezone: true }),
     createdAt: createdAt(),
   },
-  (t) => [index("notifications_user_idx").on(t.userId, t.createdAt), uniqueIndex("notifications_event_user_unique").on(t.eventId, t.userId)],
+  (t) => [
+    index("notifications_user_idx").on(t.userId, t.createdAt),
+    uniqueIndex("notifications_event_user_unique").on(t.eventId, t.userId),
+    // The unread count in the lab navigation, read on every page.
+    index("notifications_unread_idx").on(t.userId, t.labId).where(sql`${t.readAt} is null`),
+  ],
 );
+export type Notification = typeof notifications.$inferSelect;
 
 /** Every e-mail the product sent, keyed so a retried job never sends twice. */
 export const mailLog = pgTable(

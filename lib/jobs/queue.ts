@@ -1,5 +1,6 @@
 import "server-only";
 import PgBoss from "pg-boss";
+import type { DbOrTx } from "@/db/client";
 import { env } from "@/lib/env";
 
 /**
@@ -12,10 +13,13 @@ export const QUEUES = {
   processUpload: "process-upload",
   /** Re-run the automatic picks and fields of a sample after its settings or field model changed. */
   reanalyzeSample: "reanalyze-sample",
+  /** E-mail one crossing event to its recipients (the in-app notifications exist already). */
+  notifyEvent: "notify-event",
 } as const;
 
 export type ProcessUploadJob = { uploadId: string };
 export type ReanalyzeSampleJob = { sampleId: string; labId: string; reason: string };
+export type NotifyEventJob = { eventId: string };
 
 /** Seconds a job may stay active before it is presumed dead (worker killed) and retried. */
 export function jobExpireSeconds(): number {
@@ -47,6 +51,8 @@ export function boss(role: "worker" | "sender" = "sender"): Promise<PgBoss> {
     const common = { retryLimit: 4, retryDelay: 2, retryBackoff: true, expireInSeconds: jobExpireSeconds() };
     await b.createQueue(QUEUES.processUpload, { name: QUEUES.processUpload, ...common });
     await b.createQueue(QUEUES.reanalyzeSample, { name: QUEUES.reanalyzeSample, ...common });
+    // A mail-service outage is retried for about half an hour (5 s doubling, 8 tries) without redoing any fit.
+    await b.createQueue(QUEUES.notifyEvent, { name: QUEUES.notifyEvent, ...common, retryLimit: 8, retryDelay: 5 });
     return b;
   })();
   return globalForBoss.bandcrossBoss;
@@ -66,6 +72,26 @@ export async function enqueueReanalyzeSample(job: ReanalyzeSampleJob): Promise<v
   const b = await boss();
   // One pending re-analysis per sample is enough: a later settings change is read when it runs.
   await b.send(QUEUES.reanalyzeSample, job, { singletonKey: job.sampleId });
+}
+
+/**
+ * Queues the e-mail of a crossing event inside the caller's transaction (pg-boss writes its job
+ * row through the same connection), so an event is never stored without its delivery job nor the
+ * job queued for an event that was rolled back. The job id is the event id: queued once.
+ */
+export async function enqueueNotifyEvent(tx: DbOrTx, job: NotifyEventJob): Promise<void> {
+  const b = await boss();
+  await b.send(QUEUES.notifyEvent, job satisfies NotifyEventJob, { id: job.eventId, db: jobDbOf(tx) });
+}
+
+/**
+ * pg-boss's `db` option for a drizzle handle: drizzle's node-postgres session keeps the pg client
+ * (the pooled connection of a transaction, or the pool itself) as `session.client`.
+ */
+function jobDbOf(tx: DbOrTx): PgBoss.Db {
+  const client = (tx as unknown as { session?: { client?: { query: (text: string, values: unknown[]) => Promise<{ rows: unknown[] }> } } }).session?.client;
+  if (!client || typeof client.query !== "function") throw new Error("enqueueNotifyEvent: the database handle exposes no pg client");
+  return { executeSql: (text, values) => client.query(text, values) as Promise<{ rows: any[] }> }; // eslint-disable-line @typescript-eslint/no-explicit-any
 }
 
 export async function stopBoss(): Promise<void> {

@@ -7,8 +7,8 @@ import type PgBoss from "pg-boss";
 import { closeDb, db } from "@/db/client";
 import { reanalyzeSample } from "@/lib/services/analysis/reanalyzeSample";
 import { markUploadFailed, processUpload } from "@/lib/services/uploads/processUpload";
-import { afterRefit } from "@/lib/services/alerts/afterRefit";
-import { boss, QUEUES, stopBoss, type ProcessUploadJob, type ReanalyzeSampleJob } from "./queue";
+import { deliverEvent } from "@/lib/services/alerts/deliverEvent";
+import { boss, QUEUES, stopBoss, type NotifyEventJob, type ProcessUploadJob, type ReanalyzeSampleJob } from "./queue";
 import { analysisRuns } from "@/db/schema";
 import { and, eq, inArray } from "drizzle-orm";
 
@@ -33,7 +33,6 @@ export async function startWorker(): Promise<() => Promise<void>> {
     try {
       const out = await processUpload(db(), job.data.uploadId, faultHooks());
       log(`${QUEUES.processUpload} ${job.data.uploadId}: ${out.status}${out.status === "done" ? ` (${out.spectra} spectra, ${Date.now() - started} ms)` : ""}`);
-      if (out.status === "done") await afterRefit(db(), out.refit);
     } catch (e) {
       log(`${QUEUES.processUpload} ${job.data.uploadId}: attempt ${job.retryCount + 1} failed: ${(e as Error).message}`);
       if (lastTry(job)) return markUploadFailed(db(), job.data.uploadId, e);
@@ -50,11 +49,21 @@ export async function startWorker(): Promise<() => Promise<void>> {
       .from(analysisRuns)
       .where(and(eq(analysisRuns.sampleId, job.data.sampleId), inArray(analysisRuns.status, ["queued", "running"])));
     const started = Date.now();
-    const refit = await reanalyzeSample(db(), { sampleId: job.data.sampleId, runId: runs.at(-1)?.id });
+    await reanalyzeSample(db(), { sampleId: job.data.sampleId, runId: runs.at(-1)?.id });
     // Every run queued before this one is covered by it.
     if (runs.length) await db().update(analysisRuns).set({ status: "done" }).where(inArray(analysisRuns.id, runs.map((r) => r.id)));
-    await afterRefit(db(), refit);
     log(`${QUEUES.reanalyzeSample} ${job.data.sampleId}: done in ${Date.now() - started} ms (${job.data.reason})`);
+  });
+  // Crossing alerts are decided inside every refit (refitSample → afterRefit); this queue only
+  // e-mails them, so a mail-service outage is retried here without redoing any fit.
+  await b.work<NotifyEventJob>(QUEUES.notifyEvent, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
+    try {
+      const out = await deliverEvent(db(), job.data.eventId);
+      log(`${QUEUES.notifyEvent} ${job.data.eventId}: ${out.sent} sent, ${out.skipped} already sent or no longer watching`);
+    } catch (e) {
+      log(`${QUEUES.notifyEvent} ${job.data.eventId}: attempt ${job.retryCount + 1} failed: ${(e as Error).message}`);
+      throw e;
+    }
   });
   log(`listening on ${Object.values(QUEUES).join(", ")} (concurrency ${concurrency})`);
   return async () => {

@@ -1,11 +1,48 @@
 import "server-only";
 import type { DbOrTx } from "@/db/client";
+import type { Crossing, CrossingEvent, CrossingEventKind } from "@/db/schema";
 import type { RefitResult } from "../analysis/refitSample";
+import { currentCrossing, intervalOf, latestEvent, lockSample, recordEvent } from "./recordEvent";
+
+/** A fit worth an alert: the gap closes and reopens, with a critical field. */
+export const isCrossed = (c: Crossing | null): c is Crossing => Boolean(c && c.state === "crossed" && c.found && c.fieldVPerNm != null);
 
 /**
- * Called by the worker after every refit of a sample: decides whether the new fit is an event
- * people watching the sample must hear about (first crossing, moved outside the earlier interval).
+ * The rule, on the sample's current fit and its latest event:
+ * - no event yet and the fit is crossed → `found` (only ever the first time);
+ * - a crossed fit on another crossing row whose field lies outside the latest event's 95%
+ *   interval → `moved` (an event without an interval never counts as moved from);
+ * - anything else (not crossed, inside the interval, the same row) → nothing.
  */
-export async function afterRefit(_db: DbOrTx, _result: RefitResult): Promise<void> {
-  // Crossing events and e-mail are added with the alerts feature.
+export function decideEvent(current: Crossing | null, last: CrossingEvent | null): CrossingEventKind | null {
+  if (!isCrossed(current)) return null;
+  if (!last) return "found";
+  if (last.crossingId === current.id) return null;
+  const ci = intervalOf(last);
+  if (!ci) return null;
+  return current.fieldVPerNm! < ci[0] || current.fieldVPerNm! > ci[1] ? "moved" : null;
+}
+
+/**
+ * Runs after every refit of a sample (refitSample calls it, so no path can skip it): decides
+ * whether the sample's fit is an event the people watching it must hear about, and records it
+ * with its notifications and e-mail job.
+ *
+ * Race-free by construction: the decision runs in a transaction holding a row lock on the sample
+ * (lockSample), and it reads the sample's *current* crossing rather than the one this refit
+ * produced. Two workers that refit the same sample at once therefore decide one after the other
+ * about the newest fit, and the second sees the first one's event; calling this twice for the same
+ * fit is a no-op (also guarded by the unique key on crossing and kind).
+ */
+export async function afterRefit(db: DbOrTx, result: Pick<RefitResult, "current">): Promise<CrossingEvent | null> {
+  const sampleId = result.current.sampleId;
+  return db.transaction(async (tx) => {
+    await lockSample(tx, sampleId);
+    const current = await currentCrossing(tx, sampleId);
+    const last = await latestEvent(tx, sampleId);
+    const kind = decideEvent(current, last);
+    if (!kind || !current) return null;
+    const extra = kind === "moved" && last ? { previousEventId: last.id, previousField_V_per_nm: last.fieldVPerNm, previousCi95_V_per_nm: intervalOf(last) } : {};
+    return recordEvent(tx, { crossing: current, kind, extra });
+  });
 }

@@ -3,6 +3,7 @@ import { and, desc, eq, isNotNull, isNull } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { crossings, gapPicks, spectra, type Crossing } from "@/db/schema";
 import { fitCrossing, median, type CrossingFit, type CrossingPoint } from "@/lib/spectra";
+import { afterRefit } from "../alerts/afterRefit";
 import { loadSampleAnalysis } from "./sampleModel";
 
 export interface RefitResult {
@@ -22,7 +23,10 @@ export function crossingInput(rows: { field: number; fieldSigma: number | null; 
   return { points, options: { systematicFieldRelSigma: rel.length ? median(rel) : 0 } };
 }
 
-/** Refits a sample's gap versus field over its included spectra and stores the result as its current crossing. */
+/**
+ * Refits a sample's gap versus field over its included spectra and stores the result as its
+ * current crossing, then decides the crossing alerts for it (lib/services/alerts/afterRefit.ts).
+ */
 export async function refitSample(db: DbOrTx, sampleId: string): Promise<RefitResult> {
   const analysis = await loadSampleAnalysis(db, sampleId);
   const rows = await db
@@ -64,7 +68,10 @@ export async function refitSample(db: DbOrTx, sampleId: string): Promise<RefitRe
       confirmedAt: previous?.status === "confirmed" && sameCrossing(previous, fit) ? previous.confirmedAt : null,
     })
     .returning();
-  return { previous: previous ?? null, current, fit };
+  const result = { previous: previous ?? null, current, fit };
+  // Every refit ends here, so no caller can skip the crossing alerts (found, moved): see afterRefit.
+  await afterRefit(db, result);
+  return result;
 }
 
 function sameCrossing(prev: Crossing, fit: CrossingFit): boolean {

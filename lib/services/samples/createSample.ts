@@ -6,6 +6,7 @@ import { recordAudit } from "../audit";
 import type { Ctx } from "../context";
 import { conflict, isUniqueViolation } from "../errors";
 import { parseInput } from "../parse";
+import { subscribeLabDefaults } from "../alerts/subscribeLabDefaults";
 import { ensureSampleVersions } from "./ensureSampleVersions";
 
 export async function createSample({ ctx, input }: { ctx: Ctx; input: unknown }) {
@@ -26,6 +27,7 @@ export async function createSample({ ctx, input }: { ctx: Ctx; input: unknown })
       })
       .returning();
     await ensureSampleVersions(ctx, row.id);
+    await subscribeLabDefaults(ctx, row.id);
     await recordAudit(ctx, "sample.create", { type: "sample", id: row.id }, { name: row.name });
     return row;
   } catch (e) {

@@ -1,0 +1,2 @@
+CREATE UNIQUE INDEX "crossing_events_crossing_kind_unique" ON "crossing_events" USING btree ("crossing_id","kind");--> statement-breakpoint
+CREATE INDEX "notifications_unread_idx" ON "notifications" USING btree ("user_id","lab_id") WHERE "notifications"."read_at" is null;

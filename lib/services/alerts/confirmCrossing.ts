@@ -1,0 +1,62 @@
+import "server-only";
+import { z } from "zod";
+import { crossings } from "@/db/schema";
+import { assertCan } from "@/lib/auth/permissions";
+import { eq } from "drizzle-orm";
+import { recordAudit } from "../audit";
+import type { Ctx } from "../context";
+import { conflict } from "../errors";
+import { parseInput } from "../parse";
+import { getSample } from "../samples/getSample";
+import { isCrossed } from "./afterRefit";
+import { currentCrossing, lockSample, recordEvent } from "./recordEvent";
+
+export const confirmCrossingInput = z.object({
+  sampleId: z.string().uuid("sampleId must be a sample id."),
+  /** The crossing the analyst looked at; if the fit changed since, the confirmation is refused. */
+  crossingId: z.string().uuid("crossingId must be a crossing id.").optional(),
+});
+
+/**
+ * An analyst (or owner) confirms the sample's current crossing: it becomes `confirmed` and a
+ * `confirmed` event tells the people watching the sample (not the person who confirmed it).
+ * Confirming what is already confirmed changes nothing. Runs under the same sample lock as the
+ * refit decisions, so a refit landing at the same moment is either before (and then the analyst is
+ * told the fit changed, when they named the crossing) or after.
+ */
+export async function confirmCrossing({ ctx, input }: { ctx: Ctx; input: unknown }) {
+  assertCan(ctx.actor, "analysis:write");
+  const data = parseInput(confirmCrossingInput, input);
+  const sample = await getSample({ ctx, input: { id: data.sampleId } });
+  const out = await ctx.db.transaction(async (tx) => {
+    await lockSample(tx, sample.id);
+    const current = await currentCrossing(tx, sample.id);
+    if (!isCrossed(current)) throw conflict("There is no critical field to confirm: the current fit of this sample does not close and reopen.");
+    if (data.crossingId && data.crossingId !== current.id) {
+      throw conflict("The fit changed since you looked at it; review the new critical field before confirming.", { currentCrossingId: current.id });
+    }
+    if (current.status === "confirmed") return { crossing: current, event: null, alreadyConfirmed: true };
+    const [confirmed] = await tx
+      .update(crossings)
+      .set({ status: "confirmed", confirmedBy: ctx.actor.userId, confirmedAt: new Date() })
+      .where(eq(crossings.id, current.id))
+      .returning();
+    const event = await recordEvent(tx, {
+      crossing: confirmed,
+      kind: "confirmed",
+      extra: { confirmedBy: ctx.actor.userId, confirmedByName: ctx.actor.name },
+      excludeUserId: ctx.actor.userId,
+    });
+    await recordAudit({ ...ctx, db: tx }, "crossing.confirm", { type: "sample", id: sample.id }, { crossingId: confirmed.id, field_V_per_nm: confirmed.fieldVPerNm });
+    return { crossing: confirmed, event, alreadyConfirmed: false };
+  });
+  return {
+    crossingId: out.crossing.id,
+    status: out.crossing.status,
+    field_V_per_nm: out.crossing.fieldVPerNm,
+    ci95_V_per_nm: out.crossing.ci95LoVPerNm != null && out.crossing.ci95HiVPerNm != null ? [out.crossing.ci95LoVPerNm, out.crossing.ci95HiVPerNm] : null,
+    confirmedAt: out.crossing.confirmedAt?.toISOString() ?? null,
+    eventId: out.event?.id ?? null,
+    alreadyConfirmed: out.alreadyConfirmed,
+  };
+}
