@@ -25,7 +25,7 @@ export const extractionSettingsSchema = z.object({
     window_mV: positive.nullable(),
     /** Savitzky–Golay polynomial order. */
     order: z.number().int().min(0).max(6),
-    /** Gaussian σ, mV; null = resolution / 2.355 (a Gaussian of the resolution's FWHM) × windowPerResolution / 2. */
+    /** Gaussian σ, mV; null = windowPerResolution × resolution / 2.355 (a Gaussian whose FWHM is the automatic window). */
     gaussianSigma_mV: positive.nullable(),
     /** FFT low-pass: shortest period kept, mV; null = windowPerResolution × resolution. */
     fftCutoff_mV: positive.nullable(),
@@ -37,7 +37,7 @@ export const extractionSettingsSchema = z.object({
   threshold: z.object({
     /** Edge where the smoothed signal exceeds floor + k·σ_smoothed … */
     k: positive,
-    /** … for this many consecutive points. */
+    /** … for this many consecutive points (at least the smoothing window's width in points). */
     consecutive: z.number().int().min(1).max(50),
   }),
   /** Restrict the search for the gap to this bias range (V); null = whole spectrum. */

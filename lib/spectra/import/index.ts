@@ -21,6 +21,21 @@ export { DEFAULT_IMPORT_LIMITS };
 const cloneMeta = (m: SpectrumMeta): SpectrumMeta => ({ ...m, extra: { ...m.extra } });
 
 /**
+ * Bias applied to the tip instead of the sample (`# bias applied to: tip`, `# bias_on: tip`): the
+ * analysis works in sample bias, so the signs are flipped (a tip bias V is a sample bias −V).
+ */
+function biasOnTip(meta: SpectrumMeta): boolean {
+  return Object.entries(meta.extra).some(([k, v]) => /^bias[ _-]?(on|applied[ _-]?to|electrode)$/i.test(k.trim()) && /^tip$/i.test(v.trim()));
+}
+
+function flipBias(bias: Float64Array, cols: Float64Array[]): { bias: Float64Array; cols: Float64Array[] } {
+  const n = bias.length;
+  const b = new Float64Array(n);
+  for (let i = 0; i < n; i++) b[i] = -bias[n - 1 - i];
+  return { bias: b, cols: cols.map((c) => Float64Array.from(c).reverse()) };
+}
+
+/**
  * dI/dV from a current trace: Savitzky–Golay first derivative (order 2) over a window of 1.5× the
  * resolution from the metadata (at least 5 points), in A/V = S.
  */
@@ -75,6 +90,23 @@ function fromText(file: string, text: string, limits: ImportLimits): ImportedFil
     }
     shared.set(ci, { bias: r.bias, col: r.cols[0], cur: pairedCurrent >= 0 ? r.cols[1] : null, warnings: r.warnings });
   }
+  const tip = biasOnTip(t.meta);
+  if (tip) {
+    fileWarnings.push("bias applied to the tip: signs flipped to sample bias");
+    const flipped = new Map<Float64Array, Float64Array>();
+    for (const [ci, s] of shared) {
+      let b = flipped.get(s.bias);
+      const cols = [s.col, ...(s.cur ? [s.cur] : [])];
+      const r = flipBias(s.bias, cols);
+      if (!b) {
+        b = r.bias;
+        flipped.set(s.bias, b);
+      }
+      // The current changes sign with the bias; dI/dV does not (both numerator and denominator flip).
+      const col = useCurrent ? r.cols[0].map((v) => -v) : r.cols[0];
+      shared.set(ci, { bias: b, col, cur: s.cur ? r.cols[1].map((v) => -v) : null, warnings: s.warnings });
+    }
+  }
   valueIdx.forEach((ci, index) => {
     const s = shared.get(ci)!;
     const meta = cloneMeta(t.meta);
@@ -107,6 +139,11 @@ function fromJson(file: string, text: string, limits: ImportLimits): ImportedFil
       throw e;
     }
     const warnings = [...s.warnings, ...r.warnings];
+    if (biasOnTip(s.meta)) {
+      const fl = flipBias(r.bias, r.cols);
+      r = { ...r, bias: fl.bias, cols: fl.cols.map((c, k) => (k === 0 && s.didv ? c : c.map((v) => -v))) };
+      warnings.push("bias applied to the tip: signs flipped to sample bias");
+    }
     let didv = r.cols[0];
     let current: Float64Array | null = s.didv && s.current ? r.cols[1] : null;
     if (!s.didv) {

@@ -196,6 +196,19 @@ describe("more layouts", () => {
   });
 });
 
+describe("bias polarity", () => {
+  it("a file whose bias is on the tip is flipped to sample bias (Pitfalls: sample bias > 0 probes empty states)", () => {
+    const lines = ["# bias applied to: tip", "bias (V),dI/dV,current (nA)"];
+    for (let i = 0; i < 20; i++) lines.push(`${(i * 0.01).toFixed(2)},${i},${i * 2}`);
+    const f = one("tip.csv", lines.join("\n"));
+    const s = f.spectra[0];
+    expect(f.warnings.join()).toMatch(/signs flipped/);
+    expect(s.bias_V[0]).toBeCloseTo(-0.19, 12);
+    expect(s.didv[0]).toBe(19); // dI/dV keeps its sign
+    expect(s.current_A![0]).toBeCloseTo(-38e-9, 20); // the current changes sign
+  });
+});
+
 describe("rejections name the problem and the line", () => {
   const cases: [string, string | Uint8Array, RegExp][] = [
     ["empty", "", /empty file/],
