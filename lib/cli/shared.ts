@@ -4,7 +4,6 @@ import { basename, join } from "node:path";
 import { parseArgs, type ParseArgsConfig } from "node:util";
 import {
   DEFAULT_IMPORT_LIMITS,
-  extractionSettingsSchema,
   importSpectra,
   pickGap,
   resolveExtractionSettings,
@@ -87,7 +86,6 @@ export function loadSettings(path: string | undefined, overrides: Record<string,
     throw new CliUsageError(issue ? `invalid extraction setting ${issue.path.join(".")}: ${issue.message}` : (e as Error).message);
   }
 }
-void extractionSettingsSchema;
 
 /** Files named on the command line; directories are expanded (recursively, sorted). */
 export function expandPaths(paths: string[]): string[] {

@@ -265,17 +265,12 @@ export function fitCrossing(points: CrossingPoint[], options?: Partial<CrossingO
     const sys = 1.959963984540054 * opt.systematicFieldRelSigma * Math.abs(ec);
     out.ci95Total_V_per_nm = [ec - Math.hypot(ec - ciLo!, sys), ec + Math.hypot(ciHi! - ec, sys)];
     out.slopes = { below: -best.a1, above: best.a2, belowSigma: s1, aboveSigma: s2 };
-    // Parameter covariance of (E_c, a₁, a₂) from the χ² Hessian (cov = 2 H⁻¹), for the drawn band.
+    // Parameter covariance of (E_c, a₁, a₂), (JᵀWJ)⁻¹ at the optimum, for the drawn band.
     const w = Float64Array.from(pts, (_, i) => {
       const s = E[i] < ec ? best.a1 : best.a2;
       return 1 / (sg[i] ** 2 + s * s * sE[i] ** 2);
     });
     const model = (p: number[], x: number) => (x < p[0] ? p[1] * (p[0] - x) : p[2] * (x - p[0]));
-    const chi = (p: number[]) => {
-      let c = 0;
-      for (let i = 0; i < n; i++) c += w[i] * (g[i] - model(p, E[i])) ** 2;
-      return c;
-    };
     const p0 = [ec, best.a1, best.a2];
     // Gauss–Newton normal matrix JᵀWJ (the Hessian of χ²/2 at the optimum).
     const H = new Float64Array(9);
@@ -285,7 +280,6 @@ export function fitCrossing(points: CrossingPoint[], options?: Partial<CrossingO
       for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) H[r * 3 + c] += w[i] * J[r] * J[c];
     }
     const C = invert(H, 3);
-    void chi;
     curveModel = (x) => model(p0, x);
     curveSigma = (x) => {
       if (!C) return 0;

@@ -24,11 +24,10 @@ export interface NoiseFloor {
  * @param y raw samples
  * @param s smoothed samples
  * @param gain noise gain of the smoothing filter, √(Σ hᵢ²) for its impulse response h
- * @param residualGain unused (kept for callers); σ comes from first differences
  * @param k threshold multiplier
  * @param lo first index searched; hi last index searched (inclusive)
  */
-export function noiseFloor(y: Float64Array, s: Float64Array, gain: number, residualGain: number, k: number, lo: number, hi: number): NoiseFloor {
+export function noiseFloor(y: Float64Array, s: Float64Array, gain: number, k: number, lo: number, hi: number): NoiseFloor {
   let iMin = lo;
   for (let i = lo; i <= hi; i++) if (s[i] < s[iMin]) iMin = i;
   // σ from first differences (white noise: var(Δy) = 2σ²), which removes the slow signal and leaves
@@ -39,7 +38,6 @@ export function noiseFloor(y: Float64Array, s: Float64Array, gain: number, resid
     return madSigma(d) / Math.SQRT2;
   };
   let sigma = diffSigma(lo, hi);
-  void residualGain;
   let floor = s[iMin];
   let from = iMin;
   let to = iMin;

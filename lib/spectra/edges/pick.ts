@@ -128,7 +128,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   if (hi - lo + 1 < 10) return empty("fewer than 10 points inside the search range");
   // Keep the minimum search away from the filter's end effects.
   const margin = Math.min(3, Math.floor((hi - lo) / 4));
-  const nf = noiseFloor(y, s, sm.gain, sm.residualGain, st.threshold.k, lo + margin, hi - margin);
+  const nf = noiseFloor(y, s, sm.gain, st.threshold.k, lo + margin, hi - margin);
   const thr = nf.floor + st.threshold.k * nf.sigmaSmoothed;
   const base = { noiseFloor: nf.floor, noiseSigma: nf.sigma, threshold: thr };
   const top = quantile(s.subarray(lo, hi + 1), 0.95);
