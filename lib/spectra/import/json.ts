@@ -6,7 +6,8 @@
  *     "spectra": [ { "label": "…", "bias_V": [...], "didv": [...], "current_A": [...], "meta": { … } } ] }
  *
  * `bias_mV` may replace `bias_V`; `current_A` alone (without `didv`) asks for the derivative. A single
- * spectrum object (with `bias_V`/`didv` at the top level) is accepted too. Metadata values are numbers
+ * spectrum object (with `bias_V`/`didv` at the top level), or a bare array of spectrum objects, is
+ * accepted too. Metadata values are numbers
  * or strings under canonical or unit-bearing keys, as in text files.
  */
 import { z } from "zod";
@@ -51,7 +52,11 @@ export function parseJsonSpectra(text: string): JsonSpectrum[] {
   } catch (e) {
     throw new ImportError(`invalid JSON: ${(e as Error).message}`);
   }
-  const wrapped = data && typeof data === "object" && !Array.isArray(data) && !("spectra" in data) ? { spectra: [data] } : data;
+  const wrapped = Array.isArray(data)
+    ? { spectra: data }
+    : data && typeof data === "object" && !("spectra" in data)
+      ? { spectra: [data] }
+      : data;
   const r = fileSchema.safeParse(wrapped);
   if (!r.success) {
     const iss = r.error.issues[0];

@@ -242,6 +242,11 @@ describe("rejections name the problem and the line", () => {
 
 describe("JSON of our own shape", () => {
   const s = makeSpectrum({ vbEdge_V: -0.1, cbEdge_V: 0.1, step_V: 0.01, seed: 3 });
+  it("a bare array of spectrum objects is accepted", () => {
+    const f = one("arr.json", JSON.stringify([{ bias_V: Array.from(s.bias_V), didv: Array.from(s.didv) }]));
+    expect(f.status).toBe("ok");
+    expect(f.spectra[0].didv[5]).toBe(s.didv[5]);
+  });
   it("reads spectra, shared and own metadata, bias in mV", () => {
     const doc = {
       format: "bandcross-spectra",
@@ -263,6 +268,7 @@ describe("JSON of our own shape", () => {
   it("rejects a wrong shape with the path of the problem", () => {
     expect(one("x.json", '{"spectra":[{"bias_V":[1,2]}]}').message).toMatch(/spectra.0: needs didv or current_A/);
     expect(one("x.json", "{not json").message).toMatch(/invalid JSON/);
+    expect(one("x.json", '[{"file":"a.csv","gap_eV":0.1}]').message).toMatch(/spectra.0: needs bias_V or bias_mV/);
     expect(one("x.json", '{"spectra":[{"bias_V":[1,2,3],"didv":[1,2]}]}').message).toMatch(/didv has 2 values but the bias has 3/);
   });
 });
