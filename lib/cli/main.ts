@@ -38,6 +38,13 @@ export async function run(argv: string[], io: Io): Promise<number> {
   }
 }
 
+// A reader that goes away early (`| head`) is not an error worth a stack trace.
+for (const stream of [process.stdout, process.stderr])
+  stream.on("error", (e: NodeJS.ErrnoException) => {
+    if (e.code === "EPIPE") process.exit(process.exitCode ?? 0);
+    throw e;
+  });
+
 const io: Io = {
   out: (s) => void process.stdout.write(s),
   err: (s) => void process.stderr.write(s),

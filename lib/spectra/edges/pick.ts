@@ -1,6 +1,7 @@
 /**
  * Band-edge extraction from one dI/dV spectrum ("gap pick").
  *
+ * 0. Isolated single-point spikes are replaced (despike, with a warning).
  * 1. Resolution from the metadata (resolution.ts): thermal ⊕ lock-in FWHM.
  * 2. Smoothing (settings.smoothing; window follows the resolution by default).
  * 3. Robust floor and σ in the quiet region (noise.ts).
@@ -21,7 +22,7 @@
 import { broadeningKernel, energyResolution_mV } from "../resolution";
 import { type ExtractionSettings, resolveExtractionSettings, type DeepPartial } from "../settings";
 import { smoothSpectrum } from "../smooth/apply";
-import { quantile } from "../stats";
+import { madSigma, quantile } from "../stats";
 import { fitEdges } from "./fit";
 import { noiseFloor } from "./noise";
 import { logOnset, thresholdEdgeDown, thresholdEdgeUp } from "./threshold";
@@ -68,6 +69,32 @@ function sortedCopy(bias: ArrayLike<number>, y: ArrayLike<number>): { b: Float64
 }
 
 /**
+ * Remove isolated single-point spikes (tip or electronics glitches): a point that lies more than 8σ
+ * above (or below) both neighbours while the neighbours agree within 4σ is replaced by their mean. σ is
+ * the first-difference MAD estimate. A band-edge step is never touched (its neighbours disagree).
+ */
+export function despike(y: Float64Array): { y: Float64Array; replaced: number } {
+  const n = y.length;
+  if (n < 5) return { y, replaced: 0 };
+  const d = new Float64Array(n - 1);
+  for (let i = 1; i < n; i++) d[i - 1] = y[i] - y[i - 1];
+  const sigma = madSigma(d) / Math.SQRT2;
+  if (!(sigma > 0)) return { y, replaced: 0 };
+  let out: Float64Array | null = null;
+  let replaced = 0;
+  for (let i = 1; i < n - 1; i++) {
+    const a = y[i] - y[i - 1];
+    const b = y[i] - y[i + 1];
+    if (a * b > 0 && Math.min(Math.abs(a), Math.abs(b)) > 8 * sigma && Math.abs(y[i + 1] - y[i - 1]) < 4 * sigma) {
+      out ??= Float64Array.from(y);
+      out[i] = 0.5 * (y[i - 1] + y[i + 1]);
+      replaced++;
+    }
+  }
+  return { y: out ?? y, replaced };
+}
+
+/**
  * Pick the band edges of one spectrum.
  * @param input bias (V, sample bias), dI/dV (any units), metadata (temperature_K and
  *   lockin_modulation_mV_rms set the resolution; missing values use the settings' assumptions)
@@ -81,8 +108,10 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   if (n < 10) throw new RangeError(`a spectrum needs at least 10 points, got ${n}`);
   for (let i = 0; i < n; i++)
     if (!Number.isFinite(input.bias_V[i]) || !Number.isFinite(input.didv[i])) throw new RangeError(`non-finite value at point ${i}`);
-  const { b: bias, v: y } = sortedCopy(input.bias_V, input.didv);
+  const { b: bias, v: yIn } = sortedCopy(input.bias_V, input.didv);
   const warnings: string[] = [];
+  const { y, replaced } = despike(yIn);
+  if (replaced > 0) warnings.push(`${replaced} single-point spike${replaced > 1 ? "s" : ""} replaced by the mean of the neighbours`);
   const meta = input.meta ?? {};
   let T = meta.temperature_K;
   if (T === undefined) {
