@@ -180,7 +180,7 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
           <p className="text-xs text-muted" data-testid="upload-counts">
             {rows.length} file(s): {Object.entries(counts).map(([k, v]) => `${v} ${STATE_LABEL[k]?.label ?? k}`).join(", ")}
           </p>
-          <ul className="divide-y divide-line rounded-lg border border-line bg-card" data-testid="upload-rows">
+          <ul className="max-h-96 divide-y divide-line overflow-y-auto rounded-lg border border-line bg-card" data-testid="upload-rows">
             {rows.map((r) => {
               const s = STATE_LABEL[r.status] ?? STATE_LABEL.queued;
               return (

@@ -15,7 +15,8 @@ export const eventMailKey = (eventId: string, userId: string) => `crossing-event
 
 /** The field model's assumptions in one line, for beside the number. */
 export function assumptionsLine(m: Partial<StoredFieldModel> & { decayConstantSource?: string }, sampleWf: { ev: number; sigma: number }): string {
-  const dc = m.contactDistance_nm != null ? `${m.contactDistance_nm.toFixed(2)}${m.contactDistanceSigma_nm ? ` ± ${m.contactDistanceSigma_nm.toFixed(2)}` : ""} nm` : "the default";
+  const n = (v: number) => String(Number(v.toFixed(3)));
+  const dc = m.contactDistance_nm != null ? `${n(m.contactDistance_nm)}${m.contactDistanceSigma_nm ? ` ± ${n(m.contactDistanceSigma_nm)}` : ""} nm` : "the default";
   const barrier = m.barrierHeight_eV != null ? `a measured barrier of ${m.barrierHeight_eV.toFixed(2)} eV` : "the mean of the two work functions";
   const screening = m.screening != null && m.screening !== 1 ? `, screening factor ${m.screening}` : ", no screening";
   return `E = (Φtip − Φsample)/(e·d) with Φsample ${sampleWf.ev.toFixed(2)} ± ${sampleWf.sigma.toFixed(2)} eV and each session's tip, d from the setpoint conductance with contact distance ${dc} and a decay constant from ${barrier}${screening}.`;

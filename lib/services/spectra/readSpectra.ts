@@ -2,6 +2,7 @@ import "server-only";
 import { and, asc, desc, eq, ilike, isNull, or, sql, type SQL } from "drizzle-orm";
 import { crossings, extractionSettingsVersions, fieldModelVersions, gapPicks, measurementSessions, samples, spectra, tips, uploads } from "@/db/schema";
 import { assertCan } from "@/lib/auth/permissions";
+import { pickGap, resolveExtractionSettings } from "@/lib/spectra";
 import type { SpectraQuery } from "@/lib/schemas/uploads";
 import type { Ctx } from "../context";
 import { notFound } from "../errors";
@@ -25,6 +26,8 @@ export async function getSpectrum({ ctx, input }: { ctx: Ctx; input: { id: strin
     .where(and(eq(spectra.id, input.id), eq(spectra.labId, ctx.actor.labId), visible));
   if (!row) throw notFound("spectrum");
   const { s, p } = row;
+  const analysis = await analysisOf(ctx, s, p?.settingsVersionId ?? null);
+  const neighbours = await neighboursOf(ctx, s.sampleId, s.id);
   return {
     id: s.id,
     sampleId: s.sampleId,
@@ -73,7 +76,53 @@ export async function getSpectrum({ ctx, input }: { ctx: Ctx; input: { id: strin
     field_V_per_nm: s.fieldVPerNm,
     fieldSigma_V_per_nm: s.fieldSigmaVPerNm,
     versions: { extractionSettings: row.sv?.id ? row.sv : null, fieldModel: row.fv?.id ? row.fv : null },
+    analysis,
+    neighbours,
   };
+}
+
+/**
+ * What the review screen draws beside the raw curve: the smoothed curve, noise floor, threshold
+ * and resolution, recomputed with the settings version that made the stored pick (about a
+ * millisecond for a 512-point spectrum), so nothing derivable is stored twice.
+ */
+async function analysisOf(ctx: Ctx, s: typeof spectra.$inferSelect, settingsVersionId: string | null) {
+  const [sv] = settingsVersionId ? await ctx.db.select().from(extractionSettingsVersions).where(eq(extractionSettingsVersions.id, settingsVersionId)) : [];
+  const [session] = await ctx.db.select({ t: measurementSessions.temperatureK }).from(measurementSessions).where(eq(measurementSessions.id, s.sessionId));
+  const settings = resolveExtractionSettings((sv?.settings ?? {}) as never);
+  const meta = {
+    setpoint_bias_V: s.setpointBiasV ?? undefined,
+    setpoint_current_A: s.setpointCurrentA ?? undefined,
+    lockin_modulation_mV_rms: s.lockinModulationMvRms ?? undefined,
+    temperature_K: s.temperatureK ?? session?.t ?? undefined,
+  };
+  const pick = pickGap({ bias_V: s.biasV, didv: s.didv, meta }, settings);
+  return {
+    smoothed: Array.from(pick.smoothed),
+    smoothing: pick.smoothing,
+    noiseFloor: pick.noiseFloor,
+    noiseSigma: pick.noiseSigma,
+    threshold: pick.threshold,
+    resolution_meV: pick.resolution_meV,
+    thresholdEdges: pick.threshold_edges,
+    logCheck: pick.logCheck,
+    temperature_K: meta.temperature_K ?? settings.assumedTemperature_K,
+    lockinModulation_mV_rms: meta.lockin_modulation_mV_rms ?? settings.assumedLockinModulation_mV_rms,
+  };
+}
+
+/** Position of a spectrum in its sample's review order (by field, then file), with its neighbours. */
+async function neighboursOf(ctx: Ctx, sampleId: string, id: string) {
+  const rows = await ctx.db.execute(sql`
+    with ordered as (
+      select id, row_number() over (order by field_v_per_nm asc nulls last, source_name, index_in_file) as pos,
+        lag(id) over (order by field_v_per_nm asc nulls last, source_name, index_in_file) as prev,
+        lead(id) over (order by field_v_per_nm asc nulls last, source_name, index_in_file) as next,
+        count(*) over () as total
+      from spectra where sample_id = ${sampleId} and lab_id = ${ctx.actor.labId}
+    ) select pos, prev, next, total from ordered where id = ${id}`);
+  const r = rows.rows[0] as { pos: string; prev: string | null; next: string | null; total: string } | undefined;
+  return r ? { position: Number(r.pos), total: Number(r.total), prev: r.prev, next: r.next } : { position: 1, total: 1, prev: null, next: null };
 }
 
 export interface PhasePoint {
@@ -141,6 +190,8 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
           found: c.found,
           field_V_per_nm: c.fieldVPerNm,
           ci95_V_per_nm: c.ci95LoVPerNm != null && c.ci95HiVPerNm != null ? ([c.ci95LoVPerNm, c.ci95HiVPerNm] as [number, number]) : null,
+          /** Interval from the data's scatter alone, without the field model's common scale uncertainty. */
+          ci95Statistical_V_per_nm: ((c.comparison as { statisticalCi95_V_per_nm?: [number, number] | null }).statisticalCi95_V_per_nm ?? null) as [number, number] | null,
           slopes: c.slopeBelowEvPerVPerNm != null ? { below: c.slopeBelowEvPerVPerNm, above: c.slopeAboveEvPerVPerNm } : null,
           extrapolated_V_per_nm: c.extrapolatedVPerNm,
           n: c.nPoints,

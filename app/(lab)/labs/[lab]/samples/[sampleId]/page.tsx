@@ -1,30 +1,106 @@
+import { and, eq, inArray } from "drizzle-orm";
 import Link from "next/link";
+import { CrossingSummary } from "@/components/review/crossing-summary";
+import { PhasePlot } from "@/components/review/phase-plot";
+import { SettingsEditors } from "@/components/review/settings-editors";
 import { ButtonLink } from "@/components/ui/button";
 import { Card, EmptyState, PageHeader } from "@/components/ui/card";
+import { tips } from "@/db/schema";
 import { orNotFound, pageCtx } from "@/lib/actions/validated";
 import { can } from "@/lib/auth/permissions";
+import { fieldAssumptions } from "@/lib/spectra";
+import { loadSampleAnalysis } from "@/lib/services/analysis/sampleModel";
+import { getSampleVersions } from "@/lib/services/analysis/versions";
 import { getSample } from "@/lib/services/samples/getSample";
 import { listSessions } from "@/lib/services/sessions/sessions";
+import { getPhase } from "@/lib/services/spectra/readSpectra";
 
 export default async function SamplePage({ params }: { params: Promise<{ lab: string; sampleId: string }> }) {
   const { lab, sampleId } = await params;
   const ctx = await pageCtx(lab);
   const s = await orNotFound(getSample({ ctx, input: { id: sampleId } }));
-  const sessions = await listSessions({ ctx, input: { sampleId: s.id } });
+  const [sessions, phase, versions, analysis] = await Promise.all([
+    listSessions({ ctx, input: { sampleId: s.id } }),
+    getPhase({ ctx, input: { sampleId: s.id } }),
+    getSampleVersions({ ctx, input: { sampleId: s.id } }),
+    loadSampleAnalysis(ctx.db, s.id),
+  ]);
+  // The tips this sample was measured with, for the field model's assumptions.
+  const tipIds = [...new Set(sessions.map((x) => x.tipId).filter((t): t is string => Boolean(t)))];
+  const usedTips = tipIds.length ? await ctx.db.select().from(tips).where(and(eq(tips.labId, ctx.actor.labId), inArray(tips.id, tipIds))) : [];
+  const model = analysis.modelFor(usedTips[0] ?? null);
+  const included = phase.points.filter((p) => !p.excluded).length;
   return (
     <>
       <PageHeader
         eyebrow="Sample"
         title={s.name}
-        description={`${s.material}${s.substrate ? ` on ${s.substrate}` : ""}`}
+        description={`${s.material}${s.substrate ? ` on ${s.substrate}` : ""} · sample work function ${s.workFunctionEv.toFixed(2)} ± ${s.workFunctionSigmaEv.toFixed(2)} eV`}
         actions={
           <>
-            {can(ctx.actor.role, "session:write") ? <ButtonLink href={`/labs/${lab}/sessions/new?sample=${s.id}`} variant="secondary">New session</ButtonLink> : null}
-            {can(ctx.actor.role, "sample:write") ? <ButtonLink href={`/labs/${lab}/samples/${s.id}/edit`} variant="secondary">Edit</ButtonLink> : null}
+            {phase.points.length ? (
+              <ButtonLink href={`/labs/${lab}/spectra/${phase.points[0].spectrumId}`} variant="accent">
+                Review spectra
+              </ButtonLink>
+            ) : null}
+            {can(ctx.actor.role, "session:write") ? (
+              <ButtonLink href={`/labs/${lab}/sessions/new?sample=${s.id}`} variant="secondary">
+                New session
+              </ButtonLink>
+            ) : null}
+            {can(ctx.actor.role, "sample:write") ? (
+              <ButtonLink href={`/labs/${lab}/samples/${s.id}/edit`} variant="secondary">
+                Edit
+              </ButtonLink>
+            ) : null}
           </>
         }
       />
-      <div className="grid gap-5 lg:grid-cols-[2fr_1fr]">
+      <div className="grid gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)]">
+        <Card title="Gap versus estimated field">
+          <PhasePlot lab={lab} sampleId={s.id} initial={phase} />
+        </Card>
+        <div className="space-y-5">
+          <Card title="Critical field">
+            <CrossingSummary crossing={phase.crossing} nIncluded={included} />
+          </Card>
+          <Card title="How the field is estimated">
+            <div className="space-y-2 text-xs leading-relaxed text-ink-soft" data-testid="field-assumptions">
+              <p className="num text-ink">
+                E = (Φ<sub>tip</sub> − Φ<sub>sample</sub>) / (e·d), d = d<sub>c</sub> + ln(G<sub>0</sub>/G<sub>set</sub>)/(2κ) + Δz
+              </p>
+              <ul className="list-disc space-y-0.5 pl-4">
+                <li>
+                  Φ<sub>tip</sub> = <span className="num">{usedTips.length ? usedTips.map((t) => `${t.workFunctionEv.toFixed(2)} ± ${t.workFunctionSigmaEv.toFixed(2)} eV (${t.label})`).join("; ") : `${model.tipWorkFunction_eV} ± ${model.tipWorkFunctionSigma_eV} eV (lab default)`}</span>
+                </li>
+                <li>
+                  Φ<sub>sample</sub> = <span className="num">{model.sampleWorkFunction_eV.toFixed(2)} ± {model.sampleWorkFunctionSigma_eV.toFixed(2)} eV</span>
+                </li>
+                {fieldAssumptions(model).map((a) => (
+                  <li key={a}>{a}</li>
+                ))}
+              </ul>
+              <p>
+                Field model <span className="num">v{versions.field.version}</span>, extraction settings <span className="num">v{versions.settings.version}</span>. Error bars: gap from the
+                pick&apos;s uncertainty; field from the work-function and contact-distance uncertainties (common to all points, so they also widen the critical field&apos;s interval).
+              </p>
+            </div>
+          </Card>
+        </div>
+      </div>
+      <div className="mt-5 grid gap-5 lg:grid-cols-2">
+        <Card title="Analysis settings">
+          <SettingsEditors
+            lab={lab}
+            sampleId={s.id}
+            canEdit={can(ctx.actor.role, "analysis:write")}
+            initial={{
+              settings: { id: versions.settings.id, version: versions.settings.version, settings: versions.settings.settings, createdAt: versions.settings.createdAt.toISOString() },
+              fieldModel: { id: versions.field.id, version: versions.field.version, model: versions.field.model, createdAt: versions.field.createdAt.toISOString() },
+              run: versions.run ? { id: versions.run.id, status: versions.run.status, total: versions.run.total, done: versions.run.done, reason: versions.run.reason } : null,
+            }}
+          />
+        </Card>
         <Card title="Sessions">
           {sessions.length === 0 ? (
             <EmptyState title="No sessions for this sample">Create a session for each cooldown or tip, then upload its spectra.</EmptyState>
@@ -36,23 +112,13 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
                     {x.label}
                   </Link>
                   <span className="num text-xs text-muted">
-                    {x.date} · {x.spectraCount} spectra
+                    {x.date} · {x.tipLabel ?? "no tip"} · {x.spectraCount} spectra
                   </span>
                 </li>
               ))}
             </ul>
           )}
-        </Card>
-        <Card title="Sample">
-          <dl className="space-y-2 text-sm">
-            <div className="flex justify-between gap-4">
-              <dt className="text-muted">Work function</dt>
-              <dd className="num">
-                {s.workFunctionEv.toFixed(2)} ± {s.workFunctionSigmaEv.toFixed(2)} eV
-              </dd>
-            </div>
-            {s.notes ? <p className="whitespace-pre-wrap pt-2 text-ink-soft">{s.notes}</p> : null}
-          </dl>
+          {s.notes ? <p className="mt-4 whitespace-pre-wrap border-t border-line pt-3 text-sm text-ink-soft">{s.notes}</p> : null}
         </Card>
       </div>
     </>

@@ -1,0 +1,54 @@
+import { CrossingBadge } from "@/components/ui/badge";
+import type { PhaseData } from "./phase-plot";
+
+/** The critical field as a reader should see it: value, interval, state, evidence, and whether an analyst confirmed it. */
+export function CrossingSummary({ crossing, nIncluded }: { crossing: PhaseData["crossing"]; nIncluded: number }) {
+  const c = crossing;
+  const comparison = "comparison" in c ? (c.comparison as { deltaBic?: number; preferred?: string } | null) : null;
+  return (
+    <div className="space-y-3" data-testid="crossing-summary">
+      <div className="flex items-center gap-2">
+        <CrossingBadge state={c.state} status={"status" in c ? c.status : null} />
+        {"status" in c && c.status === "confirmed" ? <span className="text-xs text-ok">✓ confirmed by an analyst</span> : c.state === "crossed" ? <span className="text-xs text-muted">candidate — not yet confirmed</span> : null}
+      </div>
+      {c.state === "crossed" && c.field_V_per_nm != null ? (
+        <div>
+          <p className="text-xs uppercase tracking-wide text-muted">critical field (estimate)</p>
+          <p className="num text-3xl font-medium text-ink" data-testid="critical-field">
+            {c.field_V_per_nm.toFixed(3)} <span className="text-base text-ink-soft">V/nm</span>
+          </p>
+          {c.ci95_V_per_nm ? (
+            <p className="num text-sm text-ink-soft" data-testid="critical-field-ci">
+              95% interval [{c.ci95_V_per_nm[0].toFixed(3)}, {c.ci95_V_per_nm[1].toFixed(3)}] V/nm
+            </p>
+          ) : null}
+          {"ci95Statistical_V_per_nm" in c && c.ci95Statistical_V_per_nm ? (
+            <p className="num text-xs text-muted">
+              from the scatter of the points alone: [{c.ci95Statistical_V_per_nm[0].toFixed(3)}, {c.ci95Statistical_V_per_nm[1].toFixed(3)}]; the wider interval adds the work-function and contact-distance uncertainties, which shift every field together
+            </p>
+          ) : null}
+        </div>
+      ) : c.state === "closing" ? (
+        <div>
+          <p className="text-sm text-ink">The gap shrinks with field but has not reopened within the measured range.</p>
+          {"extrapolated_V_per_nm" in c && c.extrapolated_V_per_nm != null ? (
+            <p className="num mt-1 text-sm text-ink-soft">straight-line extrapolation to zero gap: {c.extrapolated_V_per_nm.toFixed(2)} V/nm (beyond the data; not a crossing)</p>
+          ) : null}
+        </div>
+      ) : (
+        <p className="text-sm text-ink-soft">{nIncluded < 4 ? "Too few spectra with a gap and a field for a fit." : "No closing of the gap that a fit can support."}</p>
+      )}
+      {"slopes" in c && c.slopes ? (
+        <p className="num text-xs text-ink-soft">
+          slopes dΔ/dE: {(c.slopes.below * 1000).toFixed(0)} meV per V/nm below, {((c.slopes.above ?? 0) * 1000).toFixed(0)} above
+        </p>
+      ) : null}
+      {comparison?.deltaBic != null ? (
+        <p className="text-xs text-ink-soft">
+          model comparison: V-shape versus straight line, ΔBIC = <span className="num">{comparison.deltaBic > 100 ? "> 100" : comparison.deltaBic.toFixed(1)}</span> ({comparison.deltaBic >= 6 ? "strong" : comparison.deltaBic >= 2 ? "some" : "no"} preference for closing and reopening)
+        </p>
+      ) : null}
+      {"n" in c ? <p className="text-xs text-muted">{c.n} spectra in the fit · fitted {"fittedAt" in c && c.fittedAt ? `${c.fittedAt.slice(0, 16).replace("T", " ")} UTC` : ""}</p> : null}
+    </div>
+  );
+}

@@ -1,0 +1,169 @@
+"use client";
+
+import { useQuery } from "@tanstack/react-query";
+import { useRouter } from "next/navigation";
+import { useMemo, useState } from "react";
+import { axis, baseLayout, COLORS, Plot } from "@/components/plots/plot";
+import { api } from "@/lib/api-client";
+import { queryKeys } from "@/lib/query-keys";
+import type { getPhase } from "@/lib/services/spectra/readSpectra";
+
+export type PhaseData = Awaited<ReturnType<typeof getPhase>>;
+type XMode = "field" | "distance" | "conductance";
+
+const X_AXIS: Record<XMode, { title: string; type?: "log"; of: (p: PhaseData["points"][number]) => number | null; sigma?: (p: PhaseData["points"][number]) => number | null }> = {
+  field: { title: "estimated field E (V/nm)", of: (p) => p.field_V_per_nm, sigma: (p) => p.fieldSigma_V_per_nm },
+  distance: { title: "estimated tip–sample distance d (nm)", of: (p) => p.distance_nm },
+  conductance: { title: "setpoint conductance |I/V| (S)", type: "log", of: (p) => p.setpointConductance_S },
+};
+
+/** Above this many points the markers are drawn with WebGL. */
+const WEBGL_FROM = 1500;
+
+/**
+ * Gap versus estimated field: error bars both ways, one series per region, corrected picks as
+ * diamonds and excluded spectra as open crosses (shape, not only colour), the fitted V with its
+ * 95% band, the critical field with its interval, and an optional theory overlay. Clicking a point
+ * opens that spectrum.
+ */
+export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: string; initial: PhaseData }) {
+  const router = useRouter();
+  const [mode, setMode] = useState<XMode>("field");
+  const [showExcluded, setShowExcluded] = useState(true);
+  const [theory, setTheory] = useState({ on: false, lambda_meV: "43", ell_A: "0.33" });
+  const { data = initial, isFetching, isError, refetch } = useQuery({
+    queryKey: queryKeys.phase(sampleId),
+    queryFn: () => api<PhaseData>(lab, "GET", `/samples/${sampleId}/phase`),
+    initialData: initial,
+    refetchInterval: 10_000,
+  });
+
+  const figure = useMemo(() => {
+    const x = X_AXIS[mode];
+    const gl = data.points.length >= WEBGL_FROM;
+    const type = gl ? "scattergl" : "scatter";
+    const regions = [...new Set(data.points.map((p) => p.region ?? "all regions"))].sort();
+    const traces: Record<string, unknown>[] = [];
+    const c = data.crossing;
+    if (mode === "field" && "curve" in c && c.curve && c.state !== "none") {
+      traces.push({ x: c.curve.field, y: c.curve.hi.map((v: number) => v * 1000), type: "scatter", mode: "lines", line: { width: 0 }, hoverinfo: "skip", showlegend: false });
+      traces.push({ x: c.curve.field, y: c.curve.lo.map((v: number) => Math.max(0, v) * 1000), type: "scatter", mode: "lines", line: { width: 0 }, fill: "tonexty", fillcolor: "rgba(185,81,42,0.14)", name: "95% band", hoverinfo: "skip" });
+      traces.push({ x: c.curve.field, y: c.curve.gap.map((v: number) => v * 1000), type: "scatter", mode: "lines", line: { color: "#b9512a", width: 2 }, name: c.state === "crossed" ? "fit: closes and reopens" : "fit: closing", hoverinfo: "skip" });
+    }
+    regions.forEach((region, i) => {
+      const color = COLORS[i % COLORS.length];
+      const groups: { name: string; pts: PhaseData["points"]; marker: Record<string, unknown> }[] = [
+        { name: `${region}`, pts: data.points.filter((p) => (p.region ?? "all regions") === region && !p.excluded && p.source === "auto"), marker: { symbol: "circle", size: 7, color } },
+        { name: `${region} · corrected`, pts: data.points.filter((p) => (p.region ?? "all regions") === region && !p.excluded && p.source === "corrected"), marker: { symbol: "diamond", size: 9, color, line: { color: "#1c2430", width: 1 } } },
+        ...(showExcluded ? [{ name: `${region} · excluded`, pts: data.points.filter((p) => (p.region ?? "all regions") === region && p.excluded), marker: { symbol: "x-open", size: 8, color: "#8a8478" } }] : []),
+      ];
+      for (const g of groups) {
+        const pts = g.pts.filter((p) => x.of(p) != null);
+        if (!pts.length) continue;
+        traces.push({
+          type,
+          mode: "markers",
+          name: g.name,
+          x: pts.map((p) => x.of(p)),
+          y: pts.map((p) => p.gap_eV * 1000),
+          customdata: pts.map((p) => p.spectrumId),
+          marker: g.marker,
+          error_y: { type: "data", array: pts.map((p) => (p.gapSigma_eV ?? 0) * 1000), visible: true, thickness: 1, width: gl ? 0 : 2, color: g.marker.color },
+          ...(x.sigma ? { error_x: { type: "data", array: pts.map((p) => x.sigma!(p) ?? 0), visible: true, thickness: 1, width: 0, color: "rgba(110,106,95,0.35)" } } : {}),
+          hovertemplate: `${mode === "field" ? "E = %{x:.3f} V/nm" : mode === "distance" ? "d = %{x:.3f} nm" : "G = %{x:.3e} S"}<br>gap = %{y:.1f} meV<extra>${g.name}</extra>`,
+        });
+      }
+    });
+    if (mode === "field" && theory.on) {
+      const lambda = Number(theory.lambda_meV) / 1000;
+      const ell_nm = Number(theory.ell_A) / 10;
+      if (lambda > 0 && ell_nm > 0) {
+        const xs = data.points.map((p) => p.field_V_per_nm);
+        const hi = Math.max(2 * (lambda / ell_nm), ...xs, 0.1);
+        const grid = Array.from({ length: 201 }, (_, i) => (hi * 1.1 * i) / 200);
+        traces.push({ x: grid, y: grid.map((E) => 2 * Math.abs(lambda - ell_nm * E) * 1000), type: "scatter", mode: "lines", line: { color: "#5b4b8a", dash: "dash", width: 1.5 }, name: `theory: Δ = 2|λ − ℓeE| (λ ${theory.lambda_meV} meV, ℓ ${theory.ell_A} Å)` });
+      }
+    }
+    const shapes: Record<string, unknown>[] = [];
+    const annotations: Record<string, unknown>[] = [];
+    if (mode === "field" && c.state === "crossed" && c.field_V_per_nm != null) {
+      // Light: the interval with the field model's common uncertainty; darker: from the points' scatter alone.
+      if (c.ci95_V_per_nm) shapes.push({ type: "rect", xref: "x", yref: "paper", x0: c.ci95_V_per_nm[0], x1: c.ci95_V_per_nm[1], y0: 0, y1: 1, fillcolor: "rgba(185,81,42,0.05)", line: { width: 0 }, layer: "below" });
+      const stat = "ci95Statistical_V_per_nm" in c ? c.ci95Statistical_V_per_nm : null;
+      if (stat) shapes.push({ type: "rect", xref: "x", yref: "paper", x0: stat[0], x1: stat[1], y0: 0, y1: 1, fillcolor: "rgba(185,81,42,0.16)", line: { width: 0 }, layer: "below" });
+      shapes.push({ type: "line", xref: "x", yref: "paper", x0: c.field_V_per_nm, x1: c.field_V_per_nm, y0: 0, y1: 1, line: { color: "#b9512a", width: 1.5, dash: "dot" } });
+      annotations.push({ x: c.field_V_per_nm, y: 1, xref: "x", yref: "paper", yanchor: "bottom", text: `E<sub>c</sub> = ${c.field_V_per_nm.toFixed(3)} V/nm`, showarrow: false, font: { color: "#b9512a", size: 12 } });
+    }
+    return {
+      data: traces,
+      layout: baseLayout({
+        xaxis: axis(x.title, x.type ? { type: x.type } : {}),
+        yaxis: axis("band gap (meV)", { rangemode: "tozero" }),
+        shapes,
+        annotations,
+        margin: { l: 64, r: 16, t: 28, b: 52 },
+        uirevision: `${sampleId}-${mode}`,
+      }),
+    };
+  }, [data, mode, showExcluded, theory, sampleId]);
+
+  return (
+    <div className="space-y-3" data-testid="phase-plot" data-points={data.points.length} data-state={data.crossing.state}>
+      <div className="flex flex-wrap items-center gap-3 text-sm">
+        <div role="radiogroup" aria-label="x axis" className="inline-flex rounded-md border border-line bg-white p-0.5">
+          {(["field", "distance", "conductance"] as XMode[]).map((m) => (
+            <button key={m} type="button" role="radio" aria-checked={mode === m} onClick={() => setMode(m)} className={`rounded px-2.5 py-1 text-xs font-medium ${mode === m ? "bg-ink text-white" : "text-ink-soft hover:bg-paper"}`}>
+              {m === "field" ? "Field" : m === "distance" ? "Distance" : "Setpoint conductance"}
+            </button>
+          ))}
+        </div>
+        <label className="inline-flex items-center gap-1.5 text-xs text-ink-soft">
+          <input type="checkbox" checked={showExcluded} onChange={(e) => setShowExcluded(e.target.checked)} /> show excluded
+        </label>
+        <details className="text-xs text-ink-soft">
+          <summary className="cursor-pointer select-none">Theory overlay</summary>
+          <div className="mt-2 flex flex-wrap items-end gap-2 rounded-md border border-line bg-white p-2">
+            <label className="inline-flex items-center gap-1.5">
+              <input type="checkbox" checked={theory.on} onChange={(e) => setTheory({ ...theory, on: e.target.checked })} /> Δ(E) = 2|λ<sub>SO</sub> − ℓeE|
+            </label>
+            <label>
+              λ<sub>SO</sub> (meV) <input className="num ml-1 w-16 rounded border border-line px-1" value={theory.lambda_meV} onChange={(e) => setTheory({ ...theory, lambda_meV: e.target.value })} />
+            </label>
+            <label>
+              ℓ (Å) <input className="num ml-1 w-16 rounded border border-line px-1" value={theory.ell_A} onChange={(e) => setTheory({ ...theory, ell_A: e.target.value })} />
+            </label>
+            <span className="text-muted">buckled-honeycomb model; e.g. germanene λ ≈ 43 meV, ℓ ≈ 0.33 Å (published estimates, from memory) → E<sub>c</sub> = λ/ℓ</span>
+          </div>
+        </details>
+        <span className="ml-auto text-xs text-muted">{isFetching ? "updating…" : `${data.points.length} spectra`}</span>
+      </div>
+      {isError ? (
+        <p className="text-sm text-danger">
+          The phase data could not be refreshed.{" "}
+          <button className="underline" type="button" onClick={() => refetch()}>
+            Retry
+          </button>
+        </p>
+      ) : null}
+      {data.points.length === 0 ? (
+        <div className="flex h-72 items-center justify-center rounded-lg border border-dashed border-line text-sm text-muted">
+          No spectra with a gap and a field yet: upload a session&apos;s spectra, and tag setpoints where the files lack them.
+        </div>
+      ) : (
+        <div className="h-[440px] w-full">
+          <Plot
+            data={figure.data}
+            layout={figure.layout}
+            config={{ displaylogo: false, responsive: true, toImageButtonOptions: { filename: `phase-${sampleId}`, scale: 2 } }}
+            style={{ width: "100%", height: "100%" }}
+            useResizeHandler
+            onClick={(e: { points?: { customdata?: string }[] }) => {
+              const id = e.points?.[0]?.customdata;
+              if (typeof id === "string") router.push(`/labs/${lab}/spectra/${id}`);
+            }}
+          />
+        </div>
+      )}
+    </div>
+  );
+}

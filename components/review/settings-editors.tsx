@@ -1,0 +1,174 @@
+"use client";
+
+import { useQuery, useQueryClient } from "@tanstack/react-query";
+import { useState, type FormEvent } from "react";
+import { Button } from "@/components/ui/button";
+import { Notice } from "@/components/ui/card";
+import { Field, Input, Select } from "@/components/ui/field";
+import { api, ApiError } from "@/lib/api-client";
+import { queryKeys } from "@/lib/query-keys";
+
+type Versions = {
+  settings: { id: string; version: number; settings: Record<string, any>; createdAt: string };
+  fieldModel: { id: string; version: number; model: Record<string, any>; createdAt: string };
+  run: { id: string; status: string; total: number; done: number; reason: string } | null;
+};
+
+const num = (v: FormDataEntryValue | null) => (v === null || String(v).trim() === "" ? null : Number(String(v).replace(",", ".")));
+
+/** Progress of the background re-analysis that a saved version started. */
+function RunProgress({ run }: { run: Versions["run"] }) {
+  if (!run || run.status === "done") return run ? <p className="text-xs text-muted">Last re-analysis ({run.reason}) finished: {run.done} spectra.</p> : null;
+  const pct = run.total ? Math.round((100 * run.done) / run.total) : 0;
+  return (
+    <div aria-live="polite" data-testid="reanalysis-progress">
+      <p className="text-xs text-ink-soft">
+        Re-analysing ({run.reason}): {run.status === "queued" ? "queued" : `${run.done} of ${run.total}`}
+      </p>
+      <div className="mt-1 h-1.5 overflow-hidden rounded-full bg-line" role="progressbar" aria-valuenow={pct} aria-valuemin={0} aria-valuemax={100} aria-label="Re-analysis progress">
+        <div className="h-full bg-teal transition-[width]" style={{ width: `${pct}%` }} />
+      </div>
+    </div>
+  );
+}
+
+/**
+ * Editors of a sample's extraction settings and field model. Saving makes a new version; the
+ * automatic picks nobody corrected by hand and every field estimate are re-run in the background.
+ */
+export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: string; sampleId: string; canEdit: boolean; initial: Versions }) {
+  const qc = useQueryClient();
+  const { data = initial } = useQuery({
+    queryKey: queryKeys.sampleVersions(sampleId),
+    queryFn: () => api<Versions>(lab, "GET", `/samples/${sampleId}/analysis`),
+    initialData: initial,
+    refetchInterval: (q) => (q.state.data?.run && q.state.data.run.status !== "done" ? 1000 : false),
+  });
+  const [msg, setMsg] = useState<{ tone: "ok" | "danger"; text: string; fields?: Record<string, string[]> } | null>(null);
+  const s = data.settings.settings;
+  const m = data.fieldModel.model;
+
+  async function save(kind: "settings" | "field", e: FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const f = new FormData(e.currentTarget);
+    try {
+      if (kind === "settings") {
+        await api(lab, "PUT", `/samples/${sampleId}/extraction-settings`, {
+          settings: {
+            smoothing: { method: f.get("method"), window_mV: num(f.get("window_mV")), order: num(f.get("order")), gaussianSigma_mV: num(f.get("gaussianSigma_mV")), fftCutoff_mV: num(f.get("fftCutoff_mV")) },
+            threshold: { k: num(f.get("k")), consecutive: num(f.get("consecutive")) },
+            search: { minBias_V: num(f.get("minBias_V")), maxBias_V: num(f.get("maxBias_V")) },
+            fit: { enabled: f.get("fit") === "on" },
+          },
+          note: String(f.get("note") ?? "") || undefined,
+        });
+      } else {
+        const source = String(f.get("decayConstantSource"));
+        await api(lab, "PUT", `/samples/${sampleId}/field-model`, {
+          contactDistance_nm: num(f.get("contactDistance_nm")),
+          contactDistanceSigma_nm: num(f.get("contactDistanceSigma_nm")),
+          decayConstantSource: source,
+          barrierHeight_eV: source === "measured" ? num(f.get("barrierHeight_eV")) : null,
+          screening: num(f.get("screening")),
+          note: String(f.get("note") ?? "") || undefined,
+        });
+      }
+      setMsg({ tone: "ok", text: "Saved as a new version; the sample is being re-analysed." });
+      await qc.invalidateQueries({ queryKey: queryKeys.sampleVersions(sampleId) });
+    } catch (err) {
+      setMsg({ tone: "danger", text: err instanceof ApiError ? err.message : "Not saved.", fields: err instanceof ApiError ? err.body?.error?.fields : undefined });
+    }
+  }
+
+  const fe = (k: string) => msg?.fields?.[k];
+  return (
+    <div className="space-y-5" data-testid="settings-editors">
+      <RunProgress run={data.run} />
+      {msg ? <Notice tone={msg.tone}>{msg.text}</Notice> : null}
+      <form onSubmit={(e) => save("settings", e)} className="space-y-3" aria-label="Extraction settings">
+        <h3 className="text-sm font-semibold">
+          Extraction settings <span className="num font-normal text-muted">v{data.settings.version}</span>
+        </h3>
+        <fieldset disabled={!canEdit} className="grid gap-3 sm:grid-cols-3">
+          <Field label="Smoothing" name="method">
+            <Select name="method" defaultValue={s.smoothing?.method}>
+              <option value="savitzky-golay">Savitzky–Golay</option>
+              <option value="gaussian">Gaussian</option>
+              <option value="fft">FFT low-pass</option>
+              <option value="none">none</option>
+            </Select>
+          </Field>
+          <Field label="SG window" name="window_mV" unit="mV" hint="blank: from the resolution" error={fe("smoothing.window_mV")}>
+            <Input name="window_mV" defaultValue={s.smoothing?.window_mV ?? ""} className="num" />
+          </Field>
+          <Field label="SG order" name="order" error={fe("smoothing.order")}>
+            <Input name="order" defaultValue={s.smoothing?.order} className="num" />
+          </Field>
+          <Field label="Gaussian σ" name="gaussianSigma_mV" unit="mV" hint="blank: from the resolution" error={fe("smoothing.gaussianSigma_mV")}>
+            <Input name="gaussianSigma_mV" defaultValue={s.smoothing?.gaussianSigma_mV ?? ""} className="num" />
+          </Field>
+          <Field label="FFT cutoff" name="fftCutoff_mV" unit="mV" hint="shortest period kept" error={fe("smoothing.fftCutoff_mV")}>
+            <Input name="fftCutoff_mV" defaultValue={s.smoothing?.fftCutoff_mV ?? ""} className="num" />
+          </Field>
+          <Field label="Threshold k" name="k" hint="edge at floor + k·σ" error={fe("threshold.k")}>
+            <Input name="k" defaultValue={s.threshold?.k} className="num" />
+          </Field>
+          <Field label="Consecutive points" name="consecutive" error={fe("threshold.consecutive")}>
+            <Input name="consecutive" defaultValue={s.threshold?.consecutive} className="num" />
+          </Field>
+          <Field label="Search from" name="minBias_V" unit="V" hint="blank: whole spectrum">
+            <Input name="minBias_V" defaultValue={s.search?.minBias_V ?? ""} className="num" />
+          </Field>
+          <Field label="Search to" name="maxBias_V" unit="V">
+            <Input name="maxBias_V" defaultValue={s.search?.maxBias_V ?? ""} className="num" />
+          </Field>
+          <label className="flex items-center gap-2 text-sm sm:col-span-2">
+            <input type="checkbox" name="fit" defaultChecked={s.fit?.enabled} /> refine each edge with the broadening-aware fit (thermal and lock-in kernels)
+          </label>
+          <Field label="Note" name="note">
+            <Input name="note" placeholder="why this change" />
+          </Field>
+        </fieldset>
+        {canEdit ? (
+          <div className="flex justify-end">
+            <Button type="submit">Save settings as v{data.settings.version + 1}</Button>
+          </div>
+        ) : null}
+      </form>
+      <form onSubmit={(e) => save("field", e)} className="space-y-3 border-t border-line pt-4" aria-label="Field model">
+        <h3 className="text-sm font-semibold">
+          Field model <span className="num font-normal text-muted">v{data.fieldModel.version}</span>
+        </h3>
+        <fieldset disabled={!canEdit} className="grid gap-3 sm:grid-cols-3">
+          <Field label="Contact distance d_c" name="contactDistance_nm" unit="nm" error={fe("contactDistance_nm")}>
+            <Input name="contactDistance_nm" defaultValue={m.contactDistance_nm} className="num" />
+          </Field>
+          <Field label="its uncertainty" name="contactDistanceSigma_nm" unit="nm" error={fe("contactDistanceSigma_nm")}>
+            <Input name="contactDistanceSigma_nm" defaultValue={m.contactDistanceSigma_nm} className="num" />
+          </Field>
+          <Field label="Screening factor" name="screening" hint="1 = none" error={fe("screening")}>
+            <Input name="screening" defaultValue={m.screening} className="num" />
+          </Field>
+          <Field label="Decay constant κ from" name="decayConstantSource">
+            <Select name="decayConstantSource" defaultValue={m.decayConstantSource ?? (m.barrierHeight_eV ? "measured" : "mean-work-function")}>
+              <option value="mean-work-function">mean work function</option>
+              <option value="measured">measured barrier</option>
+            </Select>
+          </Field>
+          <Field label="Apparent barrier height" name="barrierHeight_eV" unit="eV" hint="from an I(z) curve: 0.952·(d ln I/dz [Å⁻¹])²" error={fe("barrierHeight_eV")}>
+            <Input name="barrierHeight_eV" defaultValue={m.barrierHeight_eV ?? ""} className="num" />
+          </Field>
+          <Field label="Note" name="note">
+            <Input name="note" placeholder="why this change" />
+          </Field>
+        </fieldset>
+        <p className="text-xs text-muted">Tip and sample work functions come from each session&apos;s tip and from the sample (edit them there).</p>
+        {canEdit ? (
+          <div className="flex justify-end">
+            <Button type="submit">Save field model as v{data.fieldModel.version + 1}</Button>
+          </div>
+        ) : null}
+      </form>
+    </div>
+  );
+}

@@ -1,0 +1,4 @@
+declare module "plotly.js-dist-min" {
+  const Plotly: unknown;
+  export default Plotly;
+}
