@@ -49,7 +49,10 @@ export interface GapPick {
   threshold_edges: { vbEdge_V: number; cbEdge_V: number } | null;
   logCheck: { vbEdge_V: number | null; cbEdge_V: number | null } | null;
   smoothing: string;
+  /** The analysed curve after smoothing (sign-inverted if `signInverted`; floor and threshold refer to it). */
   smoothed: Float64Array;
+  /** dI/dV was mostly negative and was analysed with its sign inverted. */
+  signInverted: boolean;
   warnings: string[];
 }
 
@@ -110,7 +113,19 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     if (!Number.isFinite(input.bias_V[i]) || !Number.isFinite(input.didv[i])) throw new RangeError(`non-finite value at point ${i}`);
   const { b: bias, v: yIn } = sortedCopy(input.bias_V, input.didv);
   const warnings: string[] = [];
-  const { y, replaced } = despike(yIn);
+  // A lock-in phase set 180° off gives a mostly negative dI/dV: read it with the sign inverted.
+  let yPol = yIn;
+  let signInverted = false;
+  {
+    const q05 = quantile(yIn, 0.05);
+    const q95 = quantile(yIn, 0.95);
+    if (q05 < 0 && -q05 > 3 * Math.max(q95, 0)) {
+      yPol = yIn.map((v) => -v);
+      signInverted = true;
+      warnings.push("dI/dV is mostly negative: sign inverted for the analysis (lock-in phase?)");
+    }
+  }
+  const { y, replaced } = despike(yPol);
   if (replaced > 0) warnings.push(`${replaced} single-point spike${replaced > 1 ? "s" : ""} replaced by the mean of the neighbours`);
   const meta = input.meta ?? {};
   let T = meta.temperature_K;
@@ -126,6 +141,11 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   const res_mV = energyResolution_mV(T, vrms);
   const res_V = res_mV / 1000;
   const step = (bias[n - 1] - bias[0]) / (n - 1);
+  {
+    let dev = 0;
+    for (let i = 1; i < n; i++) dev = Math.max(dev, Math.abs(bias[i] - bias[i - 1] - step));
+    if (dev > 0.01 * step) warnings.push("non-uniform bias axis: smoothing assumes uniform steps (importSpectra resamples; do so before picking)");
+  }
   const sm = smoothSpectrum(y, step, res_mV, st.smoothing);
   const s = sm.s;
   let lo = 0;
@@ -151,6 +171,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     logCheck: null,
     smoothing: sm.description,
     smoothed: s,
+    signInverted,
     warnings: why ? [...warnings, why] : warnings,
     ...extra,
   });
@@ -232,6 +253,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     logCheck: { vbEdge_V: logV, cbEdge_V: logC },
     smoothing: sm.description,
     smoothed: s,
+    signInverted,
     warnings,
   };
 }

@@ -128,6 +128,20 @@ describe("extraction settings", () => {
   });
 });
 
+describe("polarity and sampling", () => {
+  it("a mostly negative dI/dV (lock-in phase 180° off) is read with its sign inverted", () => {
+    const s = makeSpectrum({ vbEdge_V: -0.1, cbEdge_V: 0.2, seed: 12 });
+    const p = pickGap({ bias_V: s.bias_V, didv: s.didv.map((v) => -v), meta: s.meta });
+    expect(p.warnings.join()).toMatch(/sign inverted/);
+    expect(Math.abs(p.gap_eV! - 0.3)).toBeLessThan(0.003);
+  });
+  it("a non-uniform axis passed directly gets a warning", () => {
+    const s = makeSpectrum({ vbEdge_V: -0.1, cbEdge_V: 0.2, seed: 12 });
+    const b = Float64Array.from(s.bias_V, (v, i) => v + (i % 2) * 0.0005);
+    expect(pickGap({ bias_V: b, didv: s.didv, meta: s.meta }).warnings.join()).toMatch(/non-uniform/);
+  });
+});
+
 describe("spikes", () => {
   it("isolated single-point spikes of ±50σ inside the gap do not move the edges (was: gap 350 meV picked as 3 meV)", () => {
     const s = makeSpectrum({ vbEdge_V: -0.15, cbEdge_V: 0.2, noise: 0.02, seed: 5 });
