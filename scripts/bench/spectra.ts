@@ -82,7 +82,51 @@ function throughput(grid: string) {
   line(`  python3 numpy/scipy                                  ${py.wall_s.toFixed(2)} s  (goal: bandcross < 0.5 × this)`);
 }
 
-function accuracy() {
+/**
+ * The numpy/scipy script's accuracy on held-out spectra that share one bias axis (−0.8 … 0.8 V, 2 mV)
+ * so they fit in one grid file; the same spectra through pickGap for comparison.
+ */
+function baseline(dir: string) {
+  const rng = makeRng(9_733_101);
+  const N = 300;
+  const cols: SyntheticSpectrum[] = [];
+  for (let k = 0; k < N; k++) {
+    const gap = 0.02 + 0.58 * rng.uniform();
+    const mid = -0.1 + 0.2 * rng.uniform();
+    const amplitude = 3 + 17 * rng.uniform();
+    cols.push(
+      makeSpectrum({
+        vbEdge_V: mid - gap / 2,
+        cbEdge_V: mid + gap / 2,
+        T_K: Math.exp(Math.log(1.2) + (Math.log(77) - Math.log(1.2)) * rng.uniform()),
+        vrms_mV: 1 + 7 * rng.uniform(),
+        amplitude,
+        noise: amplitude * (0.0005 + 0.005 * rng.uniform()),
+        seed: 9_800_000 + k,
+        biasMin_V: -0.8,
+        biasMax_V: 0.8,
+        step_V: 0.002,
+      }),
+    );
+  }
+  const rows = [["bias (mV)", ...cols.map((_, k) => `dI/dV ${k}`)].join("\t")];
+  for (let i = 0; i < cols[0].bias_V.length; i++) rows.push([(cols[0].bias_V[i] * 1000).toFixed(4), ...cols.map((c) => c.didv[i].toExponential(7))].join("\t"));
+  const file = join(dir, "heldout.tsv");
+  const truthFile = join(dir, "heldout-truth.json");
+  writeFileSync(file, rows.join("\n") + "\n");
+  writeFileSync(truthFile, JSON.stringify(cols.map((c) => c.truth.gap_eV)));
+  const py = timed("python3", ["scripts/bench/spectra_numpy.py", file, "--truth", truthFile]);
+  if (py.status !== 0) throw new Error(`numpy script failed: ${py.stderr}`);
+  const r = JSON.parse(py.stdout);
+  const ours = cols.map((c) => {
+    const p = pickGap(c);
+    return p.gap_eV === null ? Infinity : Math.abs(p.gap_eV - c.truth.gap_eV) * 1000;
+  });
+  line(`  same kind of spectra on one axis (${N}): numpy/scipy script median ${r.median_abs_err_meV.toFixed(1)} meV, 90th percentile ${r.p90_abs_err_meV.toFixed(1)} meV;`);
+  line(`    bandcross on the same spectra: median ${quantile(ours, 0.5).toFixed(2)} meV, 90th percentile ${quantile(ours, 0.9).toFixed(2)} meV`);
+}
+
+function accuracy(dir: string) {
   const rng = makeRng(9_417_003); // held-out seeds: the tests use other generators and seeds
   const N = 400;
   const err: number[] = [];
@@ -124,6 +168,7 @@ function accuracy() {
   line(`  |gap error|  median ${quantile(err, 0.5).toFixed(2)} meV   90th percentile ${quantile(err, 0.9).toFixed(2)} meV   max ${Math.max(...err).toFixed(1)} meV   (goals ≤ 10 and ≤ 30; aim ≤ 3)`);
   line(`  threshold edges alone: median ${quantile(thrErr, 0.5).toFixed(2)} meV   90th percentile ${quantile(thrErr, 0.9).toFixed(2)} meV`);
   line(`  gap ± 1.96σ covers the truth in ${((100 * covered) / (N - noGap)).toFixed(1)}% of spectra`);
+  baseline(dir);
 
   const M = 24;
   const ecErr: number[] = [];
@@ -169,7 +214,7 @@ export async function run(): Promise<void> {
     line(`wrote ${(g.bytes / 1e6).toFixed(1)} MB grid file in ${g.seconds.toFixed(1)} s`);
     throughput(grid);
     line("");
-    accuracy();
+    accuracy(dir);
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }

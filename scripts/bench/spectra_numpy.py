@@ -6,8 +6,9 @@ column, one dI/dV column per spectrum), smooths every spectrum with scipy's Savi
 takes the band edges where the smoothed signal first exceeds floor + k*sigma on either side of its
 minimum (floor = smoothed minimum's neighbourhood median, sigma = 1.4826 MAD of first differences / sqrt 2).
 
-Usage: python3 scripts/bench/spectra_numpy.py GRID.tsv [--window 9] [--k 3]
-Prints one JSON line: {"n", "read_s", "pick_s", "median_gap_eV", "scipy"}.
+Usage: python3 scripts/bench/spectra_numpy.py GRID.tsv [--window 9] [--k 3] [--truth GAPS.json]
+Prints one JSON line: {"n", "read_s", "pick_s", "median_gap_eV", "scipy", ...}; with --truth (a JSON list
+of the true gap of each column, eV) also the median and 90th percentile of |gap error| in meV.
 """
 import json
 import resource
@@ -51,7 +52,14 @@ def main() -> None:
         if up.size and dn.size:
             gaps[j] = bias[i0 + up[0]] - bias[i0 - dn[0]]
     t2 = time.perf_counter()
+    extra = {}
+    if "--truth" in sys.argv:
+        with open(sys.argv[sys.argv.index("--truth") + 1]) as f:
+            truth = np.array(json.load(f))
+        err = np.abs(np.where(np.isnan(gaps), np.inf, gaps - truth)) * 1000
+        extra = {"median_abs_err_meV": float(np.median(err)), "p90_abs_err_meV": float(np.quantile(err, 0.9))}
     print(json.dumps({
+        **extra,
         "n": int(y.shape[1]),
         "read_s": t1 - t0,
         "pick_s": t2 - t1,
