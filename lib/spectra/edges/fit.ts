@@ -221,7 +221,7 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
       const a = side === "cb" ? Math.max(mid, guess - below) : guess - beyond;
       const b = side === "cb" ? guess + beyond : Math.min(mid, guess + below);
       if (!(b > a)) return null;
-      let m = scanMinimize(f, a, b, 15, tol);
+      let m = scanMinimize(f, a, b, 9, tol);
       if (m.atBound) {
         // The threshold edge can sit further out than expected (a weak onset in strong noise): widen once.
         const a2 = side === "cb" ? Math.max(mid, a - below) : a - beyond;
