@@ -1,6 +1,6 @@
 import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
-import { fftLowpass, gaussianSmooth, savgolFilter, savgolWeights } from "@/lib/spectra";
+import { DEFAULT_EXTRACTION_SETTINGS, energyResolution_mV, fftLowpass, gaussianSmooth, savgolFilter, savgolWeights, smoothSpectrum } from "@/lib/spectra";
 
 const golden = JSON.parse(readFileSync(new URL("./golden/scipy-smoothing.json", import.meta.url), "utf8"));
 
@@ -104,5 +104,27 @@ describe("FFT low-pass with mirrored padding", () => {
   });
   it("rejects a cut-off at or below the Nyquist period", () => {
     expect(() => fftLowpass(slow, 2)).toThrow(RangeError);
+  });
+});
+
+describe("smoothing windows follow the spectrum's resolution (design: window defaults from the resolution)", () => {
+  it("automatic Savitzky–Golay window = 1.5 × resolution, odd, at least 5 points", () => {
+    const y = new Float64Array(400);
+    const step = 0.001;
+    for (const [T, vrms] of [[1.2, 1], [77, 8]]) {
+      const res = energyResolution_mV(T, vrms);
+      const sm = smoothSpectrum(y, step, res, DEFAULT_EXTRACTION_SETTINGS.smoothing);
+      let w = Math.round((1.5 * res) / 1000 / step);
+      if (w % 2 === 0) w += 1;
+      expect(sm.windowPoints).toBe(Math.max(5, w));
+    }
+    // An explicit window in mV wins: 21 mV at 1 mV per point = 21 points.
+    const sm = smoothSpectrum(y, step, 5, { ...DEFAULT_EXTRACTION_SETTINGS.smoothing, window_mV: 21 });
+    expect(sm.windowPoints).toBe(21);
+    // Noise gain of a 21-point quadratic filter is √c₀ with c₀ = 3(3m²+3m−1)/((2m−1)(2m+1)(2m+3)), m = 10
+    // (Savitzky & Golay 1964: centre weight of the quadratic smoothing filter, 2m+1 points).
+    const m = 10;
+    const c0 = (3 * (3 * m * m + 3 * m - 1)) / ((2 * m - 1) * (2 * m + 1) * (2 * m + 3));
+    expect(sm.gain).toBeCloseTo(Math.sqrt(c0), 12);
   });
 });
