@@ -2,7 +2,7 @@
 
 import { useQuery } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
-import { useMemo, useState } from "react";
+import { useMemo, useRef, useState } from "react";
 import { axis, baseLayout, COLORS, Plot } from "@/components/plots/plot";
 import { api } from "@/lib/api-client";
 import { queryKeys } from "@/lib/query-keys";
@@ -31,6 +31,12 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
   const [mode, setMode] = useState<XMode>("field");
   const [showExcluded, setShowExcluded] = useState(true);
   const [theory, setTheory] = useState({ on: false, lambda_meV: "43", ell_A: "0.33" });
+  const graph = useRef<HTMLElement | null>(null);
+  const download = async (format: "png" | "svg") => {
+    if (!graph.current) return;
+    const Plotly = (await import("plotly.js-dist-min")).default;
+    await Plotly.downloadImage(graph.current, { format, filename: `${data.sample.name.replace(/[^A-Za-z0-9-]+/g, "-")}-phase`, width: 1200, height: 800, scale: format === "png" ? 2 : 1 });
+  };
   const { data = initial, isFetching, isError, refetch } = useQuery({
     queryKey: queryKeys.phase(sampleId),
     queryFn: () => api<PhaseData>(lab, "GET", `/samples/${sampleId}/phase`),
@@ -135,7 +141,19 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
             <span className="text-muted">buckled-honeycomb model; e.g. germanene λ ≈ 43 meV, ℓ ≈ 0.33 Å (published estimates, from memory) → E<sub>c</sub> = λ/ℓ</span>
           </div>
         </details>
-        <span className="ml-auto text-xs text-muted">{isFetching ? "updating…" : `${data.points.length} spectra`}</span>
+        <span className="ml-auto flex items-center gap-2 text-xs text-muted">
+          {isFetching ? "updating…" : `${data.points.length} spectra`}
+          {data.points.length ? (
+            <>
+              <button type="button" className="rounded border border-line bg-white px-2 py-0.5 hover:border-ink-soft" onClick={() => download("png")}>
+                PNG
+              </button>
+              <button type="button" className="rounded border border-line bg-white px-2 py-0.5 hover:border-ink-soft" onClick={() => download("svg")}>
+                SVG
+              </button>
+            </>
+          ) : null}
+        </span>
       </div>
       {isError ? (
         <p className="text-sm text-danger">
@@ -157,6 +175,8 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
             config={{ displaylogo: false, responsive: true, toImageButtonOptions: { filename: `phase-${sampleId}`, scale: 2 } }}
             style={{ width: "100%", height: "100%" }}
             useResizeHandler
+            onInitialized={(_f, gd) => (graph.current = gd)}
+            onUpdate={(_f, gd) => (graph.current = gd)}
             onClick={(e: { points?: { customdata?: string }[] }) => {
               const id = e.points?.[0]?.customdata;
               if (typeof id === "string") router.push(`/labs/${lab}/spectra/${id}`);

@@ -1,5 +1,7 @@
 import { and, eq, inArray } from "drizzle-orm";
 import Link from "next/link";
+import { CrossingTimeline } from "@/components/alerts/crossing-timeline";
+import { WatchToggle } from "@/components/alerts/watch-toggle";
 import { CrossingSummary } from "@/components/review/crossing-summary";
 import { PhasePlot } from "@/components/review/phase-plot";
 import { SettingsEditors } from "@/components/review/settings-editors";
@@ -38,6 +40,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
         description={`${s.material}${s.substrate ? ` on ${s.substrate}` : ""} · sample work function ${s.workFunctionEv.toFixed(2)} ± ${s.workFunctionSigmaEv.toFixed(2)} eV`}
         actions={
           <>
+            <WatchToggle lab={lab} sampleId={s.id} />
             {phase.points.length ? (
               <ButtonLink href={`/labs/${lab}/spectra/${phase.points[0].spectrumId}`} variant="accent">
                 Review spectra
@@ -64,6 +67,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
           <Card title="Critical field">
             <CrossingSummary crossing={phase.crossing} nIncluded={included} />
           </Card>
+          <CrossingTimeline lab={lab} sampleId={s.id} />
           <Card title="How the field is estimated">
             <div className="space-y-2 text-xs leading-relaxed text-ink-soft" data-testid="field-assumptions">
               <p className="num text-ink">
@@ -88,7 +92,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
           </Card>
         </div>
       </div>
-      <div className="mt-5 grid gap-5 lg:grid-cols-2">
+      <div className="mt-5 grid gap-5 lg:grid-cols-2 xl:grid-cols-3">
         <Card title="Analysis settings">
           <SettingsEditors
             lab={lab}
@@ -100,6 +104,35 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
               run: versions.run ? { id: versions.run.id, status: versions.run.status, total: versions.run.total, done: versions.run.done, reason: versions.run.reason } : null,
             }}
           />
+        </Card>
+        <Card title="Export for a paper">
+          <ul className="space-y-2 text-sm" data-testid="exports">
+            <li>
+              <a className="font-medium text-copper underline-offset-2 hover:underline" href={`/api/v1/samples/${s.id}/export?format=phase-csv&lab=${lab}`} download>
+                Phase data (CSV)
+              </a>{" "}
+              <span className="text-xs text-muted">every point with its field model and settings versions and raw-file hash</span>
+            </li>
+            <li>
+              <a className="font-medium text-copper underline-offset-2 hover:underline" href={`/api/v1/samples/${s.id}/export?format=spectra-csv&lab=${lab}`} download>
+                Spectra (CSV)
+              </a>{" "}
+              <span className="text-xs text-muted">bias and dI/dV of every spectrum</span>
+            </li>
+            <li>
+              <a className="font-medium text-copper underline-offset-2 hover:underline" href={`/api/v1/samples/${s.id}/export?format=json&lab=${lab}`} download>
+                Everything (JSON)
+              </a>{" "}
+              <span className="text-xs text-muted">points, fit, settings and field model</span>
+            </li>
+            <li>
+              <a className="font-medium text-copper underline-offset-2 hover:underline" href={`/api/v1/samples/${s.id}/export?format=methods&lab=${lab}`} download>
+                Methods paragraph (text)
+              </a>{" "}
+              <span className="text-xs text-muted">written from the settings actually used</span>
+            </li>
+            <li className="text-xs text-muted">The figure: PNG or SVG buttons above the phase plot.</li>
+          </ul>
         </Card>
         <Card title="Sessions">
           {sessions.length === 0 ? (

@@ -1,0 +1,115 @@
+import "server-only";
+import { and, asc, eq } from "drizzle-orm";
+import { extractionSettingsVersions, fieldModelVersions, gapPicks, spectra, tips } from "@/db/schema";
+import { assertCan } from "@/lib/auth/permissions";
+import { fieldAssumptions, type ExtractionSettings } from "@/lib/spectra";
+import { loadSampleAnalysis } from "../analysis/sampleModel";
+import type { Ctx } from "../context";
+import { getSample } from "../samples/getSample";
+import { getPhase } from "../spectra/readSpectra";
+import { csv } from "./csv";
+
+/** Every point of the phase plot with what made it: field model and settings versions, raw-file hash. */
+export async function phaseCsv({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }) {
+  assertCan(ctx.actor, "lab:read");
+  const sample = await getSample({ ctx, input: { id: input.sampleId } });
+  const rows = await ctx.db
+    .select({ s: spectra, p: gapPicks, sv: extractionSettingsVersions.version, fv: fieldModelVersions.version, tip: tips.label })
+    .from(spectra)
+    .leftJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
+    .leftJoin(extractionSettingsVersions, eq(extractionSettingsVersions.id, gapPicks.settingsVersionId))
+    .leftJoin(fieldModelVersions, eq(fieldModelVersions.id, spectra.fieldModelVersionId))
+    .leftJoin(tips, eq(tips.id, spectra.tipId))
+    .where(and(eq(spectra.sampleId, sample.id), eq(spectra.labId, ctx.actor.labId)))
+    .orderBy(asc(spectra.fieldVPerNm), asc(spectra.sourceName), asc(spectra.indexInFile));
+  const header = [
+    "spectrum_id", "source_file", "index_in_file", "label", "raw_sha256", "region", "tip",
+    "setpoint_bias_V", "setpoint_current_A", "z_offset_pm", "temperature_K", "lockin_modulation_mV_rms",
+    "distance_nm", "distance_sigma_nm", "field_V_per_nm", "field_sigma_V_per_nm",
+    "pick_status", "vb_edge_V", "cb_edge_V", "gap_eV", "gap_sigma_eV", "closed_within_resolution", "resolution_meV",
+    "pick_source", "pick_method", "excluded", "excluded_reason", "extraction_settings_version", "field_model_version",
+  ];
+  const body = rows.map(({ s, p, sv, fv, tip }) => [
+    s.id, s.sourceName, s.indexInFile, s.label, s.rawSha256, s.region, tip,
+    s.setpointBiasV, s.setpointCurrentA, s.zOffsetPm, s.temperatureK, s.lockinModulationMvRms,
+    s.distanceNm, s.distanceSigmaNm, s.fieldVPerNm, s.fieldSigmaVPerNm,
+    p?.status, p?.vbEdgeV, p?.cbEdgeV, p?.gapEv, p?.uncertaintyEv, p?.closed, p?.resolutionMev,
+    p?.source, p?.method, p?.excluded, p?.excludedReason, sv, fv,
+  ]);
+  return { fileName: `${slug(sample.name)}-phase.csv`, text: csv(header, body) };
+}
+
+/** The spectra themselves, long form: one row per bias point. */
+export async function spectraCsv({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }) {
+  assertCan(ctx.actor, "lab:read");
+  const sample = await getSample({ ctx, input: { id: input.sampleId } });
+  const rows = await ctx.db
+    .select({ id: spectra.id, file: spectra.sourceName, index: spectra.indexInFile, bias: spectra.biasV, didv: spectra.didv })
+    .from(spectra)
+    .where(and(eq(spectra.sampleId, sample.id), eq(spectra.labId, ctx.actor.labId)))
+    .orderBy(asc(spectra.sourceName), asc(spectra.indexInFile));
+  const body: (string | number)[][] = [];
+  for (const r of rows) for (let i = 0; i < r.bias.length; i++) body.push([r.id, r.file, r.index, r.bias[i], r.didv[i]]);
+  return { fileName: `${slug(sample.name)}-spectra.csv`, text: csv(["spectrum_id", "source_file", "index_in_file", "bias_V", "dIdV"], body) };
+}
+
+export async function phaseJson({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }) {
+  const phase = await getPhase({ ctx, input });
+  const analysis = await loadSampleAnalysis(ctx.db, input.sampleId);
+  return {
+    fileName: `${slug(phase.sample.name)}-phase.json`,
+    body: {
+      sample: phase.sample,
+      versions: { extractionSettings: analysis.settingsVersion, fieldModel: analysis.fieldVersion },
+      extractionSettings: analysis.settings,
+      fieldModel: analysis.fieldStored,
+      points: phase.points,
+      crossing: phase.crossing,
+      exportedAt: new Date().toISOString(),
+    },
+  };
+}
+
+function smoothingWords(s: ExtractionSettings): string {
+  const sm = s.smoothing;
+  const auto = `${sm.windowPerResolution}× the energy resolution of each spectrum`;
+  switch (sm.method) {
+    case "savitzky-golay":
+      return `Savitzky–Golay smoothing (order ${sm.order}, window ${sm.window_mV ? `${sm.window_mV} mV` : auto}; Savitzky and Golay, Anal. Chem. 36, 1627 (1964))`;
+    case "gaussian":
+      return `Gaussian smoothing (σ ${sm.gaussianSigma_mV ? `${sm.gaussianSigma_mV} mV` : `set from ${auto}`})`;
+    case "fft":
+      return `an FFT low-pass filter with mirrored padding (shortest period kept ${sm.fftCutoff_mV ? `${sm.fftCutoff_mV} mV` : auto})`;
+    default:
+      return "no smoothing";
+  }
+}
+
+/** A methods paragraph built from the settings actually used, for a paper to cite. */
+export async function methodsText({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }) {
+  const phase = await getPhase({ ctx, input });
+  const a = await loadSampleAnalysis(ctx.db, input.sampleId);
+  const model = a.modelFor(null);
+  const s = a.settings;
+  const c = phase.crossing;
+  const n = phase.points.filter((p) => !p.excluded).length;
+  const corrected = phase.points.filter((p) => p.source === "corrected").length;
+  const excluded = phase.points.filter((p) => p.excluded).length;
+  const result =
+    c.state === "crossed" && c.field_V_per_nm != null
+      ? `The gap closes and reopens at an estimated critical field of ${c.field_V_per_nm.toFixed(3)} V/nm${c.ci95_V_per_nm ? ` (95% interval ${c.ci95_V_per_nm[0].toFixed(3)}–${c.ci95_V_per_nm[1].toFixed(3)} V/nm, including the work-function and contact-distance uncertainties)` : ""}, from a V-shaped fit of gap versus field weighted by both error bars and preferred over a monotonic line by the Bayesian information criterion.`
+      : c.state === "closing"
+        ? "The gap decreases with field but does not reopen within the measured range; no critical field is claimed."
+        : "No field dependence of the gap could be established.";
+  const text = [
+    `Band edges were extracted from ${n} dI/dV spectra of ${phase.sample.name} (${corrected} corrected by hand, ${excluded} excluded with a recorded reason) with Bandcross extraction settings version ${a.settingsVersion.version}.`,
+    `Each spectrum was smoothed with ${smoothingWords(s)}. The noise floor and its spread were estimated robustly from the median and the median absolute deviation (σ ≈ 1.4826 MAD) in the quiet region; a band edge was placed where the smoothed signal exceeded the floor by ${s.threshold.k}σ for ${s.threshold.consecutive} consecutive points, interpolated between samples${s.fit.enabled ? ", and then refined by fitting an onset model convolved with the thermal (−∂f/∂E, FWHM 3.5 k_BT) and first-harmonic lock-in kernels, so that the reported edges are unbroadened" : ""}. Gaps below the combined energy resolution √((3.5 k_BT)² + (2.45 V_rms)²) are reported as closed within resolution.`,
+    `Tip–sample distances were estimated as d = d_c + ln(G₀/G_set)/(2κ) + Δz with G₀ = 2e²/h, G_set = |I_set/V_set| and κ = √(2m_eφ)/ħ (field model version ${a.fieldVersion.version}: ${model.barrierHeight_eV == null ? "φ the mean of the tip and sample work functions" : `φ = ${model.barrierHeight_eV} eV, a measured apparent barrier height`}, d_c = ${model.contactDistance_nm} ± ${model.contactDistanceSigma_nm} nm), and the junction field as E = (Φ_tip − Φ_sample)/(e·d)${model.screening !== 1 ? `, divided by a screening factor of ${model.screening}` : ""}, with the sample work function ${model.sampleWorkFunction_eV} ± ${model.sampleWorkFunctionSigma_eV} eV and each session's tip work function. Field uncertainties were propagated from the work-function and contact-distance uncertainties. The field is a model estimate: ${fieldAssumptions(model).slice(0, 3).join("; ")}.`,
+    result,
+  ].join("\n\n");
+  return { fileName: `${slug(phase.sample.name)}-methods.txt`, text };
+}
+
+function slug(name: string): string {
+  return name.toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-|-$/g, "") || "sample";
+}

@@ -1,0 +1,165 @@
+import type { Browser, BrowserContext, Page } from "playwright-core";
+import { eq } from "drizzle-orm";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { closeDb, db } from "@/db/client";
+import { gapPicks, spectra } from "@/db/schema";
+import { stopBoss } from "@/lib/jobs/queue";
+import { createSample } from "@/lib/services/samples/createSample";
+import { createSession } from "@/lib/services/sessions/sessions";
+import { createTip } from "@/lib/services/tips/tips";
+import { processUpload } from "@/lib/services/uploads/processUpload";
+import { makeSweep, spectrumToCsv } from "@/lib/spectra";
+import { APP_URL, launch, shot, SignInPage } from "../support/browser";
+import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
+import { bytesOf, uploadFile } from "../support/pipeline";
+
+let browser: Browser;
+let lab: LabFixture;
+let sampleId: string;
+let ids: string[];
+
+beforeAll(async () => {
+  browser = await launch();
+  lab = await makeLab("Review browser");
+  const owner = lab.ctx("owner");
+  sampleId = (await createSample({ ctx: owner, input: { name: "GX-20 bilayer", material: "germanene", workFunction_eV: 3.9, workFunctionSigma_eV: 0.1 } })).id;
+  const tip = await createTip({ ctx: owner, input: { label: "W-e2e", material: "W", workFunction_eV: 4.7, workFunctionSigma_eV: 0.1 } });
+  const sessionId = (await createSession({ ctx: owner, input: { sampleId, tipId: tip.id, label: "approach", date: "2026-11-22", temperature_K: 4.5 } })).id;
+  for (const [i, s] of makeSweep({ n: 14, seed: 11 }).spectra.entries()) {
+    const { id } = await uploadFile(owner, sessionId, `s-${String(i).padStart(2, "0")}.csv`, bytesOf(spectrumToCsv(s)));
+    await processUpload(db(), id);
+  }
+  ids = (await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.sampleId, sampleId)).orderBy(spectra.fieldVPerNm)).map((r) => r.id);
+}, 90_000);
+
+afterAll(async () => {
+  await browser?.close();
+  await stopBoss();
+  await closeDb();
+});
+
+async function signedIn(email: string): Promise<{ context: BrowserContext; page: Page }> {
+  const context = await browser.newContext({ viewport: { width: 1400, height: 900 }, acceptDownloads: true });
+  const page = await context.newPage();
+  const s = new SignInPage(page);
+  await s.open();
+  await s.signIn(email, TEST_PASSWORD);
+  await page.waitForURL(`**/labs/${lab.lab.slug}`);
+  return { context, page };
+}
+
+/** Drags the n-th editable edge line (0 = valence, 1 = conduction) of the review plot by dx pixels. */
+async function dragEdge(page: Page, n: number, dx: number) {
+  await page.waitForSelector(".js-plotly-plot .shapelayer path");
+  const boxes = await page.$$eval(".js-plotly-plot .shapelayer path", (els) =>
+    els.map((el) => {
+      const r = el.getBoundingClientRect();
+      return { x: r.x + r.width / 2, y: r.y + r.height / 2, w: r.width, h: r.height, grabbable: getComputedStyle(el).pointerEvents !== "none" };
+    }),
+  );
+  // Plotly draws each editable shape twice: the visible line and an invisible handle that takes
+  // the pointer. The edge handles are the tall, thin grabbable ones (floor and threshold are flat).
+  const edges = boxes.filter((b) => b.grabbable && b.h > 100 && b.w < 12).sort((a, b) => a.x - b.x);
+  const e = edges[n];
+  await page.mouse.move(e.x, e.y);
+  await page.mouse.down();
+  await page.mouse.move(e.x + dx / 2, e.y, { steps: 4 });
+  await page.mouse.move(e.x + dx, e.y, { steps: 4 });
+  await page.mouse.up();
+}
+
+describe("review in the browser", () => {
+  it("an analyst drags a band edge, saves with a reason, and the phase plot and critical field update", async () => {
+    const { context, page } = await signedIn(lab.people.analyst.email);
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
+    await page.waitForSelector('[data-testid="phase-plot"] .js-plotly-plot');
+    const before = await page.textContent('[data-testid="critical-field"]');
+    await shot(page, "phase-plot");
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/spectra/${ids[1]}`);
+    await page.waitForSelector('[data-testid="spectrum-review"] .js-plotly-plot');
+    const cb0 = await page.textContent('[data-testid="cb-edge"]');
+    await dragEdge(page, 1, 60);
+    await page.waitForFunction((old) => document.querySelector('[data-testid="cb-edge"]')?.textContent !== old, cb0);
+    const cb1 = await page.textContent('[data-testid="cb-edge"]');
+    expect(parseFloat(cb1!)).toBeGreaterThan(parseFloat(cb0!));
+    await page.click('[data-testid="save-correction"]');
+    await page.waitForSelector("text=Give a reason for the correction");
+    await page.fill('[data-testid="reason-input"]', "edge set by eye: broad onset");
+    await page.click('[data-testid="save-correction"]');
+    await page.waitForSelector("text=Correction saved");
+    await page.waitForSelector('[data-testid="pick-history"] >> text=edge set by eye');
+    await shot(page, "review");
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
+    await page.waitForSelector('[data-testid="phase-plot"] .js-plotly-plot');
+    await page.waitForSelector(".legend >> text=corrected");
+    const after = await page.textContent('[data-testid="critical-field"]');
+    expect(after).not.toBe(before);
+    await context.close();
+  });
+
+  it("a second analyst's stale save gets the conflict message and keeps their edit", async () => {
+    const one = await signedIn(lab.people.analyst.email);
+    const two = await signedIn(lab.people.owner.email);
+    for (const p of [one.page, two.page]) {
+      await p.goto(`${APP_URL}/labs/${lab.lab.slug}/spectra/${ids[4]}`);
+      await p.waitForSelector('[data-testid="vb-input"]');
+    }
+    await one.page.fill('[data-testid="vb-input"]', "-60");
+    await one.page.fill('[data-testid="reason-input"]', "first look");
+    await one.page.click('[data-testid="save-correction"]');
+    await one.page.waitForSelector("text=Correction saved");
+    await two.page.fill('[data-testid="vb-input"]', "-45");
+    await two.page.fill('[data-testid="reason-input"]', "second look");
+    await two.page.click('[data-testid="save-correction"]');
+    await two.page.waitForSelector('[data-testid="conflict"]');
+    expect(await two.page.textContent('[data-testid="conflict"]')).toContain(lab.people.analyst.name);
+    expect(await two.page.inputValue('[data-testid="vb-input"]')).toBe("-45.0");
+    await shot(two.page, "review-conflict");
+    await one.context.close();
+    await two.context.close();
+  });
+
+  it("keyboard review moves to the next spectrum without a page load", async () => {
+    const { context, page } = await signedIn(lab.people.analyst.email);
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/spectra/${ids[0]}`);
+    await page.waitForSelector('[data-testid="review-position"] >> text=1 of 14');
+    await page.keyboard.press("ArrowRight");
+    await page.waitForSelector('[data-testid="review-position"] >> text=2 of 14');
+    expect(page.url()).toContain(ids[1]);
+    await page.keyboard.press("x");
+    await page.waitForSelector('[data-testid="review-position"] >> text=3 of 14');
+    const [pick] = await db().select().from(gapPicks).where(eq(gapPicks.spectrumId, ids[1]));
+    expect(pick.excluded).toBe(true);
+    expect(pick.excludedReason).toBe("excluded during review");
+    await context.close();
+  });
+
+  it("a collaborator sees no edit controls and a direct PATCH is refused", async () => {
+    const { context, page } = await signedIn(lab.people.collaborator.email);
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/spectra/${ids[5]}`);
+    await page.waitForSelector('[data-testid="spectrum-review"] .js-plotly-plot');
+    expect(await page.$('[data-testid="save-correction"]')).toBeNull();
+    expect(await page.$('[data-testid="toggle-exclude"]')).toBeNull();
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
+    expect(await page.$("text=Save settings as")).toBeNull();
+    const res = await page.request.patch(`${APP_URL}/api/v1/spectra/${ids[5]}/pick`, { headers: { "x-bandcross-lab": lab.lab.slug }, data: { vbEdge_V: -0.05, cbEdge_V: 0.05, reason: "sneaky", version: 1 } });
+    expect(res.status()).toBe(403);
+    await context.close();
+  });
+
+  it("an export downloads and parses", async () => {
+    const { context, page } = await signedIn(lab.people.collaborator.email);
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
+    const [download] = await Promise.all([page.waitForEvent("download"), page.click("text=Phase data (CSV)")]);
+    const path = await download.path();
+    const fs = await import("node:fs");
+    const lines = fs.readFileSync(path!, "utf8").trim().split("\r\n");
+    expect(lines[0].split(",")).toEqual(expect.arrayContaining(["spectrum_id", "field_V_per_nm", "gap_eV", "raw_sha256"]));
+    expect(lines).toHaveLength(15);
+    const json = await page.request.get(`${APP_URL}/api/v1/samples/${sampleId}/export?format=json&lab=${lab.lab.slug}`);
+    const body = (await json.json()) as { points: unknown[]; crossing: { state: string } };
+    expect(body.points).toHaveLength(14);
+    expect(body.crossing.state).toBe("crossed");
+    await context.close();
+  });
+});
