@@ -466,6 +466,8 @@ async function testMode() {
     NODE_ENV: "test",
     CHROMIUM_PATH: CHROMIUM,
     BANDCROSS_TEST: "1",
+    // The browser tests read the mail outbox page (app/dev/mail), which a production build hides otherwise.
+    BANDCROSS_DEV_PAGES: "1",
     ...(process.stdout.isTTY ? { FORCE_COLOR: "1" } : { NO_COLOR: "1", FORCE_COLOR: undefined }),
   });
 

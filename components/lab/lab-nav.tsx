@@ -14,12 +14,15 @@ export function LabNav({
   otherLabs,
   canConfigure,
   signOut,
+  unreadCount = 0,
 }: {
   lab: { slug: string; name: string };
   user: { name: string; email: string; role: MemberRole };
   otherLabs: { slug: string; name: string }[];
   canConfigure: boolean;
   signOut: () => Promise<void>;
+  /** Crossing alerts: unread notifications of this person in this lab, shown as a badge on "Alerts". */
+  unreadCount?: number;
 }) {
   const path = usePathname();
   const [open, setOpen] = useState(false);
@@ -28,6 +31,8 @@ export function LabNav({
     { href: base, label: "Samples", exact: true },
     { href: `${base}/sessions`, label: "Sessions" },
     { href: `${base}/tips`, label: "Tips" },
+    // Crossing alerts (notifications page); the badge is rendered below.
+    { href: `${base}/notifications`, label: "Alerts", badge: unreadCount },
     ...(canConfigure ? [{ href: `${base}/settings`, label: "Lab settings" }] : []),
   ];
   const isActive = (href: string, exact?: boolean) => (exact ? path === href || path.startsWith(`${base}/samples`) : path.startsWith(href));
@@ -79,6 +84,12 @@ export function LabNav({
                     >
                       <span className={`h-4 w-0.5 rounded-full ${active ? "bg-copper" : "bg-transparent"}`} aria-hidden />
                       {item.label}
+                      {/* Crossing alerts: unread count */}
+                      {"badge" in item && item.badge ? (
+                        <span className="ml-auto rounded-full bg-copper px-1.5 py-0.5 text-[11px] font-semibold leading-none text-white" data-testid="unread-count" aria-label={`${item.badge} unread`}>
+                          {item.badge > 99 ? "99+" : item.badge}
+                        </span>
+                      ) : null}
                     </Link>
                   </li>
                 );

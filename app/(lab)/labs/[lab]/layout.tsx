@@ -2,6 +2,7 @@ import { LabNav } from "@/components/lab/lab-nav";
 import { pageCtx } from "@/lib/actions/validated";
 import { auth } from "@/lib/auth";
 import { can } from "@/lib/auth/permissions";
+import { unreadCount } from "@/lib/services/alerts/notifications";
 import { signOutAction } from "../../../(auth)/actions";
 
 export default async function LabLayout({ children, params }: { children: React.ReactNode; params: Promise<{ lab: string }> }) {
@@ -9,6 +10,7 @@ export default async function LabLayout({ children, params }: { children: React.
   const ctx = await pageCtx(lab);
   const session = await auth();
   const { actor } = ctx;
+  const unread = await unreadCount({ ctx });
   return (
     <div className="min-h-screen lg:grid lg:grid-cols-[232px_1fr] lg:bg-[linear-gradient(to_right,var(--color-night)_232px,transparent_232px)]">
       <LabNav
@@ -17,6 +19,7 @@ export default async function LabLayout({ children, params }: { children: React.
         otherLabs={(session?.user?.labs ?? []).filter((l) => l.slug !== actor.labSlug).map((l) => ({ slug: l.slug, name: l.name }))}
         canConfigure={can(actor.role, "members:manage")}
         signOut={signOutAction}
+        unreadCount={unread}
       />
       <main id="main" className="min-w-0 px-5 py-8 sm:px-8 lg:px-10">
         <div className="mx-auto max-w-6xl">{children}</div>
