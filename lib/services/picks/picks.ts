@@ -10,7 +10,7 @@ import { recordAudit } from "../audit";
 import type { Ctx } from "../context";
 import { conflict, invalid, notFound } from "../errors";
 import { parseInput } from "../parse";
-import { isUuid } from "../samples/getSample";
+import { getSample, isUuid } from "../samples/getSample";
 
 /** What a history entry records of a pick, before and after a change. */
 function snapshot(p: GapPickRow) {
@@ -158,6 +158,11 @@ export async function undoPickChange({ ctx, input }: { ctx: Ctx; input: { spectr
 export async function pickHistoryOf({ ctx, input }: { ctx: Ctx; input: { spectrumId: string } }) {
   assertCan(ctx.actor, "lab:read");
   if (!isUuid(input.spectrumId)) throw notFound("spectrum");
+  const [s] = await ctx.db.select({ sampleId: spectra.sampleId }).from(spectra).where(and(eq(spectra.id, input.spectrumId), eq(spectra.labId, ctx.actor.labId)));
+  if (!s) throw notFound("spectrum");
+  await getSample({ ctx, input: { id: s.sampleId } }).catch(() => {
+    throw notFound("spectrum");
+  });
   return ctx.db
     .select({ id: pickHistory.id, action: pickHistory.action, before: pickHistory.before, after: pickHistory.after, reason: pickHistory.reason, at: pickHistory.createdAt, actorName: users.name })
     .from(pickHistory)

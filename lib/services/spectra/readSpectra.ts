@@ -220,8 +220,11 @@ const SORT_COLS = {
 export async function listSessionSpectra({ ctx, input }: { ctx: Ctx; input: { sessionId: string; query: SpectraQuery } }) {
   assertCan(ctx.actor, "lab:read");
   if (!isUuid(input.sessionId)) throw notFound("session");
-  const [session] = await ctx.db.select({ id: measurementSessions.id }).from(measurementSessions).where(and(eq(measurementSessions.id, input.sessionId), eq(measurementSessions.labId, ctx.actor.labId)));
+  const [session] = await ctx.db.select({ id: measurementSessions.id, sampleId: measurementSessions.sampleId }).from(measurementSessions).where(and(eq(measurementSessions.id, input.sessionId), eq(measurementSessions.labId, ctx.actor.labId)));
   if (!session) throw notFound("session");
+  await getSample({ ctx, input: { id: session.sampleId } }).catch(() => {
+    throw notFound("session");
+  });
   const q = input.query;
   const filters: (SQL | undefined)[] = [eq(spectra.sessionId, session.id)];
   if (q.q) filters.push(or(ilike(spectra.sourceName, `%${q.q}%`), ilike(spectra.label, `%${q.q}%`), ilike(spectra.region, `%${q.q}%`)));

@@ -1,19 +1,28 @@
 import "server-only";
 import { and, asc, eq } from "drizzle-orm";
-import { spectra, uploads } from "@/db/schema";
+import { measurementSessions, spectra, uploads } from "@/db/schema";
 import { assertCan } from "@/lib/auth/permissions";
 import { enqueueProcessUpload } from "@/lib/jobs/queue";
 import { objectSize } from "@/lib/storage/s3";
 import { recordAudit } from "../audit";
 import type { Ctx } from "../context";
 import { conflict, invalid, notFound } from "../errors";
-import { isUuid } from "../samples/getSample";
+import { getSample, isUuid } from "../samples/getSample";
+import { getSession } from "../sessions/sessions";
 
+/** An upload of the actor's lab, whose session's sample the actor may see (collaborators may be limited to chosen samples). */
 async function loadUpload(ctx: Ctx, id: string) {
   if (!isUuid(id)) throw notFound("upload");
-  const [u] = await ctx.db.select().from(uploads).where(and(eq(uploads.id, id), eq(uploads.labId, ctx.actor.labId)));
-  if (!u) throw notFound("upload");
-  return u;
+  const [row] = await ctx.db
+    .select({ u: uploads, sampleId: measurementSessions.sampleId })
+    .from(uploads)
+    .innerJoin(measurementSessions, eq(measurementSessions.id, uploads.sessionId))
+    .where(and(eq(uploads.id, id), eq(uploads.labId, ctx.actor.labId)));
+  if (!row) throw notFound("upload");
+  await getSample({ ctx, input: { id: row.sampleId } }).catch(() => {
+    throw notFound("upload");
+  });
+  return row.u;
 }
 
 export async function getUpload({ ctx, input }: { ctx: Ctx; input: { id: string } }) {
@@ -72,6 +81,7 @@ export async function retryUpload({ ctx, input }: { ctx: Ctx; input: { id: strin
 export async function listSessionUploads({ ctx, input }: { ctx: Ctx; input: { sessionId: string } }) {
   assertCan(ctx.actor, "lab:read");
   if (!isUuid(input.sessionId)) throw notFound("session");
+  await getSession({ ctx, input: { id: input.sessionId } });
   const rows = await ctx.db
     .select()
     .from(uploads)

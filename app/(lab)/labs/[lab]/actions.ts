@@ -6,6 +6,7 @@ import type { ActionState } from "@/lib/actions/types";
 import { runAction } from "@/lib/actions/validated";
 import { updateLabDefaults } from "@/lib/services/labs/labSettings";
 import { changeRole, inviteMember, removeMember, revokeInvitation } from "@/lib/services/members/members";
+import { setSampleAccess } from "@/lib/services/members/sampleAccess";
 import { createSample } from "@/lib/services/samples/createSample";
 import { updateSample } from "@/lib/services/samples/updateSample";
 import { createSession, updateSession } from "@/lib/services/sessions/sessions";
@@ -124,4 +125,13 @@ export async function updateLabDefaultsAction(lab: string, _s: ActionState, fd: 
   });
   revalidatePath(`/labs/${lab}`, "layout");
   return state;
+}
+
+export async function setSampleAccessAction(lab: string, userId: string, _s: ActionState, fd: FormData): Promise<ActionState> {
+  const sampleIds = fd.getAll("sampleId").map(String);
+  const state = await runAction(lab, undefined, async (ctx) => {
+    await setSampleAccess({ ctx, input: { userId, sampleIds } });
+  });
+  revalidatePath(`/labs/${lab}/settings`);
+  return state.ok ? { ...state, message: sampleIds.length ? `Limited to ${sampleIds.length} sample(s).` : "Sees every sample." } : state;
 }

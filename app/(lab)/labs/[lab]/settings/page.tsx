@@ -6,6 +6,8 @@ import { pageCtx } from "@/lib/actions/validated";
 import { can, ROLE_LABEL, ROLES } from "@/lib/auth/permissions";
 import { getLab } from "@/lib/services/labs/labSettings";
 import { listMembers } from "@/lib/services/members/members";
+import { listSampleAccess } from "@/lib/services/members/sampleAccess";
+import { listSamples } from "@/lib/services/samples/listSamples";
 import { listTokens } from "@/lib/services/tokens/tokens";
 import { inviteAction, updateLabDefaultsAction } from "../actions";
 import { MembersPanel, TokensPanel } from "./panels";
@@ -16,7 +18,7 @@ export default async function SettingsPage({ params }: { params: Promise<{ lab: 
   const { lab } = await params;
   const ctx = await pageCtx(lab);
   if (!can(ctx.actor.role, "members:manage")) notFound();
-  const [labRow, members, tokens] = await Promise.all([getLab({ ctx }), listMembers({ ctx }), listTokens({ ctx })]);
+  const [labRow, members, tokens, access, samples] = await Promise.all([getLab({ ctx }), listMembers({ ctx }), listTokens({ ctx }), listSampleAccess({ ctx }), listSamples({ ctx })]);
   const roleOptions = ROLES.map((r) => ({ value: r, label: ROLE_LABEL[r] }));
   return (
     <>
@@ -26,6 +28,8 @@ export default async function SettingsPage({ params }: { params: Promise<{ lab: 
           <MembersPanel
             lab={lab}
             selfUserId={ctx.actor.userId}
+            samples={samples.map((x) => ({ id: x.id, name: x.name }))}
+            access={access}
             members={members.members.map((m) => ({ ...m, since: m.since.toISOString() }))}
             pending={members.pending.map((p) => ({ ...p, expiresAt: p.expiresAt.toISOString(), createdAt: p.createdAt.toISOString() }))}
           />

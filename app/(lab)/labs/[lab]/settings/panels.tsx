@@ -7,7 +7,7 @@ import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import type { ActionState } from "@/lib/actions/types";
-import { changeRoleAction, createTokenAction, removeMemberAction, revokeInvitationAction, revokeTokenAction } from "../actions";
+import { changeRoleAction, createTokenAction, removeMemberAction, revokeInvitationAction, revokeTokenAction, setSampleAccessAction } from "../actions";
 
 const ROLES = [
   { value: "owner", label: "Owner" },
@@ -71,7 +71,42 @@ function RevokeInvite({ lab, id }: { lab: string; id: string }) {
   );
 }
 
-export function MembersPanel({ lab, members, pending, selfUserId }: { lab: string; members: Member[]; pending: Pending[]; selfUserId: string }) {
+function SampleAccess({ lab, m, samples, chosen }: { lab: string; m: Member; samples: { id: string; name: string }[]; chosen: string[] }) {
+  const [state, action, pending] = useActionState(setSampleAccessAction.bind(null, lab, m.userId), initial);
+  return (
+    <details className="mt-1 text-xs" data-testid={`sample-access-${m.userId}`}>
+      <summary className="cursor-pointer text-ink-soft">{chosen.length ? `sees ${chosen.length} of ${samples.length} samples` : "sees every sample"}</summary>
+      <form action={action} className="mt-2 space-y-1 rounded-md border border-line bg-white p-2">
+        <p className="text-muted">Tick the samples {m.name} may see; none ticked means all.</p>
+        {samples.map((s) => (
+          <label key={s.id} className="flex items-center gap-2">
+            <input type="checkbox" name="sampleId" value={s.id} defaultChecked={chosen.includes(s.id)} /> {s.name}
+          </label>
+        ))}
+        <Button type="submit" variant="secondary" className="mt-1 px-2 py-1 text-xs" disabled={pending}>
+          Save access
+        </Button>
+        {state.message ? <p className={state.ok ? "text-ok" : "text-danger"}>{state.message}</p> : null}
+      </form>
+    </details>
+  );
+}
+
+export function MembersPanel({
+  lab,
+  members,
+  pending,
+  selfUserId,
+  samples,
+  access,
+}: {
+  lab: string;
+  members: Member[];
+  pending: Pending[];
+  selfUserId: string;
+  samples: { id: string; name: string }[];
+  access: Record<string, string[]>;
+}) {
   return (
     <div className="space-y-4">
       <div className="overflow-x-auto">
@@ -89,6 +124,7 @@ export function MembersPanel({ lab, members, pending, selfUserId }: { lab: strin
                 <td className="py-2.5 pr-4">
                   <div className="font-medium">{m.name}</div>
                   <div className="num text-xs text-muted">{m.email}</div>
+                  {m.role === "collaborator" ? <SampleAccess lab={lab} m={m} samples={samples} chosen={access[m.userId] ?? []} /> : null}
                 </td>
                 <td className="py-2.5 pr-4">
                   <RoleCell lab={lab} m={m} self={m.userId === selfUserId} />
