@@ -115,6 +115,14 @@ describe("in the app", () => {
     await page.click('[data-testid="confirm-crossing"]');
     await page.waitForSelector('[data-testid="crossing-event-confirmed"]');
     await shot(page, "sample-crossing-timeline");
+    // The same verb over the HTTP API, with the browser session: already confirmed, and a bad body is a 422.
+    const api = `${APP_URL}/api/v1/samples/${sampleId}/crossing/confirm?lab=${lab.lab.slug}`;
+    const again = await page.request.post(api, { data: {} });
+    expect(again.status()).toBe(200);
+    expect(await again.json()).toMatchObject({ status: "confirmed", alreadyConfirmed: true });
+    const bad = await page.request.post(api, { data: { crossingId: "not-a-uuid" } });
+    expect(bad.status()).toBe(422);
+    expect((await bad.json()).error.code).toBe("invalid");
     await page.click('[data-testid="watch-toggle"]');
     await page.waitForSelector('[data-testid="watch-toggle"][aria-pressed="false"]');
     const [row] = await db().select().from(subscriptions).where(and(eq(subscriptions.sampleId, sampleId), eq(subscriptions.userId, lab.people.analyst.id)));
