@@ -72,7 +72,7 @@ describe("upload in the browser", () => {
 
     // Inline tagging: set the region of the first spectrum.
     await page.click('[data-testid="spectrum-row"] >> nth=0 >> button[aria-label^="Edit Region"]');
-    await page.fill('[data-testid="spectrum-row"] >> nth=0 >> input', "terrace A");
+    await page.fill('[data-testid="spectrum-row"] >> nth=0 >> input[aria-label="Region"]', "terrace A");
     await page.keyboard.press("Enter");
     await page.waitForSelector('[data-testid="spectrum-row"] >> text=terrace A');
     await context.close();

@@ -170,30 +170,30 @@ describe("who may do what in the pipeline", () => {
     const c = lab.ctx("collaborator");
     const [s] = await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.sessionId, sessionId)).limit(1);
     const attempts = [
-      createUploads({ ctx: c, input: { sessionId, files: [{ name: "x.csv", size: 10, sha256: "a".repeat(64) }] } }),
-      completeUpload({ ctx: c, input: { id: ids[1] } }),
-      retryUpload({ ctx: c, input: { id: ids[1] } }),
-      tagSpectra({ ctx: c, input: { ids: [s.id], patch: { region: "x" } } }),
-      saveFieldModel({ ctx: c, input: { sampleId, model: { contactDistance_nm: 0.2 } } }),
-      saveExtractionSettings({ ctx: c, input: { sampleId, settings: {} } }),
+      () => createUploads({ ctx: c, input: { sessionId, files: [{ name: "x.csv", size: 10, sha256: "a".repeat(64) }] } }),
+      () => completeUpload({ ctx: c, input: { id: ids[1] } }),
+      () => retryUpload({ ctx: c, input: { id: ids[1] } }),
+      () => tagSpectra({ ctx: c, input: { ids: [s.id], patch: { region: "x" } } }),
+      () => saveFieldModel({ ctx: c, input: { sampleId, model: { contactDistance_nm: 0.2 } } }),
+      () => saveExtractionSettings({ ctx: c, input: { sampleId, settings: {} } }),
     ];
-    for (const a of attempts) expect((await rejection(a)).status).toBe(403);
+    for (const a of attempts) expect((await rejection(a())).status).toBe(403);
   });
 
   it("another lab's owner gets 404 for this lab's uploads, spectra, phase and session", async () => {
     const o = other.ctx("owner");
     const [s] = await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.sessionId, sessionId)).limit(1);
     const attempts = [
-      getUpload({ ctx: o, input: { id: ids[1] } }),
-      completeUpload({ ctx: o, input: { id: ids[1] } }),
-      getSpectrum({ ctx: o, input: { id: s.id } }),
-      getPhase({ ctx: o, input: { sampleId } }),
-      tagSpectra({ ctx: o, input: { ids: [s.id], patch: { region: "x" } } }),
-      createUploads({ ctx: o, input: { sessionId, files: [{ name: "x.csv", size: 10, sha256: "b".repeat(64) }] } }),
-      listSessionSpectra({ ctx: o, input: { sessionId, query: { page: 1, pageSize: 10, sort: "index", dir: "asc" } } }),
-      saveFieldModel({ ctx: o, input: { sampleId, model: { contactDistance_nm: 0.2 } } }),
+      () => getUpload({ ctx: o, input: { id: ids[1] } }),
+      () => completeUpload({ ctx: o, input: { id: ids[1] } }),
+      () => getSpectrum({ ctx: o, input: { id: s.id } }),
+      () => getPhase({ ctx: o, input: { sampleId } }),
+      () => tagSpectra({ ctx: o, input: { ids: [s.id], patch: { region: "x" } } }),
+      () => createUploads({ ctx: o, input: { sessionId, files: [{ name: "x.csv", size: 10, sha256: "b".repeat(64) }] } }),
+      () => listSessionSpectra({ ctx: o, input: { sessionId, query: { page: 1, pageSize: 10, sort: "index", dir: "asc" } } }),
+      () => saveFieldModel({ ctx: o, input: { sampleId, model: { contactDistance_nm: 0.2 } } }),
     ];
-    for (const a of attempts) expect((await rejection(a)).status).toBe(404);
+    for (const a of attempts) expect((await rejection(a())).status).toBe(404);
   });
 
   it("a file above the size limit is refused with 413 before anything is stored", async () => {

@@ -32,6 +32,7 @@ export class SignInPage {
   async signIn(email: string, password: string) {
     await this.page.fill('[data-testid="sign-in-form"] input[name="email"]', email);
     await this.page.fill('[data-testid="sign-in-form"] input[name="password"]', password);
-    await this.page.click('[data-testid="sign-in-submit"]');
+    // Wait for the server action's answer, so a following attempt never races the previous one.
+    await Promise.all([this.page.waitForResponse((r) => r.request().method() === "POST" && r.url().includes("/sign-in")), this.page.click('[data-testid="sign-in-submit"]')]);
   }
 }

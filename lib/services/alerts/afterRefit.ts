@@ -2,7 +2,14 @@ import "server-only";
 import type { DbOrTx } from "@/db/client";
 import type { Crossing, CrossingEvent, CrossingEventKind } from "@/db/schema";
 import type { RefitResult } from "../analysis/refitSample";
+import { sql } from "drizzle-orm";
 import { currentCrossing, intervalOf, latestEvent, lockSample, recordEvent } from "./recordEvent";
+
+async function uploadsInFlight(db: DbOrTx, sampleId: string): Promise<boolean> {
+  const r = await db.execute(sql`select 1 from uploads u join measurement_sessions s on s.id = u.session_id
+    where s.sample_id = ${sampleId} and u.status in ('queued', 'processing') limit 1`);
+  return r.rows.length > 0;
+}
 
 /** A fit worth an alert: the gap closes and reopens, with a critical field. */
 export const isCrossed = (c: Crossing | null): c is Crossing => Boolean(c && c.state === "crossed" && c.found && c.fieldVPerNm != null);
@@ -38,6 +45,9 @@ export async function afterRefit(db: DbOrTx, result: Pick<RefitResult, "current"
   const sampleId = result.current.sampleId;
   return db.transaction(async (tx) => {
     await lockSample(tx, sampleId);
+    // While files of this sample are still queued or being processed, wait: the refit after the
+    // last of them decides, so a folder pushed at once gives one alert about all of it.
+    if (await uploadsInFlight(tx, sampleId)) return null;
     const current = await currentCrossing(tx, sampleId);
     const last = await latestEvent(tx, sampleId);
     const kind = decideEvent(current, last);

@@ -1,5 +1,5 @@
 import "server-only";
-import { and, desc, eq, isNotNull, isNull } from "drizzle-orm";
+import { and, desc, eq, isNotNull, isNull, sql } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { crossings, gapPicks, spectra, type Crossing } from "@/db/schema";
 import { fitCrossing, median, type CrossingFit, type CrossingPoint } from "@/lib/spectra";
@@ -28,6 +28,18 @@ export function crossingInput(rows: { field: number; fieldSigma: number | null; 
  * current crossing, then decides the crossing alerts for it (lib/services/alerts/afterRefit.ts).
  */
 export async function refitSample(db: DbOrTx, sampleId: string): Promise<RefitResult> {
+  const result = await db.transaction(async (tx) => {
+    // One refit of a sample at a time (across every process): each reads all that was committed
+    // before it took the lock, so the newest crossing row always covers the newest data.
+    await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`refit:${sampleId}`}, 0))`);
+    return fitAndStore(tx, sampleId);
+  });
+  // Every refit ends here, so no caller can skip the crossing alerts (found, moved): see afterRefit.
+  await afterRefit(db, result);
+  return result;
+}
+
+async function fitAndStore(db: DbOrTx, sampleId: string): Promise<RefitResult> {
   const analysis = await loadSampleAnalysis(db, sampleId);
   const rows = await db
     .select({ field: spectra.fieldVPerNm, fieldSigma: spectra.fieldSigmaVPerNm, gap: gapPicks.gapEv, gapSigma: gapPicks.uncertaintyEv })
@@ -68,10 +80,7 @@ export async function refitSample(db: DbOrTx, sampleId: string): Promise<RefitRe
       confirmedAt: previous?.status === "confirmed" && sameCrossing(previous, fit) ? previous.confirmedAt : null,
     })
     .returning();
-  const result = { previous: previous ?? null, current, fit };
-  // Every refit ends here, so no caller can skip the crossing alerts (found, moved): see afterRefit.
-  await afterRefit(db, result);
-  return result;
+  return { previous: previous ?? null, current, fit };
 }
 
 function sameCrossing(prev: Crossing, fit: CrossingFit): boolean {

@@ -4,7 +4,6 @@ import type { DbOrTx } from "@/db/client";
 import { gapPicks, pickHistory, spectra, users, type GapPickRow } from "@/db/schema";
 import { assertCan } from "@/lib/auth/permissions";
 import { correctPickInput, excludeInput, undoInput } from "@/lib/schemas/picks";
-import { afterRefit } from "../alerts/afterRefit";
 import { refitSample } from "../analysis/refitSample";
 import { recordAudit } from "../audit";
 import type { Ctx } from "../context";
@@ -56,10 +55,9 @@ async function lockPick(tx: DbOrTx, ctx: Ctx, spectrumId: string, version: numbe
   return row;
 }
 
+/** Refits the sample (which also decides its crossing alerts). */
 async function finish(ctx: Ctx, sampleId: string) {
-  const refit = await refitSample(ctx.db, sampleId);
-  await afterRefit(ctx.db, refit);
-  return refit;
+  return refitSample(ctx.db, sampleId);
 }
 
 /** An analyst moves the band edges by hand. The automatic pick stays in auto_pick; the change goes to the history. */

@@ -109,7 +109,11 @@ export async function processUpload(db: DbOrTx, uploadId: string, hooks: { after
 }
 
 async function fail(db: DbOrTx, id: string, message: string): Promise<ProcessOutcome> {
-  await db.update(uploads).set({ status: "failed", message, updatedAt: new Date() }).where(eq(uploads.id, id));
+  const [u] = await db.update(uploads).set({ status: "failed", message, updatedAt: new Date() }).where(eq(uploads.id, id)).returning({ sessionId: uploads.sessionId });
+  // The sample's alerts wait while any of its files is in flight; this one no longer is, so refit
+  // (nothing changed in the data) to let the decision be made if it was the last.
+  const [session] = u ? await db.select({ sampleId: measurementSessions.sampleId }).from(measurementSessions).where(eq(measurementSessions.id, u.sessionId)) : [];
+  if (session) await refitSample(db, session.sampleId);
   return { status: "failed", message };
 }
 

@@ -12,6 +12,7 @@ import { decodeText } from "./decode";
 import { parseDelimited } from "./delimited";
 import { parseJsonSpectra } from "./json";
 import { expandZip, isZip, listZip, skipEntry, unsafeEntryName } from "./zip";
+import { applyGridPositions } from "./grid";
 import { ImportError, type ImportLimits, type ImportedFile, type ParsedSpectrum, type SpectrumMeta } from "./types";
 
 export type { ImportLimits, ImportedFile, ParsedSpectrum, SpectrumMeta } from "./types";
@@ -122,6 +123,7 @@ function fromText(file: string, text: string, limits: ImportLimits): ImportedFil
     const c = t.columns[ci];
     spectra.push({ file, index, label: valueIdx.length === 1 ? c.name || "spectrum 1" : c.name || `spectrum ${index + 1}`, bias_V: s.bias, didv, current_A: current, meta, warnings });
   });
+  if (spectra.length > 1) fileWarnings.push(...applyGridPositions(spectra, t.meta));
   return { file, status: "ok", warnings: fileWarnings, spectra };
 }
 

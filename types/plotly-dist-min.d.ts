@@ -1,4 +1,0 @@
-declare module "plotly.js-dist-min" {
-  const Plotly: unknown;
-  export default Plotly;
-}
