@@ -30,6 +30,7 @@ export function LabNav({
   const items = [
     { href: base, label: "Samples", exact: true },
     { href: `${base}/sessions`, label: "Sessions" },
+    { href: `${base}/compare`, label: "Compare" },
     { href: `${base}/tips`, label: "Tips" },
     // Crossing alerts (notifications page); the badge is rendered below.
     { href: `${base}/notifications`, label: "Alerts", badge: unreadCount },

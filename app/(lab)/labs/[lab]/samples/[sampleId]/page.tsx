@@ -16,16 +16,19 @@ import { getSampleVersions } from "@/lib/services/analysis/versions";
 import { getSample } from "@/lib/services/samples/getSample";
 import { listSessions } from "@/lib/services/sessions/sessions";
 import { getPhase } from "@/lib/services/spectra/readSpectra";
+import { getGapMap } from "@/lib/services/spectra/gapMap";
+import { GapMap } from "@/components/review/gap-map";
 
 export default async function SamplePage({ params }: { params: Promise<{ lab: string; sampleId: string }> }) {
   const { lab, sampleId } = await params;
   const ctx = await pageCtx(lab);
   const s = await orNotFound(getSample({ ctx, input: { id: sampleId } }));
-  const [sessions, phase, versions, analysis] = await Promise.all([
+  const [sessions, phase, versions, analysis, map] = await Promise.all([
     listSessions({ ctx, input: { sampleId: s.id } }),
     getPhase({ ctx, input: { sampleId: s.id } }),
     getSampleVersions({ ctx, input: { sampleId: s.id } }),
     loadSampleAnalysis(ctx.db, s.id),
+    getGapMap({ ctx, input: { sampleId: s.id } }),
   ]);
   // The tips this sample was measured with, for the field model's assumptions.
   const tipIds = [...new Set(sessions.map((x) => x.tipId).filter((t): t is string => Boolean(t)))];
@@ -92,6 +95,13 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
           </Card>
         </div>
       </div>
+      {map.grids.length ? (
+        <div className="mt-5">
+          <Card title="Gap map">
+            <GapMap lab={lab} sampleId={s.id} initial={map} />
+          </Card>
+        </div>
+      ) : null}
       <div className="mt-5 grid gap-5 lg:grid-cols-2 xl:grid-cols-3">
         <Card title="Analysis settings">
           <SettingsEditors
