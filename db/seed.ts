@@ -64,6 +64,17 @@ async function main() {
   try {
     const result = await seedDemo(drizzle(pool, { schema }));
     console.log(result.created ? "seed: demo lab created (slug demo)" : "seed: demo lab already present, nothing changed");
+    if (result.created && process.env.BANDCROSS_DEMO_SPECTRA !== "0") {
+      // Through the real upload path; the worker processes them once it starts.
+      const [{ seedDemoSpectra }, { db, closeDb }, { stopBoss }] = await Promise.all([import("../lib/services/demo/seedDemoSpectra"), import("./client"), import("../lib/jobs/queue")]);
+      try {
+        const n = await seedDemoSpectra(db(), DEMO_LAB.slug);
+        console.log(`seed: ${n} demo spectrum files uploaded and queued`);
+      } finally {
+        await stopBoss();
+        await closeDb();
+      }
+    }
   } finally {
     await pool.end();
   }

@@ -11,17 +11,20 @@ import { sha256Hex } from "./secrets";
  * and one member, acting with that member's current role). A lab the user does not belong to is
  * "not found", so its existence is not revealed.
  */
+/** The columns an actor is made of (user, lab, role), shared by both ways of resolving one. */
+const actorColumns = {
+  userId: users.id,
+  email: users.email,
+  name: users.name,
+  labId: labs.id,
+  labSlug: labs.slug,
+  labName: labs.name,
+  role: memberships.role,
+};
+
 export async function actorForUser(db: DbOrTx, userId: string, labSlug: string): Promise<Actor> {
   const [row] = await db
-    .select({
-      userId: users.id,
-      email: users.email,
-      name: users.name,
-      labId: labs.id,
-      labSlug: labs.slug,
-      labName: labs.name,
-      role: memberships.role,
-    })
+    .select(actorColumns)
     .from(memberships)
     .innerJoin(labs, eq(labs.id, memberships.labId))
     .innerJoin(users, eq(users.id, memberships.userId))
@@ -32,17 +35,7 @@ export async function actorForUser(db: DbOrTx, userId: string, labSlug: string):
 
 export async function actorForToken(db: DbOrTx, token: string): Promise<Actor> {
   const [row] = await db
-    .select({
-      tokenId: apiTokens.id,
-      lastUsedAt: apiTokens.lastUsedAt,
-      userId: users.id,
-      email: users.email,
-      name: users.name,
-      labId: labs.id,
-      labSlug: labs.slug,
-      labName: labs.name,
-      role: memberships.role,
-    })
+    .select({ tokenId: apiTokens.id, lastUsedAt: apiTokens.lastUsedAt, ...actorColumns })
     .from(apiTokens)
     .innerJoin(labs, eq(labs.id, apiTokens.labId))
     .innerJoin(users, eq(users.id, apiTokens.userId))

@@ -10,7 +10,7 @@ import { createSample } from "@/lib/services/samples/createSample";
 import { createSession } from "@/lib/services/sessions/sessions";
 import { createTip } from "@/lib/services/tips/tips";
 import { makeSweep, spectrumToCsv } from "@/lib/spectra";
-import { APP_URL, launch, shot, SignInPage } from "../support/browser";
+import { APP_URL, launch, shot, SignInPage, signedIn as signedInAs } from "../support/browser";
 import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
 import { linkIn, mailsTo, type OutboxMail } from "../support/outbox";
 import { bytesOf, uploadFile, waitForUploads } from "../support/pipeline";
@@ -26,15 +26,7 @@ let sampleId: string;
 let ownerMail: OutboxMail;
 const sampleName = `GX-12 bilayer ${randomUUID().slice(0, 4)}`;
 
-async function signedIn(email: string): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ viewport: { width: 1360, height: 900 } });
-  const page = await context.newPage();
-  const signIn = new SignInPage(page);
-  await signIn.open();
-  await signIn.signIn(email, TEST_PASSWORD);
-  await page.waitForURL(`**/labs/${lab.lab.slug}`);
-  return { context, page };
-}
+const signedIn = (email: string) => signedInAs(browser, email, TEST_PASSWORD, lab.lab.slug, { width: 1360, height: 900 });
 
 beforeAll(async () => {
   browser = await launch();

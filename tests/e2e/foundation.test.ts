@@ -2,7 +2,7 @@ import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/db/client";
 import { createSample } from "@/lib/services/samples/createSample";
-import { APP_URL, launch, shot, SignInPage } from "../support/browser";
+import { APP_URL, launch, shot, SignInPage, signedIn as signedInAs } from "../support/browser";
 import { makeLab, sampleBody, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
 
 let browser: Browser;
@@ -18,15 +18,7 @@ afterAll(async () => {
   await closeDb();
 });
 
-async function signedIn(email: string): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ viewport: { width: 1360, height: 860 } });
-  const page = await context.newPage();
-  const signIn = new SignInPage(page);
-  await signIn.open();
-  await signIn.signIn(email, TEST_PASSWORD);
-  await page.waitForURL(`**/labs/${lab.lab.slug}`);
-  return { context, page };
-}
+const signedIn = (email: string) => signedInAs(browser, email, TEST_PASSWORD, lab.lab.slug, { width: 1360, height: 860 });
 
 describe("sign-in", () => {
   it("shows one message for a wrong password and lets the right one in", async () => {

@@ -9,7 +9,7 @@ import { createSession } from "@/lib/services/sessions/sessions";
 import { createTip } from "@/lib/services/tips/tips";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { makeSweep, spectrumToCsv } from "@/lib/spectra";
-import { APP_URL, launch, shot, SignInPage } from "../support/browser";
+import { APP_URL, launch, shot, SignInPage, signedIn as signedInAs } from "../support/browser";
 import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
 import { bytesOf, uploadFile } from "../support/pipeline";
 
@@ -38,15 +38,7 @@ afterAll(async () => {
   await closeDb();
 });
 
-async function signedIn(email: string): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ viewport: { width: 1400, height: 900 }, acceptDownloads: true });
-  const page = await context.newPage();
-  const s = new SignInPage(page);
-  await s.open();
-  await s.signIn(email, TEST_PASSWORD);
-  await page.waitForURL(`**/labs/${lab.lab.slug}`);
-  return { context, page };
-}
+const signedIn = (email: string) => signedInAs(browser, email, TEST_PASSWORD, lab.lab.slug, { width: 1400, height: 900 });
 
 /** Drags the n-th editable edge line (0 = valence, 1 = conduction) of the review plot by dx pixels. */
 async function dragEdge(page: Page, n: number, dx: number) {

@@ -4,7 +4,7 @@
  */
 import fs from "node:fs";
 import path from "node:path";
-import { chromium, type Browser, type Page } from "playwright-core";
+import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
 
 export const APP_URL = process.env.APP_URL ?? "http://localhost:3100";
 export const SHOTS_DIR = path.resolve("test-results/screenshots");
@@ -35,4 +35,21 @@ export class SignInPage {
     // Wait for the server action's answer, so a following attempt never races the previous one.
     await Promise.all([this.page.waitForResponse((r) => r.request().method() === "POST" && r.url().includes("/sign-in")), this.page.click('[data-testid="sign-in-submit"]')]);
   }
+}
+
+/** A fresh browser context signed in as `email` (the fixtures' password), landed on the lab's home. */
+export async function signedIn(
+  browser: Browser,
+  email: string,
+  password: string,
+  labSlug: string,
+  viewport = { width: 1360, height: 900 },
+): Promise<{ context: BrowserContext; page: Page }> {
+  const context = await browser.newContext({ viewport, acceptDownloads: true });
+  const page = await context.newPage();
+  const s = new SignInPage(page);
+  await s.open();
+  await s.signIn(email, password);
+  await page.waitForURL(`**/labs/${labSlug}`);
+  return { context, page };
 }

@@ -1,9 +1,10 @@
 import "server-only";
-import { and, desc, eq, isNotNull, isNull, sql } from "drizzle-orm";
+import { and, eq, isNotNull, sql } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { crossings, gapPicks, spectra, type Crossing } from "@/db/schema";
 import { fitCrossing, median, type CrossingFit, type CrossingPoint } from "@/lib/spectra";
 import { afterRefit } from "../alerts/afterRefit";
+import { currentCrossing } from "../alerts/recordEvent";
 import { loadSampleAnalysis } from "./sampleModel";
 
 export interface RefitResult {
@@ -48,12 +49,7 @@ async function fitAndStore(db: DbOrTx, sampleId: string): Promise<RefitResult> {
     .where(and(eq(spectra.sampleId, sampleId), eq(gapPicks.excluded, false), eq(gapPicks.status, "ok"), isNotNull(spectra.fieldVPerNm), isNotNull(gapPicks.gapEv)));
   const { points, options } = crossingInput(rows.map((r) => ({ field: r.field!, fieldSigma: r.fieldSigma, gap: r.gap!, gapSigma: r.gapSigma })));
   const fit = fitCrossing(points, options);
-  const [previous] = await db
-    .select()
-    .from(crossings)
-    .where(and(eq(crossings.sampleId, sampleId), isNull(crossings.region)))
-    .orderBy(desc(crossings.createdAt))
-    .limit(1);
+  const previous = await currentCrossing(db, sampleId);
   const ci = fit.ci95Total_V_per_nm ?? fit.ci95_V_per_nm;
   const [current] = await db
     .insert(crossings)
