@@ -292,7 +292,8 @@ async function oneShot(label: string, file: string, env: Record<string, string |
     return;
   }
   const logFile = path.join(logDir, `${label}.log`);
-  const r = await sup.run(label, NODE, [...TSX, file], { env, output: quiet ? "log" : "tee", logFile });
+  // react-server: the demo seed uses the server-only storage and queue modules.
+  const r = await sup.run(label, NODE, ["--conditions=react-server", ...TSX, file], { env, output: quiet ? "log" : "tee", logFile });
   await checkpoint();
   if (r.code !== 0) {
     if (quiet) console.error(tail(logFile));
