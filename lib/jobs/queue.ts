@@ -70,8 +70,9 @@ export async function enqueueProcessUpload(uploadId: string, opts: { retry?: boo
 
 export async function enqueueReanalyzeSample(job: ReanalyzeSampleJob): Promise<void> {
   const b = await boss();
-  // One pending re-analysis per sample is enough: a later settings change is read when it runs.
-  await b.send(QUEUES.reanalyzeSample, job, { singletonKey: job.sampleId });
+  // Every save queues its own run: a job already running has read the older version, so a
+  // newer one must run after it (refits are serialised per sample, so runs never interleave badly).
+  await b.send(QUEUES.reanalyzeSample, job);
 }
 
 /**

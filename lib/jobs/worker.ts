@@ -49,10 +49,9 @@ export async function startWorker(): Promise<() => Promise<void>> {
       .from(analysisRuns)
       .where(and(eq(analysisRuns.sampleId, job.data.sampleId), inArray(analysisRuns.status, ["queued", "running"])));
     const started = Date.now();
-    await reanalyzeSample(db(), { sampleId: job.data.sampleId, runId: runs.at(-1)?.id });
-    // Every run queued before this one is covered by it.
-    if (runs.length) await db().update(analysisRuns).set({ status: "done" }).where(inArray(analysisRuns.id, runs.map((r) => r.id)));
-    log(`${QUEUES.reanalyzeSample} ${job.data.sampleId}: done in ${Date.now() - started} ms (${job.data.reason})`);
+    // Every run still queued or running is covered by this one (it reads the newest versions).
+    const out = await reanalyzeSample(db(), { sampleId: job.data.sampleId, runIds: runs.map((r) => r.id) });
+    log(`${QUEUES.reanalyzeSample} ${job.data.sampleId}: ${out === "superseded" ? "superseded by a newer version" : "done"} in ${Date.now() - started} ms (${job.data.reason})`);
   });
   // Crossing alerts are decided inside every refit (refitSample → afterRefit); this queue only
   // e-mails them, so a mail-service outage is retried here without redoing any fit.

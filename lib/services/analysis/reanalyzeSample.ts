@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, eq, gt, sql } from "drizzle-orm";
+import { and, asc, eq, gt, inArray, sql } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { analysisRuns, gapPicks, measurementSessions, spectra, tips } from "@/db/schema";
 import { autoPick, fieldFor, pickColumns } from "./analyzeSpectrum";
@@ -14,10 +14,11 @@ const CHUNK = 250;
  * analyst corrected by hand keep their edges (their stored automatic pick is refreshed beside
  * them). Progress is written to analysis_runs as it goes, in chunks, each its own transaction.
  */
-export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; runId?: string }): Promise<RefitResult> {
+export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; runIds?: string[] }): Promise<RefitResult | "superseded"> {
   const analysis = await loadSampleAnalysis(db, input.sampleId);
   const [{ n }] = await db.select({ n: sql<number>`count(*)::int` }).from(spectra).where(eq(spectra.sampleId, input.sampleId));
-  if (input.runId) await db.update(analysisRuns).set({ status: "running", total: n, done: 0, updatedAt: new Date() }).where(eq(analysisRuns.id, input.runId));
+  const runs = input.runIds?.length ? inArray(analysisRuns.id, input.runIds) : undefined;
+  if (runs) await db.update(analysisRuns).set({ status: "running", total: n, done: 0, updatedAt: new Date() }).where(runs);
   const tipRows = await db.select().from(tips).where(eq(tips.labId, analysis.sample.labId));
   const tipById = new Map(tipRows.map((t) => [t.id, t]));
   const sessions = await db.select({ id: measurementSessions.id, temperatureK: measurementSessions.temperatureK }).from(measurementSessions).where(eq(measurementSessions.sampleId, input.sampleId));
@@ -34,6 +35,10 @@ export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; run
       .orderBy(asc(spectra.id))
       .limit(CHUNK);
     if (rows.length === 0) break;
+    // A newer version saved meanwhile has its own run queued: stop, and leave the runs to it, so
+    // two re-analyses of a sample never interleave with different versions.
+    const latest = await loadSampleAnalysis(db, input.sampleId);
+    if (latest.settingsVersion.id !== analysis.settingsVersion.id || latest.fieldVersion.id !== analysis.fieldVersion.id) return "superseded";
     await db.transaction(async (tx) => {
       for (const { s, pickId, source } of rows) {
         const meta = {
@@ -57,9 +62,9 @@ export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; run
     });
     done += rows.length;
     after = rows[rows.length - 1].s.id;
-    if (input.runId) await db.update(analysisRuns).set({ done, updatedAt: new Date() }).where(eq(analysisRuns.id, input.runId));
+    if (runs) await db.update(analysisRuns).set({ done, updatedAt: new Date() }).where(runs);
   }
   const refit = await refitSample(db, input.sampleId);
-  if (input.runId) await db.update(analysisRuns).set({ status: "done", done, updatedAt: new Date() }).where(eq(analysisRuns.id, input.runId));
+  if (runs) await db.update(analysisRuns).set({ status: "done", done, updatedAt: new Date() }).where(runs);
   return refit;
 }

@@ -102,7 +102,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
           </Card>
         </div>
       ) : null}
-      <div className="mt-5 grid gap-5 lg:grid-cols-2 xl:grid-cols-3">
+      <div className="mt-5 grid gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)]">
         <Card title="Analysis settings">
           <SettingsEditors
             lab={lab}
@@ -115,6 +115,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
             }}
           />
         </Card>
+        <div className="space-y-5">
         <Card title="Export for a paper">
           <ul className="space-y-2 text-sm" data-testid="exports">
             <li>
@@ -163,6 +164,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
           )}
           {s.notes ? <p className="mt-4 whitespace-pre-wrap border-t border-line pt-3 text-sm text-ink-soft">{s.notes}</p> : null}
         </Card>
+        </div>
       </div>
     </>
   );
