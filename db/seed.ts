@@ -47,7 +47,8 @@ export async function seedDemo(db: ReturnType<typeof drizzle<typeof schema>>) {
       .values({ labId: lab.id, name: "GX-12 bilayer", material: "germanene (bilayer)", substrate: "MoS2 flake", workFunctionEv: 3.9, workFunctionSigmaEv: 0.1, notes: "Grown 2026-11-12, transferred in UHV suitcase.", createdBy: people.owner })
       .returning();
     const [film2] = await tx.insert(samples).values({ labId: lab.id, name: "SN-03 monolayer", material: "stanene (monolayer)", substrate: "Bi2Te3(111)", workFunctionEv: 4.3, workFunctionSigmaEv: 0.15, createdBy: people.owner }).returning();
-    for (const s of [film, film2]) {
+    const [film3] = await tx.insert(samples).values({ labId: lab.id, name: "SN-05 step edge", material: "stanene (monolayer)", substrate: "Bi2Te3(111)", workFunctionEv: 4.3, workFunctionSigmaEv: 0.15, notes: "Gap map across a step edge, one setpoint.", createdBy: people.owner }).returning();
+    for (const s of [film, film2, film3]) {
       const v = initialVersionRows(lab.id, s.id, people.owner);
       await tx.insert(extractionSettingsVersions).values(v.settings);
       await tx.insert(fieldModelVersions).values(v.field);

@@ -12,7 +12,7 @@ import { completeUpload } from "../uploads/uploadStatus";
 /**
  * Spectra for the invented demo lab, from the project's physical model (lib/spectra/synthetic.ts):
  * an approach series on the bilayer whose gap closes near 0.98 V/nm and reopens; on the monolayer a
- * series that only closes, and a 12 × 12 grid whose gap dips over one terrace. They go through the
+ * series that only closes; on a third film a 12 × 12 grid at one setpoint whose gap dips near a step. They go through the
  * real upload path (storage, queue, worker), so a fresh `npm start` shows a working notebook.
  */
 export async function seedDemoSpectra(db: DbOrTx, labSlug: string): Promise<number> {
@@ -25,6 +25,7 @@ export async function seedDemoSpectra(db: DbOrTx, labSlug: string): Promise<numb
   const ctx = { db, actor: await actorForUser(db, owner.id, labSlug) };
   const [bilayer] = await db.select().from(samples).where(and(eq(samples.labId, ctx.actor.labId), eq(samples.name, "GX-12 bilayer")));
   const [mono] = await db.select().from(samples).where(and(eq(samples.labId, ctx.actor.labId), eq(samples.name, "SN-03 monolayer")));
+  const [edge] = await db.select().from(samples).where(and(eq(samples.labId, ctx.actor.labId), eq(samples.name, "SN-05 step edge")));
   const [session] = await db.select().from(measurementSessions).where(eq(measurementSessions.sampleId, bilayer.id));
   const [pt] = await db.select().from(tips).where(and(eq(tips.labId, ctx.actor.labId), eq(tips.label, "PtIr-04")));
 
@@ -32,7 +33,8 @@ export async function seedDemoSpectra(db: DbOrTx, labSlug: string): Promise<numb
   const sweep = makeSweep({ n: 24, seed: 2026, fieldModel: { tipWorkFunction_eV: 4.7, sampleWorkFunction_eV: 3.9 }, noise: 0.03 });
   sweep.spectra.forEach((s, i) => files.push({ sessionId: session.id, name: `gx12-approach-${String(i + 1).padStart(2, "0")}.csv`, text: spectrumToCsv({ ...s, meta: { ...s.meta, region: i % 3 === 0 ? "terrace B" : "terrace A" } }) }));
 
-  const monoSession = await createSession({ ctx, input: { sampleId: mono.id, tipId: pt?.id, label: "SN-03 approach and map", date: "2026-11-26", instrument: "LT-STM bay 1", temperature_K: 1.3 } });
+  const monoSession = await createSession({ ctx, input: { sampleId: mono.id, tipId: pt?.id, label: "SN-03 approach", date: "2026-11-26", instrument: "LT-STM bay 1", temperature_K: 1.3 } });
+  const mapSession = await createSession({ ctx, input: { sampleId: edge.id, tipId: pt?.id, label: "SN-05 grid across the step", date: "2026-11-27", instrument: "LT-STM bay 1", temperature_K: 1.3 } });
   // PtIr tip (5.4 eV) on stanene (4.3 eV): the gap shrinks but does not reach zero in range.
   const closing = makeSweep({ n: 12, seed: 77, fieldModel: { tipWorkFunction_eV: 5.4, sampleWorkFunction_eV: 4.3 }, criticalField_V_per_nm: 2.4, slope_eV_per_V_per_nm: 0.12, T_K: 1.3, vrms_mV: 1.5 });
   closing.spectra.forEach((s, i) => files.push({ sessionId: monoSession.id, name: `sn03-approach-${String(i + 1).padStart(2, "0")}.csv`, text: spectrumToCsv(s) }));
@@ -48,7 +50,7 @@ export async function seedDemoSpectra(db: DbOrTx, labSlug: string): Promise<numb
     bias ??= s.bias_V;
     cols.push({ label: `px${k}`, didv: s.didv });
   }
-  files.push({ sessionId: monoSession.id, name: "sn03-grid-12x12.csv", text: columnsToCsv(bias!, cols, { setpoint_bias_V: 0.6, setpoint_current_A: 2e-10, temperature_K: 1.3, lockin_modulation_mV_rms: 1.5, extra: { grid: `${nx} x ${nx}`, grid_step_nm: "0.5" } }) });
+  files.push({ sessionId: mapSession.id, name: "sn05-grid-12x12.csv", text: columnsToCsv(bias!, cols, { setpoint_bias_V: 0.6, setpoint_current_A: 2e-10, temperature_K: 1.3, lockin_modulation_mV_rms: 1.5, extra: { grid: `${nx} x ${nx}`, grid_step_nm: "0.5" } }) });
 
   for (const f of files) {
     const bytes = new TextEncoder().encode(f.text);
