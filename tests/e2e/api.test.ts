@@ -88,4 +88,46 @@ describe("HTTP API v1", () => {
     expect(s.status).toBe(201);
     expect(await s.json()).toMatchObject({ sampleId: aSampleId, tipId, temperature_K: 4.6 });
   });
+
+  it("every write of the pipeline and the review refuses a collaborator's token (403) and lab B's token (404)", async () => {
+    const sessionRes = await call("POST", "/sessions", tokens["a-microscopist"], { sampleId: aSampleId, date: "2026-11-20", label: "tokens" });
+    const { id: sessionId } = (await sessionRes.json()) as { id: string };
+    const file = { name: "x.csv", size: 100, sha256: "d".repeat(64) };
+    const upload = await call("POST", "/uploads", tokens["a-microscopist"], { sessionId, files: [file] });
+    expect(upload.status).toBe(201);
+    const { uploads } = (await upload.json()) as { uploads: { id: string; url: string; method: string }[] };
+    expect(uploads[0]).toMatchObject({ method: "PUT", url: expect.stringContaining("X-Amz-Signature") });
+    const uploadId = uploads[0].id;
+    const nobody = "00000000-0000-4000-8000-000000000000";
+    const writes: [string, string, unknown][] = [
+      ["POST", "/uploads", { sessionId, files: [{ ...file, sha256: "e".repeat(64) }] }],
+      ["POST", `/uploads/${uploadId}/complete`, undefined],
+      ["POST", `/uploads/${uploadId}/retry`, undefined],
+      ["PATCH", "/spectra/tags", { ids: [nobody], patch: { region: "x" } }],
+      ["PUT", `/samples/${aSampleId}/field-model`, { contactDistance_nm: 0.3 }],
+      ["PUT", `/samples/${aSampleId}/extraction-settings`, { settings: {} }],
+      ["PATCH", `/spectra/${nobody}/pick`, { vbEdge_V: -0.1, cbEdge_V: 0.1, reason: "not allowed", version: 1 }],
+      ["PUT", `/spectra/${nobody}/exclusion`, { excluded: true, reason: "not allowed", version: 1 }],
+      ["POST", `/samples/${aSampleId}/crossing/confirm`, {}],
+    ];
+    for (const [method, path, body] of writes) {
+      const asCollaborator = await call(method, path, tokens["a-collaborator"], body);
+      expect([403], `${method} ${path} as collaborator`).toContain(asCollaborator.status);
+    }
+    const reads = [`/uploads/${uploadId}`, `/samples/${aSampleId}/phase`, `/sessions/${sessionId}/spectra`, `/samples/${aSampleId}/export?format=json`];
+    for (const path of [...reads]) expect((await call("GET", path, tokens["b-owner"])).status, `GET ${path} as lab B`).toBe(404);
+    for (const [method, path, body] of writes.filter(([, p]) => !p.includes(nobody))) {
+      const asOtherLab = await call(method, path, tokens["b-owner"], body);
+      expect([404], `${method} ${path} as lab B`).toContain(asOtherLab.status);
+    }
+  });
+
+  it("a file above the size limit gets 413 with a clear message", async () => {
+    const sessionRes = await call("POST", "/sessions", tokens["a-microscopist"], { sampleId: aSampleId, date: "2026-11-20", label: "big" });
+    const { id: sessionId } = (await sessionRes.json()) as { id: string };
+    const res = await call("POST", "/uploads", tokens["a-microscopist"], { sessionId, files: [{ name: "huge-grid.csv", size: 5e9, sha256: "f".repeat(64) }] });
+    expect(res.status).toBe(413);
+    expect(((await res.json()) as { error: { message: string } }).error.message).toContain("huge-grid.csv");
+  });
 });
+
