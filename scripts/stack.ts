@@ -1,7 +1,9 @@
-// Brings Bandcross up locally (`start`) or runs the whole test suite against a throwaway stack (`test`).
+// Brings Bandcross up locally (`start`), runs the whole test suite against a throwaway stack (`test`),
+// or runs the web benchmarks against a throwaway stack of their own (`bench`).
 //
-//   node --import tsx scripts/stack.ts start   (npm start, via scripts/start.sh)
-//   node --import tsx scripts/stack.ts test    (npm test, via scripts/test.sh)
+//   node --import tsx scripts/stack.ts start            (npm start, via scripts/start.sh)
+//   node --import tsx scripts/stack.ts test             (npm test, via scripts/test.sh)
+//   node --import tsx scripts/stack.ts bench [PART...]  (the web parts of npm run bench, via scripts/bench.ts)
 //
 // See docker-free-dev.md for ports, folders and how to reset.
 
@@ -22,7 +24,7 @@ import {
   type StepResult,
 } from "./stack/summary";
 
-type Mode = "start" | "test";
+type Mode = "start" | "test" | "bench";
 
 const ROOT = process.cwd();
 const t0 = Date.now();
@@ -33,8 +35,8 @@ const VITEST_BIN = path.join(ROOT, "node_modules/vitest/vitest.mjs");
 const CHROMIUM = process.env.CHROMIUM_PATH || "/usr/bin/chromium";
 
 const mode = process.argv[2] as Mode;
-if (mode !== "start" && mode !== "test") {
-  console.error("usage: stack.ts start|test [vitest args for test]");
+if (mode !== "start" && mode !== "test" && mode !== "bench") {
+  console.error("usage: stack.ts start|test|bench [vitest args for test | bench parts for bench]");
   process.exit(2);
 }
 if (!fs.existsSync(path.join(ROOT, "package.json")) || !fs.existsSync(path.join(ROOT, "scripts/stack.ts"))) {
@@ -55,11 +57,16 @@ const cfg =
         dataDir: path.join(ROOT, ".data"),
         ports: shift({ pg: 54329, s3: 9010, mail: 9020, app: Number(process.env.PORT || 3000) }),
       }
-    : {
-        dataDir: path.join(ROOT, ".test-data"),
-        ports: shift({ pg: 54339, s3: 9011, mail: 9021, app: 3100 }),
-      };
-const quiet = mode === "test";
+    : mode === "test"
+      ? {
+          dataDir: path.join(ROOT, ".test-data"),
+          ports: shift({ pg: 54339, s3: 9011, mail: 9021, app: 3100 }),
+        }
+      : {
+          dataDir: path.join(ROOT, ".bench-data"),
+          ports: shift({ pg: 54349, s3: 9012, mail: 9022, app: 3200 }),
+        };
+const quiet = mode !== "start";
 const logDir = path.join(cfg.dataDir, "logs");
 const stateFile = path.join(cfg.dataDir, "stack.json");
 const rel = (p: string) => path.relative(ROOT, p) || ".";
@@ -95,19 +102,24 @@ function isOurs(pid: number): boolean {
   return cwd === ROOT || cmdline(pid).includes(ROOT);
 }
 
-/** `npm start` and `npm test` share the .next build folder: say so when the other one is running here. */
+/** `npm start`, `npm test` and the bench share the .next build folder: say so when another one is running here. */
 function warnIfOtherModeRunning() {
-  const other = path.join(ROOT, mode === "start" ? ".test-data" : ".data", "stack.json");
-  try {
-    const pid = JSON.parse(fs.readFileSync(other, "utf8")).supervisorPid as number;
-    if (pid && isAlive(pid) && /stack\.ts/.test(cmdline(pid))) {
-      say(
-        `note: \`npm ${mode === "start" ? "test" : "start"}\` is running from this folder (pid ${pid}); both use .next, ` +
-          `so ${mode === "test" ? "restart npm start after the tests" : "its build may be replaced"}`,
-      );
+  const others = { start: ".data", test: ".test-data", bench: ".bench-data" } as const;
+  const command = { start: "npm start", test: "npm test", bench: "npm run bench" } as const;
+  for (const other of Object.keys(others) as Mode[]) {
+    if (other === mode) continue;
+    try {
+      const pid = JSON.parse(fs.readFileSync(path.join(ROOT, others[other], "stack.json"), "utf8")).supervisorPid as number;
+      if (pid && isAlive(pid) && /stack\.ts/.test(cmdline(pid))) {
+        const rebuilds = mode !== "start" && process.env.BANDCROSS_SKIP_BUILD !== "1";
+        say(
+          `note: \`${command[other]}\` is running from this folder (pid ${pid}); both use .next, ` +
+            `so ${other === "start" && rebuilds ? "restart npm start afterwards" : "its build may be replaced"}`,
+        );
+      }
+    } catch {
+      // not running
     }
-  } catch {
-    // not running
   }
 }
 
@@ -120,7 +132,7 @@ async function reclaim(): Promise<void> {
       say(`already running (pid ${sup}) at http://localhost:${cfg.ports.app} — stop it with Ctrl-C in its terminal or \`kill ${sup}\``);
       process.exit(0);
     }
-    fail(`another test run is in progress (pid ${sup}); wait for it or \`kill ${sup}\``);
+    fail(`another ${mode} run is in progress (pid ${sup}); wait for it or \`kill ${sup}\``);
   }
   for (const [name, pid] of Object.entries(state?.children ?? {})) {
     if (pid && isAlive(pid) && isOurs(pid)) {
@@ -208,7 +220,7 @@ sup.onUnexpectedExit = (name, code) => {
     void shutdown(1);
   } else {
     serviceFailure = `${name} exited (code ${code}), see ${rel(log)}`;
-    console.error(`bandcross test: ${serviceFailure}`);
+    console.error(`bandcross ${mode}: ${serviceFailure}`);
   }
 };
 
@@ -244,12 +256,12 @@ async function checkpoint(): Promise<void> {
 async function bringUpServices(): Promise<Record<string, string>> {
   fs.mkdirSync(logDir, { recursive: true });
   const secrets = loadOrCreateSecrets(cfg.dataDir);
-  const env = stackEnv({ dataDir: cfg.dataDir, ports: cfg.ports, secrets, nodeEnv: mode === "start" ? "production" : "test" });
+  const env = stackEnv({ dataDir: cfg.dataDir, ports: cfg.ports, secrets, nodeEnv: mode === "test" ? "test" : "production" });
   fs.mkdirSync(env.MAIL_OUTBOX_DIR!, { recursive: true });
   writeEnvFile(
     path.join(cfg.dataDir, "env.local"),
     env,
-    `Bandcross ${mode === "start" ? "local" : "test"} stack environment, written by scripts/stack.ts on every start.\n` +
+    `Bandcross ${mode === "start" ? "local" : mode} stack environment, written by scripts/stack.ts on every start.\n` +
       `Use it from a shell:  set -a; . ${rel(cfg.dataDir)}/env.local; set +a\nor:  node --env-file=${rel(cfg.dataDir)}/env.local ...`,
   );
 
@@ -543,7 +555,75 @@ async function testMode() {
   process.exit(ok ? 0 : 1);
 }
 
-(mode === "start" ? startMode() : testMode()).catch((e) => {
+/**
+ * The web benchmarks (scripts/bench/web/*) against a fresh stack in .bench-data/: wiped, migrated,
+ * built (unless BANDCROSS_SKIP_BUILD=1), app and worker started, the parts run with the stack's
+ * environment, everything stopped. A missed goal is printed as MISSED by the part and does not
+ * change the exit status; a stack that cannot come up, or a part that crashes, does.
+ */
+async function benchMode() {
+  await reclaim();
+  try {
+    stopPostgres(cfg.dataDir, "immediate");
+  } catch {
+    // nothing running
+  }
+  removeClusterStorage(cfg.dataDir);
+  fs.rmSync(cfg.dataDir, { recursive: true, force: true });
+  fs.mkdirSync(cfg.dataDir, { recursive: true });
+  const parts = process.argv.slice(3);
+  let env: Record<string, string> = {};
+  let code = 0;
+  console.log(`bandcross bench: setting up a fresh stack in ${rel(cfg.dataDir)}/ …`);
+  try {
+    env = await bringUpServices();
+    const childEnv = { ...process.env, ...env, NEXT_TELEMETRY_DISABLED: "1" };
+    await oneShot("migrate", "scripts/migrate.ts", childEnv);
+    const built = await build(childEnv);
+    await checkpoint();
+    if (!built) throw new Error("next build failed");
+    await serve(childEnv);
+    await sleep(300);
+    await checkpoint();
+    if (serviceFailure) throw new Error(serviceFailure);
+    appIsUp = true;
+    console.log(`bandcross bench: stack ready at ${env.APP_URL} (${secs()})`);
+    const r = await sup.run("bench", NODE, ["--conditions=react-server", ...TSX, "scripts/bench.ts", ...parts], {
+      env: { ...childEnv, BANDCROSS_BENCH_STACK: "1", BANDCROSS_BENCH_DATA: cfg.dataDir, CHROMIUM_PATH: CHROMIUM, NODE_ENV: "production" },
+      output: "inherit",
+    });
+    await checkpoint();
+    if (r.code !== 0) {
+      console.error(`bandcross bench: the web benchmark exited with code ${r.code}`);
+      code = 1;
+    }
+    if (serviceFailure) {
+      console.error(`bandcross bench: ${serviceFailure}`);
+      code = 1;
+    }
+    if (process.env.BANDCROSS_BENCH_KEEP === "1") {
+      // For looking into a figure: the stack and its data stay up until Ctrl-C.
+      say(`BANDCROSS_BENCH_KEEP=1: the stack stays up at ${env.APP_URL} (env in ${rel(cfg.dataDir)}/env.local); Ctrl-C stops it`);
+      await new Promise(() => {});
+    }
+  } catch (e) {
+    await checkpoint();
+    console.error(`bandcross bench: ${(e as Error).message ?? e}`);
+    code = 1;
+  }
+  sup.stopping = true;
+  await sup.stopAll();
+  try {
+    stopPostgres(cfg.dataDir, "fast");
+  } catch (e) {
+    console.error(String((e as Error).message ?? e));
+  }
+  sup.clearState();
+  console.log(`bandcross bench: stack stopped (${secs()}); logs in ${rel(logDir)}/`);
+  process.exit(code);
+}
+
+(mode === "start" ? startMode() : mode === "test" ? testMode() : benchMode()).catch((e) => {
   console.error(`bandcross ${mode}: ${(e as Error).stack ?? e}`);
   void shutdown(1);
 });

@@ -28,7 +28,7 @@ function faultHooks() {
 export async function startWorker(): Promise<() => Promise<void>> {
   const b = await boss("worker");
   const concurrency = Number(process.env.WORKER_CONCURRENCY ?? 2);
-  const handleUpload = async ([job]: PgBoss.JobWithMetadata<ProcessUploadJob>[]) => {
+  const handleUpload = async (job: PgBoss.JobWithMetadata<ProcessUploadJob>) => {
     const started = Date.now();
     try {
       const out = await processUpload(db(), job.data.uploadId, faultHooks());
@@ -36,13 +36,23 @@ export async function startWorker(): Promise<() => Promise<void>> {
     } catch (e) {
       log(`${QUEUES.processUpload} ${job.data.uploadId}: attempt ${job.retryCount + 1} failed: ${(e as Error).message}`);
       if (lastTry(job)) return markUploadFailed(db(), job.data.uploadId, e);
-      throw e;
+      // Only this job is retried (with backoff); pg-boss completes the rest of the batch, and a
+      // failed job is no longer active, so that completion leaves it alone.
+      await b.fail(QUEUES.processUpload, job.id, { message: (e as Error).message });
     }
   };
-  // Several pollers on one queue let this process work on more than one file at a time.
-  for (let i = 0; i < concurrency; i++) {
-    await b.work<ProcessUploadJob>(QUEUES.processUpload, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 0.5 }, handleUpload);
-  }
+  // pg-boss waits a polling interval (at least 0.5 s) between fetches of a poller, so one job per
+  // fetch capped the worker at two files a second per poller. One poller takes a batch per fetch
+  // and works it `concurrency` files at a time.
+  const batchSize = Math.max(concurrency, Number(process.env.WORKER_BATCH ?? 4 * concurrency));
+  await b.work<ProcessUploadJob>(QUEUES.processUpload, { includeMetadata: true, batchSize, pollingIntervalSeconds: 0.5 }, async (jobs) => {
+    let next = 0;
+    await Promise.all(
+      Array.from({ length: Math.min(concurrency, jobs.length) }, async () => {
+        while (next < jobs.length) await handleUpload(jobs[next++]);
+      }),
+    );
+  });
   await b.work<ReanalyzeSampleJob>(QUEUES.reanalyzeSample, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
     const runs = await db()
       .select({ id: analysisRuns.id })

@@ -1,5 +1,4 @@
-import { NextResponse } from "next/server";
 import { apiRoute } from "@/lib/http/respond";
-import { getPhase } from "@/lib/services/spectra/readSpectra";
+import { getPhaseJson } from "@/lib/services/spectra/phaseCache";
 
-export const GET = apiRoute<{ id: string }>(async ({ ctx, params }) => NextResponse.json(await getPhase({ ctx, input: { sampleId: params.id } })));
+export const GET = apiRoute<{ id: string }>(async ({ ctx, params }) => new Response(await getPhaseJson({ ctx, input: { sampleId: params.id } }), { headers: { "content-type": "application/json" } }));
