@@ -84,6 +84,7 @@ export async function run() {
 
     // 2. Keyboard review, bounded: a review screen that stops answering is reported, not waited for.
     const review = reviewMoves(page, appUrl, lab.slug, s.sampleId);
+    review.catch(() => {}); // after a timeout the page is closed under it
     const outcome = await Promise.race([review.then(() => "done" as const), new Promise<"timeout">((r) => setTimeout(() => r("timeout"), 60_000))]);
     if (outcome === "timeout") {
       line("review: the 20 moves did not finish within 60 s");
