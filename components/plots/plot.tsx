@@ -7,9 +7,13 @@ import type { PlotParams } from "react-plotly.js/factory";
  * Plotly, loaded in the browser only and only on pages that plot (the bundle is large). Built with
  * the factory from the minified distribution so the full source build is never installed.
  */
+// Start fetching the (large) Plotly bundle as soon as a page that plots is loaded, in parallel with
+// its data, rather than when the plot first renders.
+const plotlyModules = typeof window === "undefined" ? null : Promise.all([import("react-plotly.js/factory"), import("plotly.js-dist-min")]);
+
 export const Plot = dynamic<PlotParams>(
   async () => {
-    const [{ default: createPlotlyComponent }, Plotly] = await Promise.all([import("react-plotly.js/factory"), import("plotly.js-dist-min")]);
+    const [{ default: createPlotlyComponent }, Plotly] = await (plotlyModules ?? Promise.all([import("react-plotly.js/factory"), import("plotly.js-dist-min")]));
     return createPlotlyComponent((Plotly as { default?: unknown }).default ?? Plotly) as React.ComponentType<PlotParams>;
   },
   { ssr: false, loading: () => <div className="h-full min-h-64 w-full animate-pulse rounded-lg bg-line/50" aria-label="Loading the plot" /> },

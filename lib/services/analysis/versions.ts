@@ -11,7 +11,8 @@ import { invalid } from "../errors";
 import { parseInput } from "../parse";
 import { getSample } from "../samples/getSample";
 
-async function queueRun(ctx: Ctx, sampleId: string, reason: string) {
+/** Queues a background re-analysis of a sample (fields and automatic picks), with a run to show its progress. */
+export async function queueReanalysis(ctx: Ctx, sampleId: string, reason: string) {
   const [run] = await ctx.db.insert(analysisRuns).values({ labId: ctx.actor.labId, sampleId, reason, createdBy: ctx.actor.userId }).returning();
   await enqueueReanalyzeSample({ sampleId, labId: ctx.actor.labId, reason });
   return run;
@@ -36,7 +37,7 @@ export async function saveExtractionSettings({ ctx, input }: { ctx: Ctx; input: 
     return row;
   });
   await recordAudit(ctx, "settings.extraction", { type: "sample", id: sample.id }, { version: version.version });
-  const run = await queueRun(ctx, sample.id, `extraction settings v${version.version}`);
+  const run = await queueReanalysis(ctx, sample.id, `extraction settings v${version.version}`);
   return { version: version.version, id: version.id, settings, runId: run.id };
 }
 
@@ -58,7 +59,7 @@ export async function saveFieldModel({ ctx, input }: { ctx: Ctx; input: { sample
     return row;
   });
   await recordAudit(ctx, "settings.field-model", { type: "sample", id: sample.id }, { version: version.version });
-  const run = await queueRun(ctx, sample.id, `field model v${version.version}`);
+  const run = await queueReanalysis(ctx, sample.id, `field model v${version.version}`);
   return { id: version.id, version: version.version, model: stored, runId: run.id, createdAt: version.createdAt.toISOString() };
 }
 

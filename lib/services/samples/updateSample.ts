@@ -7,10 +7,14 @@ import { recordAudit } from "../audit";
 import type { Ctx } from "../context";
 import { conflict, isUniqueViolation, notFound } from "../errors";
 import { parseInput } from "../parse";
+import { queueReanalysis } from "../analysis/versions";
+import { isUuid } from "./getSample";
 
 export async function updateSample({ ctx, input }: { ctx: Ctx; input: { id: string; patch: unknown } }) {
   assertCan(ctx.actor, "sample:write");
   const data = parseInput(samplePatch, input.patch);
+  const [before] = isUuid(input.id) ? await ctx.db.select().from(samples).where(and(eq(samples.id, input.id), eq(samples.labId, ctx.actor.labId))) : [];
+  if (!before) throw notFound("sample");
   try {
     const [row] = await ctx.db
       .update(samples)
@@ -27,6 +31,8 @@ export async function updateSample({ ctx, input }: { ctx: Ctx; input: { id: stri
       .returning();
     if (!row) throw notFound("sample");
     await recordAudit(ctx, "sample.update", { type: "sample", id: row.id }, { fields: Object.keys(data) });
+    // The sample's work function is part of every field estimate: re-estimate them.
+    if (row.workFunctionEv !== before.workFunctionEv || row.workFunctionSigmaEv !== before.workFunctionSigmaEv) await queueReanalysis(ctx, row.id, "sample work function changed");
     return row;
   } catch (e) {
     if (isUniqueViolation(e)) throw conflict(`A sample with that name already exists in this lab.`);

@@ -1,6 +1,6 @@
 import "server-only";
 import { and, asc, eq } from "drizzle-orm";
-import { tips } from "@/db/schema";
+import { spectra, tips } from "@/db/schema";
 import { assertCan } from "@/lib/auth/permissions";
 import { tipInput } from "@/lib/schemas/lab";
 import { recordAudit } from "../audit";
@@ -8,6 +8,7 @@ import type { Ctx } from "../context";
 import { conflict, isUniqueViolation, notFound } from "../errors";
 import { parseInput } from "../parse";
 import { isUuid } from "../samples/getSample";
+import { queueReanalysis } from "../analysis/versions";
 
 function values(data: ReturnType<typeof tipInput.parse>) {
   return {
@@ -53,6 +54,8 @@ export async function updateTip({ ctx, input }: { ctx: Ctx; input: { id: string;
   assertCan(ctx.actor, "tip:write");
   const data = parseInput(tipInput, input.data);
   if (!isUuid(input.id)) throw notFound("tip");
+  const [before] = await ctx.db.select().from(tips).where(and(eq(tips.id, input.id), eq(tips.labId, ctx.actor.labId)));
+  if (!before) throw notFound("tip");
   try {
     const [row] = await ctx.db
       .update(tips)
@@ -61,6 +64,11 @@ export async function updateTip({ ctx, input }: { ctx: Ctx; input: { id: string;
       .returning();
     if (!row) throw notFound("tip");
     await recordAudit(ctx, "tip.update", { type: "tip", id: row.id });
+    // Spectra measured with this tip estimate their field from its work function.
+    if (before.workFunctionEv !== row.workFunctionEv || before.workFunctionSigmaEv !== row.workFunctionSigmaEv) {
+      const used = await ctx.db.selectDistinct({ sampleId: spectra.sampleId }).from(spectra).where(eq(spectra.tipId, row.id));
+      for (const u of used) await queueReanalysis(ctx, u.sampleId, `tip ${row.label} work function changed`);
+    }
     return row;
   } catch (e) {
     if (isUniqueViolation(e)) throw conflict(`A tip labelled "${data.label}" already exists in this lab.`);
