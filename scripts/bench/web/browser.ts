@@ -83,7 +83,14 @@ export async function run() {
     verdict("phase plot interactive after its data (slowest of 3)", Math.max(...loads.map((l) => l.afterplot - l.dataAt)), 1000, "ms", 0);
 
     // 2. Keyboard review, bounded: a review screen that stops answering is reported, not waited for.
-    const review = reviewMoves(page, appUrl, lab.slug, s.sampleId);
+    // In a fresh context without the plot-timing hooks, which the review's editable shapes do not need.
+    const reviewContext = await browser.newContext({ viewport: { width: 1400, height: 900 } });
+    const reviewPage = await reviewContext.newPage();
+    await reviewPage.goto(`${appUrl}/sign-in`);
+    await reviewPage.fill('[data-testid="sign-in-form"] input[name="email"]', lab.email);
+    await reviewPage.fill('[data-testid="sign-in-form"] input[name="password"]', BENCH_PASSWORD);
+    await Promise.all([reviewPage.waitForURL(`**/labs/${lab.slug}`, { timeout: 30_000 }), reviewPage.click('[data-testid="sign-in-submit"]')]);
+    const review = reviewMoves(reviewPage, appUrl, lab.slug, s.sampleId);
     review.catch(() => {}); // after a timeout the page is closed under it
     const outcome = await Promise.race([review.then(() => "done" as const), new Promise<"timeout">((r) => setTimeout(() => r("timeout"), 60_000))]);
     if (outcome === "timeout") {
@@ -97,55 +104,34 @@ export async function run() {
 }
 
 async function reviewMoves(page: Page, appUrl: string, slug: string, sampleId: string) {
-  {
-    const lab = { slug };
-    const s = { sampleId };
-    const first = await page.evaluate(async (u) => (await (await fetch(u)).json()) as { points: { spectrumId: string }[] }, `${appUrl}/api/v1/samples/${s.sampleId}/phase`);
-    await page.goto(`${appUrl}/labs/${lab.slug}/spectra/${first.points[0].spectrumId}`);
-    await page.waitForSelector('[data-testid="spectrum-review"] .js-plotly-plot');
-    const moves: number[] = [];
-    const redraws: number[] = [];
-    for (let i = 0; i < 20; i++) {
-      // Let the page settle (its prefetch of the next spectrum), as an analyst looks at each one.
-      await page.waitForTimeout(400);
-      const r = await page.evaluate(
+  const first = await page.evaluate(async (u) => (await (await fetch(u)).json()) as { points: { spectrumId: string }[] }, `${appUrl}/api/v1/samples/${sampleId}/phase`);
+  await page.goto(`${appUrl}/labs/${slug}/spectra/${first.points[0].spectrumId}`);
+  await page.waitForSelector('[data-testid="spectrum-review"] .js-plotly-plot');
+  const moves: number[] = [];
+  for (let i = 0; i < 20; i++) {
+    // Let the page settle (its prefetch of the next spectrum), as an analyst looks at each one.
+    await page.waitForTimeout(400);
+    moves.push(
+      await page.evaluate(
         () =>
-          new Promise<{ text: number; redraw: number | null; pos: string }>((resolve) => {
+          new Promise<number>((resolve) => {
             const el = document.querySelector('[data-testid="review-position"]')!;
             const old = el.textContent;
-            const plots = (window as unknown as { __bxPlots: { afterplot: number[] }[] }).__bxPlots;
-            const before = plots.reduce((a, p) => a + p.afterplot.length, 0);
             const t = performance.now();
-            let text: number | null = null;
             const mo = new MutationObserver(() => {
-              if (text == null && el.textContent !== old) {
-                text = performance.now() - t;
+              if (el.textContent !== old) {
                 mo.disconnect();
-                const until = performance.now() + 2000;
-                const wait = () => {
-                  const after = plots.reduce((a, p) => a + p.afterplot.length, 0);
-                  if (after > before) resolve({ text: text!, redraw: Math.max(...plots.flatMap((p) => p.afterplot)) - t, pos: el.textContent ?? "" });
-                  else if (performance.now() > until) resolve({ text: text!, redraw: null, pos: el.textContent ?? "" });
-                  else requestAnimationFrame(wait);
-                };
-                wait();
+                resolve(performance.now() - t);
               }
             });
             mo.observe(el, { subtree: true, childList: true, characterData: true });
-            setTimeout(() => {
-              if (text == null) {
-                mo.disconnect();
-                resolve({ text: Infinity, redraw: null, pos: el.textContent ?? "" });
-              }
-            }, 5000);
-            document.body.dispatchEvent(new KeyboardEvent("keydown", { key: "ArrowRight", bubbles: true }));
+            setTimeout(() => resolve(Infinity), 5000);
+            window.dispatchEvent(new KeyboardEvent("keydown", { key: "ArrowRight", bubbles: true }));
           }),
-      );
-      moves.push(r.text);
-      if (r.redraw != null) redraws.push(r.redraw);
-    }
-    const pos = await page.textContent('[data-testid="review-position"]');
-    line(`review: 20 moves with ArrowRight (now at ${pos?.trim()}): position text changed after median ${quantileOf(moves, 0.5).toFixed(1)} ms, max ${Math.max(...moves).toFixed(1)} ms; plot redrawn after median ${quantileOf(redraws, 0.5).toFixed(0)} ms`);
-    verdict("review: next spectrum (median of 20 moves)", quantileOf(moves, 0.5), 100, "ms", 1);
+      ),
+    );
   }
+  const pos = await page.textContent('[data-testid="review-position"]');
+  line(`review: 20 moves with ArrowRight (now at ${pos?.trim()}): position text changed after median ${quantileOf(moves, 0.5).toFixed(1)} ms, max ${Math.max(...moves).toFixed(1)} ms`);
+  verdict("review: next spectrum (median of 20 moves)", quantileOf(moves, 0.5), 100, "ms", 1);
 }
