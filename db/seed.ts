@@ -7,7 +7,7 @@ import { drizzle } from "drizzle-orm/node-postgres";
 import { Pool } from "pg";
 import bcrypt from "bcryptjs";
 import * as schema from "./schema";
-import { extractionSettingsVersions, fieldModelVersions, labs, measurementSessions, memberships, samples, tips, users, type MemberRole } from "./schema";
+import { extractionSettingsVersions, fieldModelVersions, labs, subscriptions, measurementSessions, memberships, samples, tips, users, type MemberRole } from "./schema";
 import { initialVersionRows } from "../lib/services/samples/initialVersions";
 
 export const DEMO_LAB = { slug: "demo", name: "Halvorsen Surface Physics Group", institution: "Lindqvist Institute (invented)" };
@@ -52,6 +52,8 @@ export async function seedDemo(db: ReturnType<typeof drizzle<typeof schema>>) {
       const v = initialVersionRows(lab.id, s.id, people.owner);
       await tx.insert(extractionSettingsVersions).values(v.settings);
       await tx.insert(fieldModelVersions).values(v.field);
+      // The lab's default: owners and analysts watch new samples (and hear of their crossings).
+      await tx.insert(subscriptions).values([people.owner, people.analyst].map((userId) => ({ labId: lab.id, sampleId: s.id, userId })));
     }
     await tx.insert(measurementSessions).values({ labId: lab.id, sampleId: film.id, tipId: tipW.id, label: "GX-12 approach series A", date: "2026-11-20", instrument: "LT-STM bay 2", temperatureK: 4.6, operatorId: people.microscopist, createdBy: people.microscopist });
   });
