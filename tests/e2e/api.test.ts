@@ -129,5 +129,17 @@ describe("HTTP API v1", () => {
     expect(res.status).toBe(413);
     expect(((await res.json()) as { error: { message: string } }).error.message).toContain("huge-grid.csv");
   });
+
+  it("the phase endpoint answers 304 to a client that already has the current version (RFC 9110 If-None-Match)", async () => {
+    const first = await call("GET", `/samples/${aSampleId}/phase`, tokens["a-analyst"]);
+    expect(first.status).toBe(200);
+    const etag = first.headers.get("etag")!;
+    expect(etag).toMatch(/^W\/".+"$/);
+    const again = await fetch(`${APP_URL}/api/v1/samples/${aSampleId}/phase`, { headers: { authorization: `Bearer ${tokens["a-analyst"]}`, "if-none-match": etag } });
+    expect(again.status).toBe(304);
+    // Another lab's token learns nothing, not even "not modified".
+    const other = await fetch(`${APP_URL}/api/v1/samples/${aSampleId}/phase`, { headers: { authorization: `Bearer ${tokens["b-owner"]}`, "if-none-match": etag } });
+    expect(other.status).toBe(404);
+  });
 });
 

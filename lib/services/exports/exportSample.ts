@@ -54,7 +54,7 @@ export async function spectraCsv({ ctx, input }: { ctx: Ctx; input: { sampleId: 
 }
 
 export async function phaseJson({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }) {
-  const phase = await getPhase({ ctx, input });
+  const phase = await getPhase({ ctx, input: { ...input, precise: true } });
   const analysis = await loadSampleAnalysis(ctx.db, input.sampleId);
   return {
     fileName: `${slug(phase.sample.name)}-phase.json`,

@@ -1,4 +1,5 @@
 import "server-only";
+import { createHash } from "node:crypto";
 import { sql } from "drizzle-orm";
 import type { Ctx } from "../context";
 import { getSample } from "../samples/getSample";
@@ -19,6 +20,7 @@ import { getPhase } from "./readSpectra";
 const MAX_SAMPLES = 16;
 interface Entry {
   key: string;
+  etag: string;
   body: Promise<string>;
 }
 const cache = new Map<string, Entry>();
@@ -47,7 +49,7 @@ async function entryFor(ctx: Ctx, sampleId: string): Promise<Entry> {
     return hit;
   }
   const body = getPhase({ ctx, input: { sampleId: sample.id } }).then((p) => JSON.stringify(p));
-  const entry: Entry = { key, body };
+  const entry: Entry = { key, etag: `W/"${createHash("sha1").update(`${sample.id}|${key}`).digest("base64url")}"`, body };
   cache.set(sample.id, entry);
   while (cache.size > MAX_SAMPLES) cache.delete(cache.keys().next().value!);
   body.catch(() => {
@@ -56,7 +58,13 @@ async function entryFor(ctx: Ctx, sampleId: string): Promise<Entry> {
   return entry;
 }
 
-/** `GET /api/v1/samples/{id}/phase` as JSON text (the same as JSON.stringify(await getPhase(...))). */
-export async function getPhaseJson({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }): Promise<string> {
-  return (await entryFor(ctx, input.sampleId)).body;
+/**
+ * `GET /api/v1/samples/{id}/phase` as JSON text (the same as JSON.stringify(await getPhase(...))),
+ * with an entity tag from the same fingerprint: a client that has this version (If-None-Match)
+ * gets `{ notModified: true }` and no body, which is what a plot refreshing every 10 s mostly needs.
+ */
+export async function getPhaseJson({ ctx, input }: { ctx: Ctx; input: { sampleId: string; ifNoneMatch?: string | null } }): Promise<{ etag: string; notModified: boolean; body: string | null }> {
+  const e = await entryFor(ctx, input.sampleId);
+  if (input.ifNoneMatch && input.ifNoneMatch.split(/\s*,\s*/).includes(e.etag)) return { etag: e.etag, notModified: true, body: null };
+  return { etag: e.etag, notModified: false, body: await e.body };
 }
