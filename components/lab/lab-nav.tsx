@@ -2,7 +2,7 @@
 
 import Link from "next/link";
 import { usePathname } from "next/navigation";
-import { useState } from "react";
+import { useEffect, useState } from "react";
 import { BrandMark } from "@/components/brand";
 import type { MemberRole } from "@/db/schema/auth";
 
@@ -25,6 +25,17 @@ export function LabNav({
   unreadCount?: number;
 }) {
   const path = usePathname();
+  // Most visits lead to a plot: fetch and compile the plotting library while the browser is idle,
+  // so the first phase plot or spectrum of a visit does not wait for it.
+  useEffect(() => {
+    const load = () => void import("plotly.js-dist-min");
+    if ("requestIdleCallback" in window) {
+      const id = window.requestIdleCallback(load, { timeout: 3000 });
+      return () => window.cancelIdleCallback(id);
+    }
+    const t = setTimeout(load, 1500);
+    return () => clearTimeout(t);
+  }, []);
   const [open, setOpen] = useState(false);
   const base = `/labs/${lab.slug}`;
   const items = [
