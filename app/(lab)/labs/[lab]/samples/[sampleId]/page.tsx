@@ -15,7 +15,8 @@ import { loadSampleAnalysis } from "@/lib/services/analysis/sampleModel";
 import { getSampleVersions } from "@/lib/services/analysis/versions";
 import { getSample } from "@/lib/services/samples/getSample";
 import { listSessions } from "@/lib/services/sessions/sessions";
-import { getPhase } from "@/lib/services/spectra/readSpectra";
+import { getPhaseJson } from "@/lib/services/spectra/phaseCache";
+import type { PhaseData } from "@/components/review/phase-plot";
 import { getGapMap } from "@/lib/services/spectra/gapMap";
 import { GapMap } from "@/components/review/gap-map";
 
@@ -25,7 +26,8 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
   const s = await orNotFound(getSample({ ctx, input: { id: sampleId } }));
   const [sessions, phase, versions, analysis, map] = await Promise.all([
     listSessions({ ctx, input: { sampleId: s.id } }),
-    getPhase({ ctx, input: { sampleId: s.id } }),
+    // The same cached JSON the phase endpoint serves (a 5,000-spectrum sample is built once, not per visit).
+    getPhaseJson({ ctx, input: { sampleId: s.id } }).then((r) => JSON.parse(r.body!) as PhaseData),
     getSampleVersions({ ctx, input: { sampleId: s.id } }),
     loadSampleAnalysis(ctx.db, s.id),
     getGapMap({ ctx, input: { sampleId: s.id } }),
