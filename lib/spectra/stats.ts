@@ -76,19 +76,27 @@ export function madSigma(values: ArrayLike<number>): number {
 }
 
 /**
- * Solve the symmetric positive (semi-)definite system A x = b in place by Gaussian elimination with
+ * Solve the symmetric positive (semi-)definite system A x = b by Gaussian elimination with
  * partial pivoting. `a` is row-major n×n. Returns null when the matrix is singular to working precision.
  */
 export function solveLinear(a: Float64Array, b: Float64Array, n: number): Float64Array | null {
-  const m = Float64Array.from(a);
   const x = Float64Array.from(b);
+  return solveInPlace(Float64Array.from(a), x, n) ? x : null;
+}
+
+/**
+ * The same elimination without allocating: `m` (row-major n×n) is overwritten, `x` holds b on entry
+ * and the solution on return. False when a pivot is below `relTol` × the largest entry of `m`.
+ * Hot loops (the edge fit) call this on scratch buffers.
+ */
+export function solveInPlace(m: Float64Array, x: Float64Array, n: number, relTol = 1e-14): boolean {
   let scale = 0;
   for (let i = 0; i < n * n; i++) scale = Math.max(scale, Math.abs(m[i]));
-  const tiny = scale * 1e-14;
+  const tiny = scale * relTol;
   for (let c = 0; c < n; c++) {
     let p = c;
     for (let r = c + 1; r < n; r++) if (Math.abs(m[r * n + c]) > Math.abs(m[p * n + c])) p = r;
-    if (!(Math.abs(m[p * n + c]) > tiny)) return null;
+    if (!(Math.abs(m[p * n + c]) > tiny)) return false;
     if (p !== c) {
       for (let k = 0; k < n; k++) {
         const t = m[c * n + k];
@@ -112,7 +120,7 @@ export function solveLinear(a: Float64Array, b: Float64Array, n: number): Float6
     for (let k = r + 1; k < n; k++) s -= m[r * n + k] * x[k];
     x[r] = s / m[r * n + r];
   }
-  return x;
+  return true;
 }
 
 /** Invert a small symmetric matrix (row-major n×n); null when singular. */

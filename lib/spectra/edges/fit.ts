@@ -14,7 +14,7 @@
  * each other both are fitted together (one floor, two onsets), alternating the two searches.
  */
 import { type BroadeningKernel, convolvedOnset } from "../resolution";
-import { brentMinimize, goldenMinimize } from "../stats";
+import { brentMinimize, goldenMinimize, solveInPlace } from "../stats";
 
 export interface EdgeFitInput {
   bias: Float64Array;
@@ -80,42 +80,12 @@ function solveSub(p: number, use: boolean[], x: Float64Array): number {
   const idx: number[] = [];
   for (let i = 0; i < p; i++) if (use[i]) idx.push(i);
   const m = idx.length;
-  let scale = 0;
   for (let r = 0; r < m; r++) {
-    for (let c = 0; c < m; c++) {
-      const v = scratchA[idx[r] * p + idx[c]];
-      work[r * m + c] = v;
-      scale = Math.max(scale, Math.abs(v));
-    }
+    for (let c = 0; c < m; c++) work[r * m + c] = scratchA[idx[r] * p + idx[c]];
     workB[r] = scratchB[idx[r]];
   }
-  // Gaussian elimination with partial pivoting on the small system.
-  for (let c = 0; c < m; c++) {
-    let piv = c;
-    for (let r = c + 1; r < m; r++) if (Math.abs(work[r * m + c]) > Math.abs(work[piv * m + c])) piv = r;
-    if (!(Math.abs(work[piv * m + c]) > scale * 1e-13)) return NaN;
-    if (piv !== c) {
-      for (let k = 0; k < m; k++) {
-        const t = work[c * m + k];
-        work[c * m + k] = work[piv * m + k];
-        work[piv * m + k] = t;
-      }
-      const t = workB[c];
-      workB[c] = workB[piv];
-      workB[piv] = t;
-    }
-    for (let r = c + 1; r < m; r++) {
-      const f = work[r * m + c] / work[c * m + c];
-      if (f === 0) continue;
-      for (let k = c; k < m; k++) work[r * m + k] -= f * work[c * m + k];
-      workB[r] -= f * workB[c];
-    }
-  }
-  for (let r = m - 1; r >= 0; r--) {
-    let v = workB[r];
-    for (let k = r + 1; k < m; k++) v -= work[r * m + k] * x[idx[k]];
-    x[idx[r]] = v / work[r * m + r];
-  }
+  if (!solveInPlace(work, workB, m, 1e-13)) return NaN;
+  for (let r = 0; r < m; r++) x[idx[r]] = workB[r];
   let bx = 0;
   for (let r = 0; r < m; r++) bx += scratchB[idx[r]] * x[idx[r]];
   for (let i = 0; i < p; i++) if (!use[i]) x[i] = 0;
