@@ -20,7 +20,7 @@
  * `systematicFieldRelSigma`; it widens `ci95Total_V_per_nm`, not the statistical `ci95_V_per_nm`.
  */
 import { resolveCrossingOptions, type CrossingOptions } from "./settings";
-import { invert, linearLeastSquares } from "./stats";
+import { invert, linearLeastSquares, median } from "./stats";
 
 export interface CrossingPoint {
   field_V_per_nm: number;
@@ -319,4 +319,21 @@ export function fitCrossing(points: CrossingPoint[], options?: Partial<CrossingO
     out.curve.hi.push(y + s);
   }
   return out;
+}
+
+/**
+ * Fit a sweep whose points carry their field estimate with its model uncertainty. That uncertainty
+ * (work functions, contact distance) is shared by every spectrum of a sweep, a scale error: it goes
+ * into `systematicFieldRelSigma` (the median relative σ of the points) and widens the total interval,
+ * rather than weighting points against each other. Used by the `sweep` command and the web app alike.
+ */
+export function fitSweep(
+  points: { field_V_per_nm: number; fieldSigma_V_per_nm: number | null; gap_eV: number; gapSigma_eV: number | null }[],
+  options?: Partial<CrossingOptions>,
+): CrossingFit {
+  const rel = points.filter((p) => p.field_V_per_nm !== 0 && p.fieldSigma_V_per_nm != null).map((p) => p.fieldSigma_V_per_nm! / Math.abs(p.field_V_per_nm));
+  return fitCrossing(
+    points.map((p) => ({ field_V_per_nm: p.field_V_per_nm, fieldSigma_V_per_nm: 0, gap_eV: p.gap_eV, gapSigma_eV: p.gapSigma_eV ?? 0 })),
+    { systematicFieldRelSigma: rel.length ? median(rel) : 0, ...options },
+  );
 }

@@ -39,6 +39,6 @@ export {
 export { pickGap, type GapPick, type PickInput } from "./edges";
 export { tunnellingDistance, decayConstant_per_nm, apparentBarrierHeight_eV, type TunnellingDistanceInput } from "./distance";
 export { estimateField, fieldAssumptions, type FieldEstimate } from "./field";
-export { fitCrossing, type CrossingPoint, type CrossingFit } from "./crossing";
+export { fitCrossing, fitSweep, type CrossingPoint, type CrossingFit } from "./crossing";
 export { makeSpectrum, makeSweep, modelDidv, sweepGap_eV, type SpectrumModel, type SyntheticSpectrum, type SweepModel, type SyntheticSweepPoint } from "./synthetic";
 export { spectrumToCsv, columnsToCsv } from "./write";

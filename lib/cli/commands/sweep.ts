@@ -3,7 +3,7 @@
  * Picks the gap of every spectrum, estimates distance and field from each setpoint, and fits the
  * critical field (V-shape against a monotonic line).
  */
-import { DEFAULT_FIELD_MODEL, estimateField, fieldAssumptions, fieldModelSchema, fitCrossing, median, type CrossingPoint, type FieldModel } from "../../spectra";
+import { DEFAULT_FIELD_MODEL, estimateField, fieldAssumptions, fieldModelSchema, fitSweep, type FieldModel } from "../../spectra";
 import type { Command } from "../io";
 import { CliUsageError } from "../io";
 import { analyseFiles, gapCells, loadSettings, noteOf, numberOption, parse, table, type Entry } from "../shared";
@@ -76,8 +76,7 @@ export const sweep: Command = {
     const settings = loadSettings(values.settings as string | undefined, {});
     const results = analyseFiles(positionals, settings);
     const entries: SweepEntry[] = [];
-    const points: CrossingPoint[] = [];
-    const rel: number[] = [];
+    const points: Parameters<typeof fitSweep>[0] = [];
     for (const r of results) {
       const e: SweepEntry = { ...r.entry, distance_nm: null, distanceSigma_nm: null, field_V_per_nm: null, fieldSigma_V_per_nm: null };
       if (r.spectrum && e.status !== "error") {
@@ -92,10 +91,7 @@ export const sweep: Command = {
             e.field_V_per_nm = f.field_V_per_nm;
             e.fieldSigma_V_per_nm = f.fieldSigma_V_per_nm;
             if (e.status === "ok" && r.pick && r.pick.gap_eV !== null) {
-              // The field model's uncertainty is shared by every spectrum (a scale error): it widens
-              // the total interval, not the point-to-point weights.
-              points.push({ field_V_per_nm: f.field_V_per_nm, fieldSigma_V_per_nm: 0, gap_eV: r.pick.gap_eV, gapSigma_eV: r.pick.uncertainty_eV ?? 0 });
-              if (f.field_V_per_nm !== 0) rel.push(f.fieldSigma_V_per_nm / Math.abs(f.field_V_per_nm));
+              points.push({ field_V_per_nm: f.field_V_per_nm, fieldSigma_V_per_nm: f.fieldSigma_V_per_nm, gap_eV: r.pick.gap_eV, gapSigma_eV: r.pick.uncertainty_eV });
             }
           } catch (err) {
             e.warnings = [...e.warnings, `no field estimate: ${(err as Error).message}`];
@@ -104,7 +100,7 @@ export const sweep: Command = {
       }
       entries.push(e);
     }
-    const c = fitCrossing(points, { systematicFieldRelSigma: rel.length ? median(rel) : 0 });
+    const c = fitSweep(points);
     const crossing = {
       state: c.state,
       found: c.found,

@@ -2,7 +2,7 @@ import "server-only";
 import { and, eq, isNotNull, sql } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { crossings, gapPicks, spectra, type Crossing } from "@/db/schema";
-import { fitCrossing, median, type CrossingFit, type CrossingPoint } from "@/lib/spectra";
+import { fitSweep, type CrossingFit } from "@/lib/spectra";
 import { afterRefit } from "../alerts/afterRefit";
 import { currentCrossing } from "../alerts/recordEvent";
 import { loadSampleAnalysis } from "./sampleModel";
@@ -13,16 +13,6 @@ export interface RefitResult {
   fit: CrossingFit;
 }
 
-/**
- * Points of a phase plot, turned into the fit's input. The field model's uncertainty (work
- * functions, contact distance) is common to every spectrum of a sample — a scale error — so it
- * widens the critical field's total interval rather than weighting points against each other.
- */
-export function crossingInput(rows: { field: number; fieldSigma: number | null; gap: number; gapSigma: number | null }[]) {
-  const points: CrossingPoint[] = rows.map((r) => ({ field_V_per_nm: r.field, fieldSigma_V_per_nm: 0, gap_eV: r.gap, gapSigma_eV: r.gapSigma ?? 0 }));
-  const rel = rows.filter((r) => r.field !== 0 && r.fieldSigma != null).map((r) => r.fieldSigma! / Math.abs(r.field));
-  return { points, options: { systematicFieldRelSigma: rel.length ? median(rel) : 0 } };
-}
 
 /**
  * Refits a sample's gap versus field over its included spectra and stores the result as its
@@ -47,8 +37,7 @@ async function fitAndStore(db: DbOrTx, sampleId: string): Promise<RefitResult> {
     .from(spectra)
     .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
     .where(and(eq(spectra.sampleId, sampleId), eq(gapPicks.excluded, false), eq(gapPicks.status, "ok"), isNotNull(spectra.fieldVPerNm), isNotNull(gapPicks.gapEv)));
-  const { points, options } = crossingInput(rows.map((r) => ({ field: r.field!, fieldSigma: r.fieldSigma, gap: r.gap!, gapSigma: r.gapSigma })));
-  const fit = fitCrossing(points, options);
+  const fit = fitSweep(rows.map((r) => ({ field_V_per_nm: r.field!, fieldSigma_V_per_nm: r.fieldSigma, gap_eV: r.gap!, gapSigma_eV: r.gapSigma })));
   const previous = await currentCrossing(db, sampleId);
   const ci = fit.ci95Total_V_per_nm ?? fit.ci95_V_per_nm;
   const [current] = await db

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { estimateField, fitCrossing, makeRng, makeSweep, pickGap, sweepGap_eV, type CrossingPoint } from "@/lib/spectra";
+import { estimateField, fitCrossing, fitSweep, makeRng, makeSweep, pickGap, sweepGap_eV, type CrossingPoint } from "@/lib/spectra";
 
 function vPoints(ec: number, a1: number, a2: number, fields: number[], sigma: number, seed: number): CrossingPoint[] {
   const rng = makeRng(seed);
@@ -74,6 +74,15 @@ describe("states", () => {
     const b = fitCrossing(pts, { systematicFieldRelSigma: 0.05 });
     expect(b.ci95_V_per_nm).toEqual(a.ci95_V_per_nm);
     expect(b.ci95Total_V_per_nm![1] - b.ci95Total_V_per_nm![0]).toBeGreaterThan(2 * 1.96 * 0.05 * 0.99);
+  });
+  it("fitSweep treats the points' common field-model σ (5%) as that systematic scale, not as weights", () => {
+    const pts = vPoints(1.0, 1.1, 0.9, grid(0.85, 1.15, 20), 0.005, 11);
+    const withSigma = pts.map((p) => ({ ...p, fieldSigma_V_per_nm: 0.05 * p.field_V_per_nm }));
+    const viaSweep = fitSweep(withSigma);
+    const direct = fitCrossing(pts, { systematicFieldRelSigma: 0.05 });
+    expect(viaSweep.field_V_per_nm).toBeCloseTo(direct.field_V_per_nm!, 12);
+    expect(viaSweep.ci95Total_V_per_nm![0]).toBeCloseTo(direct.ci95Total_V_per_nm![0], 12);
+    expect(viaSweep.ci95Total_V_per_nm![1]).toBeCloseTo(direct.ci95Total_V_per_nm![1], 12);
   });
 });
 
