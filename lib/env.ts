@@ -45,7 +45,3 @@ export function env(): Env {
   return cached;
 }
 
-/** For tests that change the environment between cases. */
-export function resetEnvCache(): void {
-  cached = undefined;
-}

@@ -10,7 +10,3 @@ export function formatField(v: number | null | undefined, sigma?: number | null)
   return sigma != null && Number.isFinite(sigma) ? `${v.toFixed(2)} ± ${sigma.toFixed(2)} V/nm` : `${v.toFixed(2)} V/nm`;
 }
 
-export function formatInterval(ci: [number, number] | null | undefined): string {
-  if (!ci) return "—";
-  return `[${ci[0].toFixed(2)}, ${ci[1].toFixed(2)}] V/nm`;
-}

@@ -9,8 +9,6 @@ import { isServiceError } from "@/lib/services/errors";
 import type { ActionState } from "./types";
 export type { ActionState };
 
-export const initialActionState: ActionState = { ok: false };
-
 /** The service context for the signed-in user in a lab; a visitor who is not signed in is sent to sign-in. */
 export async function labCtx(labSlug: string): Promise<Ctx> {
   const session = await auth();

@@ -43,10 +43,6 @@ export async function presignPut(key: string, size: number): Promise<{ url: stri
   return { url, headers: { "content-type": "application/octet-stream" }, expiresInSeconds: PRESIGN_SECONDS };
 }
 
-export async function presignGet(key: string, fileName: string): Promise<string> {
-  const command = new GetObjectCommand({ Bucket: env().S3_BUCKET, Key: key, ResponseContentDisposition: `attachment; filename="${fileName.replace(/["\\\r\n]/g, "_")}"` });
-  return getSignedUrl(clients().presign, command, { expiresIn: PRESIGN_SECONDS });
-}
 
 /** Size of a stored object, or null when it is not there. */
 export async function objectSize(key: string): Promise<number | null> {
@@ -66,6 +62,3 @@ export async function getObjectBytes(key: string): Promise<Uint8Array> {
   return res.Body.transformToByteArray();
 }
 
-export async function putObjectBytes(key: string, bytes: Uint8Array): Promise<void> {
-  await clients().internal.send(new PutObjectCommand({ Bucket: env().S3_BUCKET, Key: key, Body: bytes, ContentType: "application/octet-stream" }));
-}

@@ -1,4 +1,5 @@
-import { estimateField, pickGap, type ExtractionSettings, type FieldModel, type GapPick, type SpectrumMeta } from "@/lib/spectra";
+import type { Spectrum } from "@/db/schema";
+import { estimateField, type FieldModel, type GapPick, type SpectrumMeta } from "@/lib/spectra";
 
 export interface FieldValues {
   distanceNm: number | null;
@@ -40,6 +41,14 @@ export function pickColumns(pick: GapPick, settingsVersionId: string) {
   };
 }
 
-export function autoPick(s: { bias_V: Float64Array; didv: Float64Array; meta: Partial<SpectrumMeta> }, settings: ExtractionSettings): GapPick {
-  return pickGap(s, settings);
+
+/** The analysis metadata of a stored spectrum; its session's temperature stands in when the file had none. */
+export function metaOfRow(s: Pick<Spectrum, "setpointBiasV" | "setpointCurrentA" | "zOffsetPm" | "lockinModulationMvRms" | "temperatureK">, sessionTemperatureK: number | null | undefined): Partial<SpectrumMeta> {
+  return {
+    setpoint_bias_V: s.setpointBiasV ?? undefined,
+    setpoint_current_A: s.setpointCurrentA ?? undefined,
+    z_offset_pm: s.zOffsetPm ?? undefined,
+    lockin_modulation_mV_rms: s.lockinModulationMvRms ?? undefined,
+    temperature_K: s.temperatureK ?? sessionTemperatureK ?? undefined,
+  };
 }

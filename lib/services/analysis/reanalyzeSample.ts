@@ -2,7 +2,8 @@ import "server-only";
 import { and, asc, eq, gt, inArray, sql } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { analysisRuns, gapPicks, measurementSessions, spectra, tips } from "@/db/schema";
-import { autoPick, fieldFor, pickColumns } from "./analyzeSpectrum";
+import { pickGap } from "@/lib/spectra";
+import { fieldFor, metaOfRow, pickColumns } from "./analyzeSpectrum";
 import { refitSample, type RefitResult } from "./refitSample";
 import { loadSampleAnalysis } from "./sampleModel";
 
@@ -41,17 +42,11 @@ export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; run
     if (latest.settingsVersion.id !== analysis.settingsVersion.id || latest.fieldVersion.id !== analysis.fieldVersion.id) return "superseded";
     await db.transaction(async (tx) => {
       for (const { s, pickId, source } of rows) {
-        const meta = {
-          setpoint_bias_V: s.setpointBiasV ?? undefined,
-          setpoint_current_A: s.setpointCurrentA ?? undefined,
-          z_offset_pm: s.zOffsetPm ?? undefined,
-          lockin_modulation_mV_rms: s.lockinModulationMvRms ?? undefined,
-          temperature_K: s.temperatureK ?? sessionT.get(s.sessionId) ?? undefined,
-        };
+        const meta = metaOfRow(s, sessionT.get(s.sessionId));
         const field = fieldFor(analysis.modelFor(s.tipId ? (tipById.get(s.tipId) ?? null) : null), meta);
         const { warning: _w, ...fieldCols } = field;
         await tx.update(spectra).set({ ...fieldCols, fieldModelVersionId: analysis.fieldVersion.id, updatedAt: new Date() }).where(eq(spectra.id, s.id));
-        const pick = autoPick({ bias_V: s.biasV, didv: s.didv, meta }, analysis.settings);
+        const pick = pickGap({ bias_V: s.biasV, didv: s.didv, meta }, analysis.settings);
         const cols = pickColumns(pick, analysis.settingsVersion.id);
         if (source === "auto") {
           await tx.update(gapPicks).set({ ...cols, version: sql`${gapPicks.version} + 1`, updatedAt: new Date() }).where(eq(gapPicks.id, pickId));

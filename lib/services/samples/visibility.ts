@@ -1,5 +1,5 @@
 import "server-only";
-import { and, eq, exists, inArray, type SQL } from "drizzle-orm";
+import { and, eq, inArray, type SQL } from "drizzle-orm";
 import { sampleAccess, samples } from "@/db/schema";
 import type { Ctx } from "../context";
 
@@ -17,5 +17,3 @@ export async function sampleVisibility(ctx: Ctx): Promise<SQL> {
   if (granted.length === 0) return inLab;
   return and(inLab, inArray(samples.id, granted.map((g) => g.sampleId)))!;
 }
-
-export { exists };

@@ -3,6 +3,7 @@ import { and, asc, desc, eq, ilike, isNull, or, sql, type SQL } from "drizzle-or
 import { crossings, extractionSettingsVersions, fieldModelVersions, gapPicks, measurementSessions, samples, spectra, tips, uploads } from "@/db/schema";
 import { assertCan } from "@/lib/auth/permissions";
 import { pickGap, resolveExtractionSettings } from "@/lib/spectra";
+import { metaOfRow } from "../analysis/analyzeSpectrum";
 import type { SpectraQuery } from "@/lib/schemas/uploads";
 import type { Ctx } from "../context";
 import { notFound } from "../errors";
@@ -90,12 +91,7 @@ async function analysisOf(ctx: Ctx, s: typeof spectra.$inferSelect, settingsVers
   const [sv] = settingsVersionId ? await ctx.db.select().from(extractionSettingsVersions).where(eq(extractionSettingsVersions.id, settingsVersionId)) : [];
   const [session] = await ctx.db.select({ t: measurementSessions.temperatureK }).from(measurementSessions).where(eq(measurementSessions.id, s.sessionId));
   const settings = resolveExtractionSettings((sv?.settings ?? {}) as never);
-  const meta = {
-    setpoint_bias_V: s.setpointBiasV ?? undefined,
-    setpoint_current_A: s.setpointCurrentA ?? undefined,
-    lockin_modulation_mV_rms: s.lockinModulationMvRms ?? undefined,
-    temperature_K: s.temperatureK ?? session?.t ?? undefined,
-  };
+  const meta = metaOfRow(s, session?.t);
   const pick = pickGap({ bias_V: s.biasV, didv: s.didv, meta }, settings);
   return {
     smoothed: Array.from(pick.smoothed),

@@ -55,9 +55,3 @@ export async function tagSpectra({ ctx, input }: { ctx: Ctx; input: unknown }) {
   return { updated: rows.length, refits };
 }
 
-/** For the session page: which tips can be chosen when tagging. */
-export async function sessionTagOptions({ ctx, input }: { ctx: Ctx; input: { sessionId: string } }) {
-  const [s] = await ctx.db.select().from(measurementSessions).where(and(eq(measurementSessions.id, input.sessionId), eq(measurementSessions.labId, ctx.actor.labId)));
-  if (!s) throw notFound("session");
-  return ctx.db.select({ id: tips.id, label: tips.label }).from(tips).where(eq(tips.labId, ctx.actor.labId));
-}

@@ -3,9 +3,9 @@ import { eq, inArray } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { gapPicks, measurementSessions, spectra, tips, uploads } from "@/db/schema";
 import { sha256Hex } from "@/lib/auth/secrets";
-import { importSpectra, type ParsedSpectrum } from "@/lib/spectra";
+import { importSpectra, pickGap, type ParsedSpectrum } from "@/lib/spectra";
 import { getObjectBytes } from "@/lib/storage/s3";
-import { autoPick, fieldFor, pickColumns } from "../analysis/analyzeSpectrum";
+import { fieldFor, pickColumns } from "../analysis/analyzeSpectrum";
 import { refitSample, type RefitResult } from "../analysis/refitSample";
 import { loadSampleAnalysis } from "../analysis/sampleModel";
 
@@ -52,7 +52,7 @@ export async function processUpload(db: DbOrTx, uploadId: string, hooks: { after
   const all: ParsedSpectrum[] = good.flatMap((f) => f.spectra);
   const prepared = all.map((s) => {
     const meta = { ...s.meta, temperature_K: s.meta.temperature_K ?? session.temperatureK ?? undefined };
-    const pick = autoPick({ bias_V: s.bias_V, didv: s.didv, meta }, analysis.settings);
+    const pick = pickGap({ bias_V: s.bias_V, didv: s.didv, meta }, analysis.settings);
     const field = fieldFor(model, meta);
     const spectrumWarnings = [...s.warnings, ...pick.warnings, ...(field.warning ? [field.warning] : [])];
     return { s, meta, pick, field, spectrumWarnings };
