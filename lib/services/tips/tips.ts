@@ -1,6 +1,6 @@
 import "server-only";
 import { and, asc, eq } from "drizzle-orm";
-import { spectra, tips } from "@/db/schema";
+import { measurementSessions, spectra, tips } from "@/db/schema";
 import { assertCan } from "@/lib/auth/permissions";
 import { tipInput } from "@/lib/schemas/lab";
 import { recordAudit } from "../audit";
@@ -74,4 +74,15 @@ export async function updateTip({ ctx, input }: { ctx: Ctx; input: { id: string;
     if (isUniqueViolation(e)) throw conflict(`A tip labelled "${data.label}" already exists in this lab.`);
     throw e;
   }
+}
+
+/** The tips a sample was measured with (through its sessions), for the field model's assumptions. */
+export async function tipsOfSample({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }) {
+  assertCan(ctx.actor, "lab:read");
+  return ctx.db
+    .selectDistinct({ id: tips.id, label: tips.label, workFunctionEv: tips.workFunctionEv, workFunctionSigmaEv: tips.workFunctionSigmaEv })
+    .from(tips)
+    .innerJoin(measurementSessions, eq(measurementSessions.tipId, tips.id))
+    .where(and(eq(measurementSessions.sampleId, input.sampleId), eq(tips.labId, ctx.actor.labId)))
+    .orderBy(asc(tips.label));
 }

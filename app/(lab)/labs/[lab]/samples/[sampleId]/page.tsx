@@ -1,4 +1,3 @@
-import { and, eq, inArray } from "drizzle-orm";
 import Link from "next/link";
 import { CrossingTimeline } from "@/components/alerts/crossing-timeline";
 import { WatchToggle } from "@/components/alerts/watch-toggle";
@@ -7,7 +6,6 @@ import { PhasePlot } from "@/components/review/phase-plot";
 import { SettingsEditors } from "@/components/review/settings-editors";
 import { ButtonLink } from "@/components/ui/button";
 import { Card, EmptyState, PageHeader } from "@/components/ui/card";
-import { tips } from "@/db/schema";
 import { orNotFound, pageCtx } from "@/lib/actions/validated";
 import { can } from "@/lib/auth/permissions";
 import { fieldAssumptions } from "@/lib/spectra";
@@ -15,6 +13,7 @@ import { loadSampleAnalysis } from "@/lib/services/analysis/sampleModel";
 import { getSampleVersions } from "@/lib/services/analysis/versions";
 import { getSample } from "@/lib/services/samples/getSample";
 import { listSessions } from "@/lib/services/sessions/sessions";
+import { tipsOfSample } from "@/lib/services/tips/tips";
 import { getPhaseJson } from "@/lib/services/spectra/phaseCache";
 import type { PhaseData } from "@/components/review/phase-plot";
 import { getGapMap } from "@/lib/services/spectra/gapMap";
@@ -24,17 +23,15 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
   const { lab, sampleId } = await params;
   const ctx = await pageCtx(lab);
   const s = await orNotFound(getSample({ ctx, input: { id: sampleId } }));
-  const [sessions, phase, versions, analysis, map] = await Promise.all([
+  const [sessions, phase, versions, analysis, map, usedTips] = await Promise.all([
     listSessions({ ctx, input: { sampleId: s.id } }),
     // The same cached JSON the phase endpoint serves (a 5,000-spectrum sample is built once, not per visit).
     getPhaseJson({ ctx, input: { sampleId: s.id } }).then((r) => JSON.parse(r.body!) as PhaseData),
     getSampleVersions({ ctx, input: { sampleId: s.id } }),
     loadSampleAnalysis(ctx.db, s.id),
     getGapMap({ ctx, input: { sampleId: s.id } }),
+    tipsOfSample({ ctx, input: { sampleId: s.id } }),
   ]);
-  // The tips this sample was measured with, for the field model's assumptions.
-  const tipIds = [...new Set(sessions.map((x) => x.tipId).filter((t): t is string => Boolean(t)))];
-  const usedTips = tipIds.length ? await ctx.db.select().from(tips).where(and(eq(tips.labId, ctx.actor.labId), inArray(tips.id, tipIds))) : [];
   const model = analysis.modelFor(usedTips[0] ?? null);
   const included = phase.points.filter((p) => !p.excluded).length;
   return (
