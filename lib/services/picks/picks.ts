@@ -9,7 +9,8 @@ import { recordAudit } from "../audit";
 import type { Ctx } from "../context";
 import { conflict, invalid, notFound } from "../errors";
 import { parseInput } from "../parse";
-import { getSample, isUuid } from "../samples/getSample";
+import { isUuid } from "../samples/getSample";
+import { assertSampleVisible } from "../samples/visibility";
 
 /** What a history entry records of a pick, before and after a change. */
 function snapshot(p: GapPickRow) {
@@ -158,9 +159,7 @@ export async function pickHistoryOf({ ctx, input }: { ctx: Ctx; input: { spectru
   if (!isUuid(input.spectrumId)) throw notFound("spectrum");
   const [s] = await ctx.db.select({ sampleId: spectra.sampleId }).from(spectra).where(and(eq(spectra.id, input.spectrumId), eq(spectra.labId, ctx.actor.labId)));
   if (!s) throw notFound("spectrum");
-  await getSample({ ctx, input: { id: s.sampleId } }).catch(() => {
-    throw notFound("spectrum");
-  });
+  await assertSampleVisible(ctx, s.sampleId, "spectrum");
   return ctx.db
     .select({ id: pickHistory.id, action: pickHistory.action, before: pickHistory.before, after: pickHistory.after, reason: pickHistory.reason, at: pickHistory.createdAt, actorName: users.name })
     .from(pickHistory)

@@ -1,6 +1,7 @@
 import "server-only";
 import { and, eq, inArray, type SQL } from "drizzle-orm";
 import { sampleAccess, samples } from "@/db/schema";
+import { notFound } from "../errors";
 import type { Ctx } from "../context";
 
 /**
@@ -16,4 +17,13 @@ export async function sampleVisibility(ctx: Ctx): Promise<SQL> {
     .where(and(eq(sampleAccess.labId, ctx.actor.labId), eq(sampleAccess.userId, ctx.actor.userId)));
   if (granted.length === 0) return inLab;
   return and(inLab, inArray(samples.id, granted.map((g) => g.sampleId)))!;
+}
+
+/**
+ * A child record (upload, spectrum, session) is visible only if its sample is: a collaborator
+ * limited to other samples gets "not found" for it, named after the child.
+ */
+export async function assertSampleVisible(ctx: Ctx, sampleId: string, what: string): Promise<void> {
+  const [row] = await ctx.db.select({ id: samples.id }).from(samples).where(and(eq(samples.id, sampleId), await sampleVisibility(ctx)));
+  if (!row) throw notFound(what);
 }

@@ -8,7 +8,7 @@ import type { SpectraQuery } from "@/lib/schemas/uploads";
 import type { Ctx } from "../context";
 import { notFound } from "../errors";
 import { getSample, isUuid } from "../samples/getSample";
-import { sampleVisibility } from "../samples/visibility";
+import { assertSampleVisible, sampleVisibility } from "../samples/visibility";
 
 /** One spectrum with everything needed to trust its numbers: arrays, metadata, pick, field, versions, raw-file hash. */
 export async function getSpectrum({ ctx, input }: { ctx: Ctx; input: { id: string } }) {
@@ -222,9 +222,7 @@ export async function listSessionSpectra({ ctx, input }: { ctx: Ctx; input: { se
   if (!isUuid(input.sessionId)) throw notFound("session");
   const [session] = await ctx.db.select({ id: measurementSessions.id, sampleId: measurementSessions.sampleId }).from(measurementSessions).where(and(eq(measurementSessions.id, input.sessionId), eq(measurementSessions.labId, ctx.actor.labId)));
   if (!session) throw notFound("session");
-  await getSample({ ctx, input: { id: session.sampleId } }).catch(() => {
-    throw notFound("session");
-  });
+  await assertSampleVisible(ctx, session.sampleId, "session");
   const q = input.query;
   const filters: (SQL | undefined)[] = [eq(spectra.sessionId, session.id)];
   if (q.q) filters.push(or(ilike(spectra.sourceName, `%${q.q}%`), ilike(spectra.label, `%${q.q}%`), ilike(spectra.region, `%${q.q}%`)));

@@ -7,7 +7,8 @@ import { objectSize } from "@/lib/storage/s3";
 import { recordAudit } from "../audit";
 import type { Ctx } from "../context";
 import { conflict, invalid, notFound } from "../errors";
-import { getSample, isUuid } from "../samples/getSample";
+import { isUuid } from "../samples/getSample";
+import { assertSampleVisible } from "../samples/visibility";
 import { getSession } from "../sessions/sessions";
 
 /** An upload of the actor's lab, whose session's sample the actor may see (collaborators may be limited to chosen samples). */
@@ -19,9 +20,7 @@ async function loadUpload(ctx: Ctx, id: string) {
     .innerJoin(measurementSessions, eq(measurementSessions.id, uploads.sessionId))
     .where(and(eq(uploads.id, id), eq(uploads.labId, ctx.actor.labId)));
   if (!row) throw notFound("upload");
-  await getSample({ ctx, input: { id: row.sampleId } }).catch(() => {
-    throw notFound("upload");
-  });
+  await assertSampleVisible(ctx, row.sampleId, "upload");
   return row.u;
 }
 
