@@ -40,6 +40,21 @@ async function fitAndStore(db: DbOrTx, sampleId: string): Promise<RefitResult> {
   const fit = fitSweep(rows.map((r) => ({ field_V_per_nm: r.field!, fieldSigma_V_per_nm: r.fieldSigma, gap_eV: r.gap!, gapSigma_eV: r.gapSigma })));
   const previous = await currentCrossing(db, sampleId);
   const ci = fit.ci95Total_V_per_nm ?? fit.ci95_V_per_nm;
+  // A refit that changes nothing (a failed file, a tag that moves no point) keeps the current row:
+  // the history of crossings records changes, not every time someone asked.
+  if (
+    previous &&
+    previous.state === fit.state &&
+    previous.nPoints === fit.n &&
+    previous.fieldVPerNm === fit.field_V_per_nm &&
+    previous.ci95LoVPerNm === (ci?.[0] ?? null) &&
+    previous.ci95HiVPerNm === (ci?.[1] ?? null) &&
+    previous.extrapolatedVPerNm === fit.extrapolated_V_per_nm &&
+    previous.settingsVersionId === analysis.settingsVersion.id &&
+    previous.fieldModelVersionId === analysis.fieldVersion.id
+  ) {
+    return { previous, current: previous, fit };
+  }
   const [current] = await db
     .insert(crossings)
     .values({
