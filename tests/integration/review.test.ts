@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
-import { gapPicks, spectra } from "@/db/schema";
+import { crossings, gapPicks, spectra } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
 import { methodsText, phaseCsv } from "@/lib/services/exports/exportSample";
 import { correctPick, pickHistoryOf, setExcluded, undoPickChange } from "@/lib/services/picks/picks";
@@ -98,6 +98,18 @@ describe("correcting band edges", () => {
     expect((await rejection(correctPick({ ctx: lab.ctx("microscopist"), input: { spectrumId: ids[7], body } }))).status).toBe(403);
     expect((await rejection(correctPick({ ctx: other.ctx("owner"), input: { spectrumId: ids[7], body } }))).status).toBe(404);
     expect((await rejection(setExcluded({ ctx: other.ctx("owner"), input: { spectrumId: ids[7], body: { excluded: true, reason: "x x x", version: 1 } } }))).status).toBe(404);
+  });
+});
+
+describe("refits", () => {
+  it("a refit that changes nothing adds no crossing row; one that moves a point does", async () => {
+    const count = async () => (await db().select({ id: crossings.id }).from(crossings).where(eq(crossings.sampleId, sampleId))).length;
+    const n0 = await count();
+    await tagSpectra({ ctx: lab.ctx("owner"), input: { ids: [ids[8]], patch: { region: "terrace C" } } });
+    expect(await count()).toBe(n0);
+    const s = await getSpectrum({ ctx: lab.ctx("owner"), input: { id: ids[8] } });
+    await correctPick({ ctx: lab.ctx("analyst"), input: { spectrumId: ids[8], body: { vbEdge_V: s.pick!.vbEdge_V! - 0.004, cbEdge_V: s.pick!.cbEdge_V!, reason: "moves one point", version: s.pick!.version } } });
+    expect(await count()).toBe(n0 + 1);
   });
 });
 
