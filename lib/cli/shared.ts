@@ -63,6 +63,24 @@ export function numberOption(v: unknown, name: string): number | undefined {
   return x;
 }
 
+/** The extraction options both analysing commands take (analyze, sweep). */
+export const extractionOptions = {
+  json: { type: "boolean" },
+  settings: { type: "string" },
+  "threshold-k": { type: "string" },
+  "no-fit": { type: "boolean" },
+  help: { type: "boolean", short: "h" },
+} as const;
+
+/** Extraction settings from --settings, --threshold-k and --no-fit over the defaults. */
+export function settingsFromOptions(values: ParsedArgs["values"]): ExtractionSettings {
+  const k = numberOption(values["threshold-k"], "threshold-k");
+  const overrides: Record<string, unknown> = {};
+  if (k !== undefined) overrides.threshold = { k };
+  if (values["no-fit"]) overrides.fit = { enabled: false };
+  return loadSettings(values.settings as string | undefined, overrides);
+}
+
 export function loadSettings(path: string | undefined, overrides: Record<string, unknown>): ExtractionSettings {
   let base: unknown = {};
   if (path) {

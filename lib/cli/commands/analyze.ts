@@ -4,7 +4,7 @@
  */
 import type { Command } from "../io";
 import { CliUsageError } from "../io";
-import { analyseFiles, gapCells, loadSettings, noteOf, numberOption, parse, table } from "../shared";
+import { analyseFiles, extractionOptions, gapCells, noteOf, parse, settingsFromOptions, table } from "../shared";
 
 const usage = `usage: bandcross analyze FILE... [--json] [--settings FILE] [--threshold-k K] [--no-fit]
   FILE            a spectrum file (csv/tsv/txt, JSON) or a zip of them; a directory is read recursively
@@ -19,23 +19,13 @@ export const analyze: Command = {
   summary: "pick band edges and gaps in spectrum files",
   usage,
   async run(argv, io) {
-    const { values, positionals } = parse(argv, {
-      json: { type: "boolean" },
-      settings: { type: "string" },
-      "threshold-k": { type: "string" },
-      "no-fit": { type: "boolean" },
-      help: { type: "boolean", short: "h" },
-    });
+    const { values, positionals } = parse(argv, extractionOptions);
     if (values.help) {
       io.out(usage + "\n");
       return 0;
     }
     if (positionals.length === 0) throw new CliUsageError("no files given");
-    const k = numberOption(values["threshold-k"], "threshold-k");
-    const overrides: Record<string, unknown> = {};
-    if (k !== undefined) overrides.threshold = { k };
-    if (values["no-fit"]) overrides.fit = { enabled: false };
-    const settings = loadSettings(values.settings as string | undefined, overrides);
+    const settings = settingsFromOptions(values);
     const results = analyseFiles(positionals, settings);
     const failed = results.some((r) => r.entry.status === "error");
     if (values.json) {

@@ -6,7 +6,7 @@
 import { DEFAULT_FIELD_MODEL, estimateField, fieldAssumptions, fieldModelSchema, fitSweep, type FieldModel } from "../../spectra";
 import type { Command } from "../io";
 import { CliUsageError } from "../io";
-import { analyseFiles, gapCells, loadSettings, noteOf, numberOption, parse, table, type Entry } from "../shared";
+import { analyseFiles, extractionOptions, gapCells, noteOf, numberOption, parse, settingsFromOptions, table, type Entry } from "../shared";
 
 const usage = `usage: bandcross sweep FILE... --tip-work-function EV --sample-work-function EV [options]
   --tip-work-function EV          tip work function Φ_tip (required)
@@ -18,7 +18,9 @@ const usage = `usage: bandcross sweep FILE... --tip-work-function EV --sample-wo
   --barrier-height EV             measured apparent barrier height (default: mean of the work functions)
   --screening S                   divide the field by S ≥ 1 (default 1, none)
   --json                          print JSON instead of tables
-  --settings F                    extraction settings as JSON
+  --settings F                    extraction settings as JSON (partial; the rest are defaults)
+  --threshold-k K                 threshold multiplier k (edge at floor + k·σ)
+  --no-fit                        threshold edges without the broadening-aware fit
 exit status: 0 when every file was read, 1 when any was rejected, 2 for a usage error`;
 
 interface SweepEntry extends Entry {
@@ -34,8 +36,7 @@ export const sweep: Command = {
   usage,
   async run(argv, io) {
     const { values, positionals } = parse(argv, {
-      json: { type: "boolean" },
-      settings: { type: "string" },
+      ...extractionOptions,
       "tip-work-function": { type: "string" },
       "sample-work-function": { type: "string" },
       "contact-distance": { type: "string" },
@@ -44,7 +45,6 @@ export const sweep: Command = {
       "contact-distance-sigma": { type: "string" },
       "barrier-height": { type: "string" },
       screening: { type: "string" },
-      help: { type: "boolean", short: "h" },
     });
     if (values.help) {
       io.out(usage + "\n");
@@ -73,7 +73,7 @@ export const sweep: Command = {
       throw new CliUsageError(`invalid field model: ${iss.path.join(".")}: ${iss.message}`);
     }
     const model: FieldModel = parsed.data;
-    const settings = loadSettings(values.settings as string | undefined, {});
+    const settings = settingsFromOptions(values);
     const results = analyseFiles(positionals, settings);
     const entries: SweepEntry[] = [];
     const points: Parameters<typeof fitSweep>[0] = [];
