@@ -5,7 +5,7 @@
 import { z } from "zod";
 import type { ImportLimits } from "./import/types";
 
-const positive = z.number().finite().positive();
+const positive = z.number({ error: "must be a number" }).finite().positive("must be above zero");
 
 /** Freeze an object and everything inside it, so that a shared default cannot be changed by accident. */
 function deepFreeze<T>(o: T): T {
@@ -15,7 +15,7 @@ function deepFreeze<T>(o: T): T {
   }
   return o;
 }
-const nonNegative = z.number().finite().nonnegative();
+const nonNegative = z.number({ error: "must be a number" }).finite().nonnegative("cannot be negative");
 
 export const extractionSettingsSchema = z.object({
   smoothing: z.object({
