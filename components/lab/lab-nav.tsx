@@ -4,6 +4,7 @@ import Link from "next/link";
 import { usePathname } from "next/navigation";
 import { useEffect, useState } from "react";
 import { BrandMark } from "@/components/brand";
+import { loadPlotly } from "@/components/plots/plotly-script";
 import type { MemberRole } from "@/db/schema/auth";
 
 const ROLE_LABEL: Record<MemberRole, string> = { owner: "Owner", microscopist: "Microscopist", analyst: "Analyst", collaborator: "Collaborator" };
@@ -28,7 +29,7 @@ export function LabNav({
   // Most visits lead to a plot: fetch and compile the plotting library while the browser is idle,
   // so the first phase plot or spectrum of a visit does not wait for it.
   useEffect(() => {
-    const load = () => void import("plotly.js-dist-min");
+    const load = () => void loadPlotly().catch(() => {}); // a page that plots reports its own failure
     if ("requestIdleCallback" in window) {
       const id = window.requestIdleCallback(load, { timeout: 3000 });
       return () => window.cancelIdleCallback(id);

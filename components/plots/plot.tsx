@@ -1,23 +1,36 @@
 "use client";
 
 import dynamic from "next/dynamic";
+import { preinit } from "react-dom";
 import type { PlotParams } from "react-plotly.js/factory";
+import { loadPlotly, PLOTLY_SRC } from "./plotly-script";
 
 /**
- * Plotly, loaded in the browser only and only on pages that plot (the bundle is large). Built with
- * the factory from the minified distribution so the full source build is never installed.
+ * Plotly in the browser only, built with react-plotly's factory around the global from the
+ * versioned static script (`plotly-script.ts`), so the bundler never carries the library.
  */
-// Start fetching the (large) Plotly bundle as soon as a page that plots is loaded, in parallel with
-// its data, rather than when the plot first renders.
-const plotlyModules = typeof window === "undefined" ? null : Promise.all([import("react-plotly.js/factory"), import("plotly.js-dist-min")]);
-
-export const Plot = dynamic<PlotParams>(
+const LazyPlot = dynamic<PlotParams>(
   async () => {
-    const [{ default: createPlotlyComponent }, Plotly] = await (plotlyModules ?? Promise.all([import("react-plotly.js/factory"), import("plotly.js-dist-min")]));
-    return createPlotlyComponent((Plotly as { default?: unknown }).default ?? Plotly) as React.ComponentType<PlotParams>;
+    const [{ default: createPlotlyComponent }, Plotly] = await Promise.all([import("react-plotly.js/factory"), loadPlotly()]);
+    return createPlotlyComponent(Plotly) as React.ComponentType<PlotParams>;
   },
   { ssr: false, loading: () => <div className="h-full min-h-64 w-full animate-pulse rounded-lg bg-line/50" aria-label="Loading the plot" /> },
 );
+
+/**
+ * WebGL traces draw into canvases of (plot size × this ratio); Plotly's default of 2 quadruples the
+ * pixels on an ordinary screen, and creating and clearing those buffers was half of a 5,000-point
+ * phase plot's first draw in chromium without a GPU. The screen's own ratio, between 1 and 2.
+ */
+export function glPixelRatio(): number {
+  return typeof window === "undefined" ? 1 : Math.min(2, Math.max(1, window.devicePixelRatio || 1));
+}
+
+/** A Plotly figure; rendering it (on the server too) names the library's script in the page head. */
+export function Plot(props: PlotParams) {
+  preinit(PLOTLY_SRC, { as: "script", fetchPriority: "high" });
+  return <LazyPlot {...props} config={{ plotGlPixelRatio: glPixelRatio(), ...(props.config as Record<string, unknown> | undefined) }} />;
+}
 
 /** The product's plot look: our fonts, paper background, quiet grid. */
 export const PLOT_FONT = { family: "var(--font-plex-sans), ui-sans-serif, system-ui, sans-serif", size: 12, color: "#1c2430" };

@@ -4,6 +4,7 @@ import { useQuery } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useMemo, useRef, useState } from "react";
 import { axis, baseLayout, COLORS, Plot } from "@/components/plots/plot";
+import { loadPlotly } from "@/components/plots/plotly-script";
 import { api } from "@/lib/api-client";
 import { queryKeys } from "@/lib/query-keys";
 import type { getPhase } from "@/lib/services/spectra/readSpectra";
@@ -16,6 +17,9 @@ const X_AXIS: Record<XMode, { title: string; type?: "log"; of: (p: PhaseData["po
   distance: { title: "estimated tip–sample distance d (nm)", of: (p) => p.distance_nm },
   conductance: { title: "setpoint conductance |I/V| (S)", type: "log", of: (p) => p.setpointConductance_S },
 };
+
+/** Figures written to files: the product's face where it is installed, else a plain sans-serif. */
+const EXPORT_FONT_FAMILY = '"IBM Plex Sans", "Helvetica Neue", Arial, sans-serif';
 
 /** Above this many points the markers are drawn with WebGL. */
 const WEBGL_FROM = 1500;
@@ -34,8 +38,20 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
   const graph = useRef<HTMLElement | null>(null);
   const download = async (format: "png" | "svg") => {
     if (!graph.current) return;
-    const Plotly = (await import("plotly.js-dist-min")).default;
-    await Plotly.downloadImage(graph.current, { format, filename: `${data.sample.name.replace(/[^A-Za-z0-9-]+/g, "-")}-phase`, width: 1200, height: 800, scale: format === "png" ? 2 : 1 });
+    const Plotly = await loadPlotly();
+    const gd = graph.current as unknown as { data: Plotly.Data[]; layout: Partial<Plotly.Layout> };
+    // Drawn afresh for the file: the WebGL layer at twice the figure size (the PNG is written at 2×),
+    // whatever the screen ratio the on-screen plot uses.
+    const scale = format === "png" ? 2 : 1;
+    // A named font family: the page's CSS variable means nothing inside an image or a file.
+    const layout = { ...gd.layout, font: { ...gd.layout.font, family: EXPORT_FONT_FAMILY } };
+    await Plotly.downloadImage({ data: gd.data, layout, config: { plotGlPixelRatio: 2 } } as unknown as HTMLElement, {
+      format,
+      filename: `${data.sample.name.replace(/[^A-Za-z0-9-]+/g, "-")}-phase`,
+      width: 1200,
+      height: 800,
+      scale,
+    });
   };
   const { data = initial, isFetching, isError, refetch } = useQuery({
     queryKey: queryKeys.phase(sampleId),

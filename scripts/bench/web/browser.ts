@@ -4,9 +4,9 @@
  * 1. Phase plot: the sample page carries the phase data in its server-rendered response, so the
  *    data has arrived when the document's response has ended (navigation responseEnd; a later
  *    `/phase` response, if the page fetched one, would count instead). Measured from there to the
- *    plot's first `plotly_afterplot` (Plotly's "drawn and interactive" event), with the Plotly
- *    chunk's arrival and the plotting call's start on the way. Three loads; the goal (≤ 1 s) is
- *    judged on the slowest.
+ *    plot's first `plotly_afterplot` (Plotly's "drawn and interactive" event), with the plotting
+ *    library's arrival and the plotting call's start on the way. Three loads in one fresh browser
+ *    profile: the first visit and two returning ones; the goal (≤ 1 s) is judged on each kind.
  * 2. Review: ArrowRight on /labs/{lab}/spectra/{id}, timed in the page from the key event to the
  *    change of the position text ("n of N"), 20 moves, median (goal < 100 ms). Between moves the
  *    page is left to settle (its prefetch of the next spectrum), as an analyst looks at each one.
@@ -74,13 +74,17 @@ export async function run() {
     const sampleUrl = `${appUrl}/labs/${lab.slug}/samples/${s.sampleId}`;
     const loads = [];
     for (let i = 0; i < 3; i++) loads.push(await phaseLoad(page, sampleUrl));
-    line(`phase plot of ${loads[0].points} points (WebGL markers), sample page loaded 3 times:`);
+    line(`phase plot of ${loads[0].points} points (WebGL markers), sample page loaded 3 times in one fresh browser profile:`);
     loads.forEach((l, i) =>
       line(
-        `  load ${i + 1}: data in at ${l.dataAt.toFixed(0)} ms, Plotly chunk (${l.plotlyChunkKB.toFixed(0)} KB) at ${l.plotlyChunkAt.toFixed(0)} ms, plotting from ${l.start.toFixed(0)} ms, first plotly_afterplot at ${l.afterplot.toFixed(0)} ms → ${(l.afterplot - l.dataAt).toFixed(0)} ms after the data (plotting itself ${(l.afterplot - l.start).toFixed(0)} ms)`,
+        `  load ${i + 1}${i === 0 ? " (first visit)" : " (returning)"}: data in at ${l.dataAt.toFixed(0)} ms, plotting library (${l.plotlyChunkKB.toFixed(0)} KB) at ${l.plotlyChunkAt.toFixed(0)} ms, plotting from ${l.start.toFixed(0)} ms, first plotly_afterplot at ${l.afterplot.toFixed(0)} ms → ${(l.afterplot - l.dataAt).toFixed(0)} ms after the data (plotting itself ${(l.afterplot - l.start).toFixed(0)} ms)`,
       ),
     );
-    verdict("phase plot interactive after its data (slowest of 3)", Math.max(...loads.map((l) => l.afterplot - l.dataAt)), 1000, "ms", 0);
+    // Load 1 is a browser's first visit: it compiles the 4.8 MB plotting library from source, which
+    // alone takes 2 s or more on a 2-core machine. Loads 2 and 3 are what every later visit looks
+    // like (the library and its compiled code come from the browser's caches). Both are judged.
+    verdict("phase plot after its data, returning (slower of 2)", Math.max(...loads.slice(1).map((l) => l.afterplot - l.dataAt)), 1000, "ms", 0);
+    verdict("phase plot after its data, first visit", loads[0].afterplot - loads[0].dataAt, 1000, "ms", 0);
 
     // 2. Keyboard review, bounded: a review screen that stops answering is reported, not waited for.
     // In a fresh context without the plot-timing hooks, which the review's editable shapes do not need.
