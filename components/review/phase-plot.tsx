@@ -5,6 +5,7 @@ import { useRouter } from "next/navigation";
 import { useMemo, useRef, useState } from "react";
 import { axis, baseLayout, COLORS, Plot } from "@/components/plots/plot";
 import { loadPlotly } from "@/components/plots/plotly-script";
+import { fieldModeRanges, PhasePreview } from "./phase-preview";
 import { api } from "@/lib/api-client";
 import { queryKeys } from "@/lib/query-keys";
 import type { getPhase } from "@/lib/services/spectra/readSpectra";
@@ -36,6 +37,8 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
   const [showExcluded, setShowExcluded] = useState(true);
   const [theory, setTheory] = useState({ on: false, lambda_meV: "43", ell_A: "0.33" });
   const graph = useRef<HTMLElement | null>(null);
+  // Until Plotly has drawn, a still drawing of the same figure stands in its place (phase-preview.tsx).
+  const [drawn, setDrawn] = useState(false);
   const download = async (format: "png" | "svg") => {
     if (!graph.current) return;
     const Plotly = await loadPlotly();
@@ -62,6 +65,8 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
 
   const figure = useMemo(() => {
     const x = X_AXIS[mode];
+    // Field mode has fixed ranges, shared with the still preview; the other modes autorange.
+    const ranges = mode === "field" ? fieldModeRanges(data, showExcluded) : null;
     const gl = data.points.length >= WEBGL_FROM;
     const type = gl ? "scattergl" : "scatter";
     const regions = [...new Set(data.points.map((p) => p.region ?? "all regions"))].sort();
@@ -119,8 +124,8 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
     return {
       data: traces,
       layout: baseLayout({
-        xaxis: axis(x.title, x.type ? { type: x.type } : {}),
-        yaxis: axis("band gap (meV)", { rangemode: "tozero" }),
+        xaxis: axis(x.title, { ...(x.type ? { type: x.type } : {}), ...(ranges ? { range: ranges.x, autorange: false } : {}) }),
+        yaxis: axis("band gap (meV)", ranges ? { range: ranges.y, autorange: false } : { rangemode: "tozero" }),
         shapes,
         annotations,
         margin: { l: 64, r: 16, t: 28, b: 52 },
@@ -184,20 +189,24 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
           No spectra with a gap and a field yet: upload a session&apos;s spectra, and tag setpoints where the files lack them.
         </div>
       ) : (
-        <div className="h-[440px] w-full">
+        <div className="relative h-[440px] w-full">
           <Plot
             data={figure.data}
             layout={figure.layout}
             config={{ displaylogo: false, responsive: true, toImageButtonOptions: { filename: `phase-${sampleId}`, scale: 2 } }}
             style={{ width: "100%", height: "100%" }}
             useResizeHandler
-            onInitialized={(_f, gd) => (graph.current = gd)}
+            onInitialized={(_f, gd) => {
+              graph.current = gd;
+              setDrawn(true);
+            }}
             onUpdate={(_f, gd) => (graph.current = gd)}
             onClick={(e: { points?: { customdata?: string }[] }) => {
               const id = e.points?.[0]?.customdata;
               if (typeof id === "string") router.push(`/labs/${lab}/spectra/${id}`);
             }}
           />
+          {!drawn && mode === "field" ? <PhasePreview data={data} showExcluded={showExcluded} /> : null}
         </div>
       )}
     </div>

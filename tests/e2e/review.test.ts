@@ -154,4 +154,33 @@ describe("review in the browser", () => {
     expect(body.crossing.state).toBe("crossed");
     await context.close();
   });
+  it("the phase plot's still preview stands in until the plotting library has drawn, and the figure downloads as a PNG", async () => {
+    const { context, page } = await signedIn(lab.people.collaborator.email);
+    // Hold the plotting library back, as a slow first download or compile would.
+    let release!: () => void;
+    const held = new Promise<void>((r) => (release = r));
+    await page.route("**/vendor/plotly-*.min.js", async (route) => {
+      await held;
+      await route.continue();
+    });
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`, { waitUntil: "commit" });
+    const preview = page.locator('[data-testid="phase-preview"]');
+    await preview.waitFor();
+    // One dot per spectrum (the sweep has no excluded ones), drawn from the page's HTML alone.
+    const dots = await preview.locator("path[stroke-linecap=round]").evaluateAll((els) => els.map((e) => (e.getAttribute("d") ?? "").split("M").length - 1).reduce((a, b) => a + b, 0));
+    expect(dots).toBe(14);
+    expect(await preview.textContent()).toContain("estimated field E (V/nm)");
+    expect(await page.locator('[data-testid="phase-plot"] .main-svg').count()).toBe(0);
+    await shot(page, "phase-preview");
+    release();
+    await page.waitForSelector('[data-testid="phase-plot"] .main-svg');
+    await expect.poll(() => preview.count()).toBe(0);
+    const [download] = await Promise.all([page.waitForEvent("download"), page.click('[data-testid="phase-plot"] button:has-text("PNG")')]);
+    const fs = await import("node:fs");
+    const png = fs.readFileSync((await download.path())!);
+    // PNG signature and IHDR size (ISO/IEC 15948): 1200 × 800 at scale 2.
+    expect(png.subarray(1, 4).toString("latin1")).toBe("PNG");
+    expect([png.readUInt32BE(16), png.readUInt32BE(20)]).toEqual([2400, 1600]);
+    await context.close();
+  });
 });
