@@ -1,35 +1,86 @@
 "use client";
 
-import dynamic from "next/dynamic";
+import { type ComponentType, type ReactNode, useEffect, useState } from "react";
 import { preinit } from "react-dom";
 import type { PlotParams } from "react-plotly.js/factory";
 import { loadPlotly, PLOTLY_SRC } from "./plotly-script";
 
 /**
- * Plotly in the browser only, built with react-plotly's factory around the global from the
- * versioned static script (`plotly-script.ts`), so the bundler never carries the library.
+ * react-plotly's component around the global from the versioned static script
+ * (`plotly-script.ts`), made once per page; the bundler never carries the library. A failed load
+ * is forgotten so that the next attempt starts afresh.
  */
-const LazyPlot = dynamic<PlotParams>(
-  async () => {
-    const [{ default: createPlotlyComponent }, Plotly] = await Promise.all([import("react-plotly.js/factory"), loadPlotly()]);
-    return createPlotlyComponent(Plotly) as React.ComponentType<PlotParams>;
-  },
-  { ssr: false, loading: () => <div className="h-full min-h-64 w-full animate-pulse rounded-lg bg-line/50" aria-label="Loading the plot" /> },
-);
+let component: Promise<ComponentType<PlotParams>> | null = null;
+function loadComponent(): Promise<ComponentType<PlotParams>> {
+  component ??= Promise.all([import("react-plotly.js/factory"), loadPlotly()])
+    .then(([{ default: createPlotlyComponent }, Plotly]) => createPlotlyComponent(Plotly) as ComponentType<PlotParams>)
+    .catch((e: unknown) => {
+      component = null;
+      throw e;
+    });
+  return component;
+}
 
 /**
  * WebGL traces draw into canvases of (plot size × this ratio); Plotly's default of 2 quadruples the
  * pixels on an ordinary screen, and creating and clearing those buffers was half of a 5,000-point
  * phase plot's first draw in chromium without a GPU. The screen's own ratio, between 1 and 2.
  */
-export function glPixelRatio(): number {
+function glPixelRatio(): number {
   return typeof window === "undefined" ? 1 : Math.min(2, Math.max(1, window.devicePixelRatio || 1));
 }
 
-/** A Plotly figure; rendering it (on the server too) names the library's script in the page head. */
-export function Plot(props: PlotParams) {
+/**
+ * A Plotly figure in the browser. Rendering it (on the server too) names the library's script in
+ * the page head. Until the figure has drawn, `placeholder` (a still drawing, say) or a skeleton
+ * stands in its place; if the library cannot be loaded, a message with a retry does.
+ */
+export function Plot({ placeholder, ...props }: PlotParams & { placeholder?: ReactNode }) {
   preinit(PLOTLY_SRC, { as: "script", fetchPriority: "high" });
-  return <LazyPlot {...props} config={{ plotGlPixelRatio: glPixelRatio(), ...(props.config as Record<string, unknown> | undefined) }} />;
+  const [loaded, setLoaded] = useState<{ Component: ComponentType<PlotParams> } | { error: Error } | null>(null);
+  const [attempt, setAttempt] = useState(0);
+  const [drawn, setDrawn] = useState(false);
+  useEffect(() => {
+    let live = true;
+    loadComponent().then(
+      (Component) => live && setLoaded({ Component }),
+      (error: Error) => live && setLoaded({ error }),
+    );
+    return () => {
+      live = false;
+    };
+  }, [attempt]);
+  return (
+    <div className="relative h-full w-full">
+      {loaded && "Component" in loaded ? (
+        <loaded.Component
+          {...props}
+          config={{ plotGlPixelRatio: glPixelRatio(), ...(props.config as Record<string, unknown> | undefined) }}
+          onInitialized={(figure, gd) => {
+            setDrawn(true);
+            props.onInitialized?.(figure, gd);
+          }}
+        />
+      ) : null}
+      {loaded && "error" in loaded ? (
+        <div role="alert" className="absolute inset-0 flex flex-col items-center justify-center gap-2 rounded-lg border border-dashed border-line bg-card p-4 text-center text-sm text-ink-soft">
+          <p>The plotting library could not be loaded: {loaded.error.message}.</p>
+          <button
+            type="button"
+            className="rounded border border-line bg-white px-3 py-1 text-ink hover:border-ink-soft"
+            onClick={() => {
+              setLoaded(null);
+              setAttempt((n) => n + 1);
+            }}
+          >
+            Retry
+          </button>
+        </div>
+      ) : !drawn ? (
+        (placeholder ?? <div className="absolute inset-0 animate-pulse rounded-lg bg-line/50" aria-label="Loading the plot" />)
+      ) : null}
+    </div>
+  );
 }
 
 /** The product's plot look: our fonts, paper background, quiet grid. */

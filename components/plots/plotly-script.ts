@@ -17,28 +17,41 @@ export const PLOTLY_SRC = `/vendor/plotly-${plotlyPackage.version}.min.js`;
 let loading: Promise<PlotlyStatic> | null = null;
 
 /**
+ * Whether the browser already tried this script and got no library back: a network error (status
+ * 0, no body) or an HTTP error. The script `preinit` put in the head can fail before any code of
+ * ours listens to it; its resource-timing entry is the only trace left.
+ */
+function failedEarlier(script: HTMLScriptElement): boolean {
+  return (performance.getEntriesByName(script.src, "resource") as PerformanceResourceTiming[]).some((e) => e.responseStatus >= 400 || (e.responseStatus === 0 && e.decodedBodySize === 0));
+}
+
+/**
  * Resolves with the global `Plotly` once the script has run: at once when it has, else when the
- * `<script>` already in the page (from `preinit`) or one added here finishes. A failed load
- * rejects and is retried on the next call.
+ * `<script>` already in the page (from `preinit`) or one added here finishes. A script that had
+ * already failed is replaced; a failed load rejects and is tried afresh on the next call.
  */
 export function loadPlotly(): Promise<PlotlyStatic> {
   const w = window as unknown as { Plotly?: PlotlyStatic };
   if (w.Plotly) return Promise.resolve(w.Plotly);
   loading ??= new Promise<PlotlyStatic>((resolve, reject) => {
     let script = document.querySelector<HTMLScriptElement>(`script[src="${PLOTLY_SRC}"]`);
+    if (script && failedEarlier(script)) {
+      script.remove();
+      script = null;
+    }
     if (!script) {
       script = document.createElement("script");
       script.src = PLOTLY_SRC;
       script.async = true;
       document.head.appendChild(script);
     }
-    const done = () => (w.Plotly ? resolve(w.Plotly) : reject(new Error("the plotting library did not load")));
-    script.addEventListener("load", done, { once: true });
-    script.addEventListener(
+    const added = script;
+    added.addEventListener("load", () => (w.Plotly ? resolve(w.Plotly) : reject(new Error("the script ran without defining it"))), { once: true });
+    added.addEventListener(
       "error",
       () => {
-        script.remove();
-        reject(new Error("the plotting library could not be downloaded"));
+        added.remove();
+        reject(new Error("the download failed"));
       },
       { once: true },
     );

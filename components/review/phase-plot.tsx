@@ -37,8 +37,6 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
   const [showExcluded, setShowExcluded] = useState(true);
   const [theory, setTheory] = useState({ on: false, lambda_meV: "43", ell_A: "0.33" });
   const graph = useRef<HTMLElement | null>(null);
-  // Until Plotly has drawn, a still drawing of the same figure stands in its place (phase-preview.tsx).
-  const [drawn, setDrawn] = useState(false);
   const download = async (format: "png" | "svg") => {
     if (!graph.current) return;
     const Plotly = await loadPlotly();
@@ -189,24 +187,22 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
           No spectra with a gap and a field yet: upload a session&apos;s spectra, and tag setpoints where the files lack them.
         </div>
       ) : (
-        <div className="relative h-[440px] w-full">
+        <div className="h-[440px] w-full">
           <Plot
             data={figure.data}
             layout={figure.layout}
             config={{ displaylogo: false, responsive: true, toImageButtonOptions: { filename: `phase-${sampleId}`, scale: 2 } }}
             style={{ width: "100%", height: "100%" }}
             useResizeHandler
-            onInitialized={(_f, gd) => {
-              graph.current = gd;
-              setDrawn(true);
-            }}
+            // Until Plotly has drawn, a still drawing of the same figure stands in its place.
+            placeholder={mode === "field" ? <PhasePreview data={data} showExcluded={showExcluded} /> : undefined}
+            onInitialized={(_f, gd) => (graph.current = gd)}
             onUpdate={(_f, gd) => (graph.current = gd)}
             onClick={(e: { points?: { customdata?: string }[] }) => {
               const id = e.points?.[0]?.customdata;
               if (typeof id === "string") router.push(`/labs/${lab}/spectra/${id}`);
             }}
           />
-          {!drawn && mode === "field" ? <PhasePreview data={data} showExcluded={showExcluded} /> : null}
         </div>
       )}
     </div>

@@ -183,4 +183,18 @@ describe("review in the browser", () => {
     expect([png.readUInt32BE(16), png.readUInt32BE(20)]).toEqual([2400, 1600]);
     await context.close();
   });
+  it("a plotting library that fails to download gets a message and a retry that draws the plot", async () => {
+    const { context, page } = await signedIn(lab.people.analyst.email);
+    await page.route("**/vendor/plotly-*.min.js", (route) => route.abort());
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
+    const alert = page.locator('[data-testid="phase-plot"] [role="alert"]');
+    await alert.waitFor();
+    expect(await alert.textContent()).toContain("The plotting library could not be loaded");
+    await shot(page, "phase-plot-library-failed");
+    await page.unroute("**/vendor/plotly-*.min.js");
+    await alert.locator("button", { hasText: "Retry" }).click();
+    await page.waitForSelector('[data-testid="phase-plot"] .main-svg');
+    expect(await alert.count()).toBe(0);
+    await context.close();
+  });
 });
