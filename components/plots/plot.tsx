@@ -86,12 +86,14 @@ export function Plot({ placeholder, ...props }: PlotParams & { placeholder?: Rea
 /** The product's plot look: our fonts, paper background, quiet grid. */
 export const PLOT_FONT = { family: "var(--font-plex-sans), ui-sans-serif, system-ui, sans-serif", size: 12, color: "#1c2430" };
 export const COLORS = ["#1f6b73", "#b9512a", "#5b4b8a", "#7a8b2e", "#a13d63", "#2f5f9e"];
+/** Plot area, grid and axis-line colours. */
+export const PLOT_STYLE = { plotBg: "#fffdf8", grid: "#ece6d8", zeroline: "#d8cfbd", axisLine: "#cfc6b4" } as const;
 
 export function baseLayout(extra: Record<string, unknown> = {}) {
   return {
     font: PLOT_FONT,
     paper_bgcolor: "rgba(0,0,0,0)",
-    plot_bgcolor: "#fffdf8",
+    plot_bgcolor: PLOT_STYLE.plotBg,
     margin: { l: 64, r: 16, t: 16, b: 52 },
     hoverlabel: { font: { family: PLOT_FONT.family } },
     legend: { orientation: "h", y: -0.2, font: { size: 11 } },
@@ -101,10 +103,10 @@ export function baseLayout(extra: Record<string, unknown> = {}) {
 
 export const axis = (title: string, extra: Record<string, unknown> = {}) => ({
   title: { text: title, standoff: 8 },
-  gridcolor: "#ece6d8",
-  zerolinecolor: "#d8cfbd",
-  linecolor: "#cfc6b4",
+  gridcolor: PLOT_STYLE.grid,
+  zerolinecolor: PLOT_STYLE.zeroline,
+  linecolor: PLOT_STYLE.axisLine,
   ticks: "outside",
-  tickcolor: "#cfc6b4",
+  tickcolor: PLOT_STYLE.axisLine,
   ...extra,
 });

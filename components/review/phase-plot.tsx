@@ -3,14 +3,14 @@
 import { useQuery } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useMemo, useRef, useState } from "react";
-import { axis, baseLayout, COLORS, Plot } from "@/components/plots/plot";
+import { axis, baseLayout, Plot } from "@/components/plots/plot";
 import { loadPlotly } from "@/components/plots/plotly-script";
-import { fieldModeRanges, PhasePreview } from "./phase-preview";
+import { fieldModeRanges, PHASE_LOOK, PHASE_MARGIN, type PhaseData, regionColors, regionOf } from "./phase-figure";
+import { PhasePreview } from "./phase-preview";
 import { api } from "@/lib/api-client";
 import { queryKeys } from "@/lib/query-keys";
-import type { getPhase } from "@/lib/services/spectra/readSpectra";
 
-export type PhaseData = Awaited<ReturnType<typeof getPhase>>;
+export type { PhaseData };
 type XMode = "field" | "distance" | "conductance";
 
 const X_AXIS: Record<XMode, { title: string; type?: "log"; of: (p: PhaseData["points"][number]) => number | null; sigma?: (p: PhaseData["points"][number]) => number | null }> = {
@@ -67,20 +67,18 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
     const ranges = mode === "field" ? fieldModeRanges(data, showExcluded) : null;
     const gl = data.points.length >= WEBGL_FROM;
     const type = gl ? "scattergl" : "scatter";
-    const regions = [...new Set(data.points.map((p) => p.region ?? "all regions"))].sort();
     const traces: Record<string, unknown>[] = [];
     const c = data.crossing;
     if (mode === "field" && "curve" in c && c.curve && c.state !== "none") {
       traces.push({ x: c.curve.field, y: c.curve.hi.map((v: number) => v * 1000), type: "scatter", mode: "lines", line: { width: 0 }, hoverinfo: "skip", showlegend: false });
-      traces.push({ x: c.curve.field, y: c.curve.lo.map((v: number) => Math.max(0, v) * 1000), type: "scatter", mode: "lines", line: { width: 0 }, fill: "tonexty", fillcolor: "rgba(185,81,42,0.14)", name: "95% band", hoverinfo: "skip" });
-      traces.push({ x: c.curve.field, y: c.curve.gap.map((v: number) => v * 1000), type: "scatter", mode: "lines", line: { color: "#b9512a", width: 2 }, name: c.state === "crossed" ? "fit: closes and reopens" : "fit: closing", hoverinfo: "skip" });
+      traces.push({ x: c.curve.field, y: c.curve.lo.map((v: number) => Math.max(0, v) * 1000), type: "scatter", mode: "lines", line: { width: 0 }, fill: "tonexty", fillcolor: PHASE_LOOK.band, name: "95% band", hoverinfo: "skip" });
+      traces.push({ x: c.curve.field, y: c.curve.gap.map((v: number) => v * 1000), type: "scatter", mode: "lines", line: { color: PHASE_LOOK.fit, width: 2 }, name: c.state === "crossed" ? "fit: closes and reopens" : "fit: closing", hoverinfo: "skip" });
     }
-    regions.forEach((region, i) => {
-      const color = COLORS[i % COLORS.length];
+    for (const { region, color } of regionColors(data.points)) {
       const groups: { name: string; pts: PhaseData["points"]; marker: Record<string, unknown> }[] = [
-        { name: `${region}`, pts: data.points.filter((p) => (p.region ?? "all regions") === region && !p.excluded && p.source === "auto"), marker: { symbol: "circle", size: 7, color } },
-        { name: `${region} · corrected`, pts: data.points.filter((p) => (p.region ?? "all regions") === region && !p.excluded && p.source === "corrected"), marker: { symbol: "diamond", size: 9, color, line: { color: "#1c2430", width: 1 } } },
-        ...(showExcluded ? [{ name: `${region} · excluded`, pts: data.points.filter((p) => (p.region ?? "all regions") === region && p.excluded), marker: { symbol: "x-open", size: 8, color: "#8a8478" } }] : []),
+        { name: `${region}`, pts: data.points.filter((p) => regionOf(p) === region && !p.excluded && p.source === "auto"), marker: { symbol: "circle", size: 7, color } },
+        { name: `${region} · corrected`, pts: data.points.filter((p) => regionOf(p) === region && !p.excluded && p.source === "corrected"), marker: { symbol: "diamond", size: 9, color, line: { color: "#1c2430", width: 1 } } },
+        ...(showExcluded ? [{ name: `${region} · excluded`, pts: data.points.filter((p) => regionOf(p) === region && p.excluded), marker: { symbol: "x-open", size: 8, color: PHASE_LOOK.excluded } }] : []),
       ];
       for (const g of groups) {
         const pts = g.pts.filter((p) => x.of(p) != null);
@@ -94,11 +92,11 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
           customdata: pts.map((p) => p.spectrumId),
           marker: g.marker,
           error_y: { type: "data", array: pts.map((p) => (p.gapSigma_eV ?? 0) * 1000), visible: true, thickness: 1, width: gl ? 0 : 2, color: g.marker.color },
-          ...(x.sigma ? { error_x: { type: "data", array: pts.map((p) => x.sigma!(p) ?? 0), visible: true, thickness: 1, width: 0, color: "rgba(110,106,95,0.35)" } } : {}),
+          ...(x.sigma ? { error_x: { type: "data", array: pts.map((p) => x.sigma!(p) ?? 0), visible: true, thickness: 1, width: 0, color: PHASE_LOOK.fieldErrorBar } } : {}),
           hovertemplate: `${mode === "field" ? "E = %{x:.3f} V/nm" : mode === "distance" ? "d = %{x:.3f} nm" : "G = %{x:.3e} S"}<br>gap = %{y:.1f} meV<extra>${g.name}</extra>`,
         });
       }
-    });
+    }
     if (mode === "field" && theory.on) {
       const lambda = Number(theory.lambda_meV) / 1000;
       const ell_nm = Number(theory.ell_A) / 10;
@@ -113,20 +111,21 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
     const annotations: Record<string, unknown>[] = [];
     if (mode === "field" && c.state === "crossed" && c.field_V_per_nm != null) {
       // Light: the interval with the field model's common uncertainty; darker: from the points' scatter alone.
-      if (c.ci95_V_per_nm) shapes.push({ type: "rect", xref: "x", yref: "paper", x0: c.ci95_V_per_nm[0], x1: c.ci95_V_per_nm[1], y0: 0, y1: 1, fillcolor: "rgba(185,81,42,0.05)", line: { width: 0 }, layer: "below" });
+      if (c.ci95_V_per_nm) shapes.push({ type: "rect", xref: "x", yref: "paper", x0: c.ci95_V_per_nm[0], x1: c.ci95_V_per_nm[1], y0: 0, y1: 1, fillcolor: PHASE_LOOK.ciModel, line: { width: 0 }, layer: "below" });
       const stat = "ci95Statistical_V_per_nm" in c ? c.ci95Statistical_V_per_nm : null;
-      if (stat) shapes.push({ type: "rect", xref: "x", yref: "paper", x0: stat[0], x1: stat[1], y0: 0, y1: 1, fillcolor: "rgba(185,81,42,0.16)", line: { width: 0 }, layer: "below" });
-      shapes.push({ type: "line", xref: "x", yref: "paper", x0: c.field_V_per_nm, x1: c.field_V_per_nm, y0: 0, y1: 1, line: { color: "#b9512a", width: 1.5, dash: "dot" } });
-      annotations.push({ x: c.field_V_per_nm, y: 1, xref: "x", yref: "paper", yanchor: "bottom", text: `E<sub>c</sub> = ${c.field_V_per_nm.toFixed(3)} V/nm`, showarrow: false, font: { color: "#b9512a", size: 12 } });
+      if (stat) shapes.push({ type: "rect", xref: "x", yref: "paper", x0: stat[0], x1: stat[1], y0: 0, y1: 1, fillcolor: PHASE_LOOK.ciStatistical, line: { width: 0 }, layer: "below" });
+      shapes.push({ type: "line", xref: "x", yref: "paper", x0: c.field_V_per_nm, x1: c.field_V_per_nm, y0: 0, y1: 1, line: { color: PHASE_LOOK.fit, width: 1.5, dash: "dot" } });
+      annotations.push({ x: c.field_V_per_nm, y: 1, xref: "x", yref: "paper", yanchor: "bottom", text: `E<sub>c</sub> = ${c.field_V_per_nm.toFixed(3)} V/nm`, showarrow: false, font: { color: PHASE_LOOK.fit, size: 12 } });
     }
     return {
+      ranges,
       data: traces,
       layout: baseLayout({
         xaxis: axis(x.title, { ...(x.type ? { type: x.type } : {}), ...(ranges ? { range: ranges.x, autorange: false } : {}) }),
         yaxis: axis("band gap (meV)", ranges ? { range: ranges.y, autorange: false } : { rangemode: "tozero" }),
         shapes,
         annotations,
-        margin: { l: 64, r: 16, t: 28, b: 52 },
+        margin: PHASE_MARGIN,
         uirevision: `${sampleId}-${mode}`,
       }),
     };
@@ -195,7 +194,7 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
             style={{ width: "100%", height: "100%" }}
             useResizeHandler
             // Until Plotly has drawn, a still drawing of the same figure stands in its place.
-            placeholder={mode === "field" ? <PhasePreview data={data} showExcluded={showExcluded} /> : undefined}
+            placeholder={figure.ranges ? <PhasePreview data={data} showExcluded={showExcluded} ranges={figure.ranges} /> : undefined}
             onInitialized={(_f, gd) => (graph.current = gd)}
             onUpdate={(_f, gd) => (graph.current = gd)}
             onClick={(e: { points?: { customdata?: string }[] }) => {

@@ -1,0 +1,65 @@
+import { COLORS } from "@/components/plots/plot";
+import { paddedRange } from "@/components/plots/ranges";
+import type { getPhase } from "@/lib/services/spectra/readSpectra";
+
+/**
+ * What the phase plot (Plotly) and its still preview (SVG) both draw from, kept in one place so
+ * the two show the same thing in the same place.
+ */
+export type PhaseData = Awaited<ReturnType<typeof getPhase>>;
+export type PhasePoint = PhaseData["points"][number];
+
+/** Plot-area margins of the phase plot, px; Plotly adds the legend's height below. */
+export const PHASE_MARGIN = { l: 64, r: 16, t: 28, b: 52 } as const;
+
+/** Colours of the fit, its band, the critical field's two intervals, excluded points and field error bars. */
+export const PHASE_LOOK = {
+  fit: "#b9512a",
+  band: "rgba(185,81,42,0.14)",
+  /** The interval with the field model's common uncertainty. */
+  ciModel: "rgba(185,81,42,0.05)",
+  /** The interval from the points' scatter alone. */
+  ciStatistical: "rgba(185,81,42,0.16)",
+  excluded: "#8a8478",
+  fieldErrorBar: "rgba(110,106,95,0.35)",
+} as const;
+
+export const regionOf = (p: PhasePoint) => p.region ?? "all regions";
+
+/** The sample's regions in name order, each with its series colour. */
+export function regionColors(points: readonly PhasePoint[]): { region: string; color: string }[] {
+  return [...new Set(points.map(regionOf))].sort().map((region, i) => ({ region, color: COLORS[i % COLORS.length] }));
+}
+
+export interface PhaseRanges {
+  /** Field, V/nm. */
+  x: [number, number];
+  /** Gap, meV. */
+  y: [number, number];
+}
+
+/**
+ * The field-mode axis ranges of the phase plot: every shown point with its error bars, the fitted
+ * curve and band, and the critical field's interval, padded by 5%; the gap axis from zero. Given
+ * to Plotly as fixed ranges, and to the preview, so the two line up.
+ */
+export function fieldModeRanges(data: PhaseData, showExcluded: boolean): PhaseRanges | null {
+  const xs: number[] = [];
+  const ys: number[] = [];
+  for (const p of data.points) {
+    if (p.excluded && !showExcluded) continue;
+    const sx = p.fieldSigma_V_per_nm ?? 0;
+    const sy = (p.gapSigma_eV ?? 0) * 1000;
+    xs.push(p.field_V_per_nm - sx, p.field_V_per_nm + sx);
+    ys.push(p.gap_eV * 1000 - sy, p.gap_eV * 1000 + sy);
+  }
+  const c = data.crossing;
+  if ("curve" in c && c.curve && c.state !== "none") {
+    xs.push(...c.curve.field);
+    ys.push(...c.curve.hi.map((v: number) => v * 1000));
+  }
+  if (c.state === "crossed" && c.ci95_V_per_nm) xs.push(...c.ci95_V_per_nm);
+  const x = paddedRange(xs);
+  const y = paddedRange(ys, { includeZero: true });
+  return x && y ? { x, y } : null;
+}
