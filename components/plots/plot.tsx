@@ -10,10 +10,15 @@ import { loadPlotly, PLOTLY_SRC } from "./plotly-script";
  * (`plotly-script.ts`), made once per page; the bundler never carries the library. A failed load
  * is forgotten so that the next attempt starts afresh.
  */
-let component: Promise<ComponentType<PlotParams>> | null = null;
-function loadComponent(): Promise<ComponentType<PlotParams>> {
+type PlotlyStatic = Awaited<ReturnType<typeof loadPlotly>>;
+interface Loaded {
+  Component: ComponentType<PlotParams>;
+  Plotly: PlotlyStatic;
+}
+let component: Promise<Loaded> | null = null;
+function loadComponent(): Promise<Loaded> {
   component ??= Promise.all([import("react-plotly.js/factory"), loadPlotly()])
-    .then(([{ default: createPlotlyComponent }, Plotly]) => createPlotlyComponent(Plotly) as ComponentType<PlotParams>)
+    .then(([{ default: createPlotlyComponent }, Plotly]) => ({ Component: createPlotlyComponent(Plotly) as ComponentType<PlotParams>, Plotly }))
     .catch((e: unknown) => {
       component = null;
       throw e;
@@ -30,6 +35,18 @@ function glPixelRatio(): number {
   return typeof window === "undefined" ? 1 : Math.min(2, Math.max(1, window.devicePixelRatio || 1));
 }
 
+const fileName = (config: unknown) => (config as { toImageButtonOptions?: { filename?: string } } | undefined)?.toImageButtonOptions?.filename ?? "bandcross-figure";
+
+/**
+ * Writes a drawn figure to a PNG (at 2×) or SVG file. Drawn afresh from its data and layout with
+ * WebGL at ratio 2, whatever ratio the screen's copy uses, so WebGL points are as sharp as the rest.
+ */
+export async function downloadFigure(gd: HTMLElement, { format, filename, width, height }: { format: "png" | "svg"; filename: string; width: number; height: number }) {
+  const Plotly = await loadPlotly();
+  const { data, layout } = gd as unknown as { data: Plotly.Data[]; layout: Partial<Plotly.Layout> };
+  await Plotly.downloadImage({ data, layout, config: { plotGlPixelRatio: 2 } } as unknown as HTMLElement, { format, filename, width, height, scale: format === "png" ? 2 : 1 });
+}
+
 /**
  * A Plotly figure in the browser. Rendering it (on the server too) names the library's script in
  * the page head. Until the figure has drawn, `placeholder` (a still drawing, say) or a skeleton
@@ -37,13 +54,13 @@ function glPixelRatio(): number {
  */
 export function Plot({ placeholder, ...props }: PlotParams & { placeholder?: ReactNode }) {
   preinit(PLOTLY_SRC, { as: "script", fetchPriority: "high" });
-  const [loaded, setLoaded] = useState<{ Component: ComponentType<PlotParams> } | { error: Error } | null>(null);
+  const [loaded, setLoaded] = useState<Loaded | { error: Error } | null>(null);
   const [attempt, setAttempt] = useState(0);
   const [drawn, setDrawn] = useState(false);
   useEffect(() => {
     let live = true;
     loadComponent().then(
-      (Component) => live && setLoaded({ Component }),
+      (l) => live && setLoaded(l),
       (error: Error) => live && setLoaded({ error }),
     );
     return () => {
@@ -55,7 +72,20 @@ export function Plot({ placeholder, ...props }: PlotParams & { placeholder?: Rea
       {loaded && "Component" in loaded ? (
         <loaded.Component
           {...props}
-          config={{ plotGlPixelRatio: glPixelRatio(), ...(props.config as Record<string, unknown> | undefined) }}
+          config={{
+            plotGlPixelRatio: glPixelRatio(),
+            // The camera button writes the file with downloadFigure, as the pages' own buttons do.
+            modeBarButtonsToRemove: ["toImage"],
+            modeBarButtonsToAdd: [
+              {
+                name: "figure-png",
+                title: "Download the figure as PNG",
+                icon: loaded.Plotly.Icons.camera,
+                click: (gd: HTMLElement) => void downloadFigure(gd, { format: "png", filename: fileName(props.config), width: gd.clientWidth, height: gd.clientHeight }),
+              },
+            ],
+            ...(props.config as Record<string, unknown> | undefined),
+          }}
           onInitialized={(figure, gd) => {
             setDrawn(true);
             props.onInitialized?.(figure, gd);
@@ -83,19 +113,33 @@ export function Plot({ placeholder, ...props }: PlotParams & { placeholder?: Rea
   );
 }
 
+/**
+ * The plots' font family, as names: a CSS variable in Plotly's text makes the whole declaration
+ * void wherever the page's styles are absent (figure files, where text fell back to a serif). On
+ * screen the page's own face (the family name next/font gave it, read once), then the face by its
+ * usual name for files opened where it is installed, then common sans-serifs.
+ */
+const FILE_FONTS = '"IBM Plex Sans", "Helvetica Neue", Arial, sans-serif';
+let fontFamily: string | null = null;
+function plotFontFamily(): string {
+  if (typeof document === "undefined") return FILE_FONTS;
+  fontFamily ??= [getComputedStyle(document.documentElement).getPropertyValue("--font-plex-sans").trim(), FILE_FONTS].filter(Boolean).join(", ");
+  return fontFamily;
+}
+
 /** The product's plot look: our fonts, paper background, quiet grid. */
-export const PLOT_FONT = { family: "var(--font-plex-sans), ui-sans-serif, system-ui, sans-serif", size: 12, color: "#1c2430" };
+export const PLOT_FONT = { size: 12, color: "#1c2430" };
 export const COLORS = ["#1f6b73", "#b9512a", "#5b4b8a", "#7a8b2e", "#a13d63", "#2f5f9e"];
 /** Plot area, grid and axis-line colours. */
 export const PLOT_STYLE = { plotBg: "#fffdf8", grid: "#ece6d8", zeroline: "#d8cfbd", axisLine: "#cfc6b4" } as const;
 
 export function baseLayout(extra: Record<string, unknown> = {}) {
   return {
-    font: PLOT_FONT,
+    font: { ...PLOT_FONT, family: plotFontFamily() },
     paper_bgcolor: "rgba(0,0,0,0)",
     plot_bgcolor: PLOT_STYLE.plotBg,
     margin: { l: 64, r: 16, t: 16, b: 52 },
-    hoverlabel: { font: { family: PLOT_FONT.family } },
+    hoverlabel: { font: { family: plotFontFamily() } },
     legend: { orientation: "h", y: -0.2, font: { size: 11 } },
     ...extra,
   };

@@ -3,8 +3,7 @@
 import { useQuery } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useMemo, useRef, useState } from "react";
-import { axis, baseLayout, Plot } from "@/components/plots/plot";
-import { loadPlotly } from "@/components/plots/plotly-script";
+import { axis, baseLayout, downloadFigure, Plot } from "@/components/plots/plot";
 import { fieldModeRanges, PHASE_LOOK, PHASE_MARGIN, type PhaseData, regionColors, regionOf } from "./phase-figure";
 import { PhasePreview } from "./phase-preview";
 import { api } from "@/lib/api-client";
@@ -18,9 +17,6 @@ const X_AXIS: Record<XMode, { title: string; type?: "log"; of: (p: PhaseData["po
   distance: { title: "estimated tip–sample distance d (nm)", of: (p) => p.distance_nm },
   conductance: { title: "setpoint conductance |I/V| (S)", type: "log", of: (p) => p.setpointConductance_S },
 };
-
-/** Figures written to files: the product's face where it is installed, else a plain sans-serif. */
-const EXPORT_FONT_FAMILY = '"IBM Plex Sans", "Helvetica Neue", Arial, sans-serif';
 
 /** Above this many points the markers are drawn with WebGL. */
 const WEBGL_FROM = 1500;
@@ -37,29 +33,16 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
   const [showExcluded, setShowExcluded] = useState(true);
   const [theory, setTheory] = useState({ on: false, lambda_meV: "43", ell_A: "0.33" });
   const graph = useRef<HTMLElement | null>(null);
-  const download = async (format: "png" | "svg") => {
-    if (!graph.current) return;
-    const Plotly = await loadPlotly();
-    const gd = graph.current as unknown as { data: Plotly.Data[]; layout: Partial<Plotly.Layout> };
-    // Drawn afresh for the file: the WebGL layer at twice the figure size (the PNG is written at 2×),
-    // whatever the screen ratio the on-screen plot uses.
-    const scale = format === "png" ? 2 : 1;
-    // A named font family: the page's CSS variable means nothing inside an image or a file.
-    const layout = { ...gd.layout, font: { ...gd.layout.font, family: EXPORT_FONT_FAMILY } };
-    await Plotly.downloadImage({ data: gd.data, layout, config: { plotGlPixelRatio: 2 } } as unknown as HTMLElement, {
-      format,
-      filename: `${data.sample.name.replace(/[^A-Za-z0-9-]+/g, "-")}-phase`,
-      width: 1200,
-      height: 800,
-      scale,
-    });
-  };
   const { data = initial, isFetching, isError, refetch } = useQuery({
     queryKey: queryKeys.phase(sampleId),
     queryFn: () => api<PhaseData>(lab, "GET", `/samples/${sampleId}/phase`),
     initialData: initial,
     refetchInterval: 10_000,
   });
+  const fileStem = `${data.sample.name.replace(/[^A-Za-z0-9-]+/g, "-")}-phase`;
+  const download = (format: "png" | "svg") => {
+    if (graph.current) void downloadFigure(graph.current, { format, filename: fileStem, width: 1200, height: 800 });
+  };
 
   const figure = useMemo(() => {
     const x = X_AXIS[mode];
@@ -190,7 +173,7 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
           <Plot
             data={figure.data}
             layout={figure.layout}
-            config={{ displaylogo: false, responsive: true, toImageButtonOptions: { filename: `phase-${sampleId}`, scale: 2 } }}
+            config={{ displaylogo: false, responsive: true, toImageButtonOptions: { filename: fileStem } }}
             style={{ width: "100%", height: "100%" }}
             useResizeHandler
             // Until Plotly has drawn, a still drawing of the same figure stands in its place.

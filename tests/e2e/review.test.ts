@@ -181,6 +181,14 @@ describe("review in the browser", () => {
     // PNG signature and IHDR size (ISO/IEC 15948): 1200 × 800 at scale 2.
     expect(png.subarray(1, 4).toString("latin1")).toBe("PNG");
     expect([png.readUInt32BE(16), png.readUInt32BE(20)]).toEqual([2400, 1600]);
+    // The plot's own camera button writes the same kind of file, at twice the plot's size on screen.
+    const graph = page.locator('[data-testid="phase-plot"] .js-plotly-plot');
+    await graph.hover();
+    const size = await graph.evaluate((el) => [el.clientWidth, el.clientHeight]);
+    const [camera] = await Promise.all([page.waitForEvent("download"), graph.locator('[data-title="Download the figure as PNG"]').click()]);
+    expect(camera.suggestedFilename()).toBe("GX-20-bilayer-phase.png");
+    const cam = fs.readFileSync((await camera.path())!);
+    expect([cam.readUInt32BE(16), cam.readUInt32BE(20)]).toEqual([2 * size[0], 2 * size[1]]);
     await context.close();
   });
   it("a plotting library that fails to download gets a message and a retry that draws the plot", async () => {
