@@ -10,3 +10,8 @@ export function formatField(v: number | null | undefined, sigma?: number | null)
   return sigma != null && Number.isFinite(sigma) ? `${v.toFixed(2)} ± ${sigma.toFixed(2)} V/nm` : `${v.toFixed(2)} V/nm`;
 }
 
+
+/** A file name's stem from a sample or file name: lower-case letters, digits and single hyphens. */
+export function fileStem(name: string, fallback = "bandcross"): string {
+  return name.toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-+|-+$/g, "") || fallback;
+}

@@ -4,7 +4,7 @@ import { useQueries } from "@tanstack/react-query";
 import { useMemo, useState } from "react";
 import { axis, baseLayout, COLORS, Plot } from "@/components/plots/plot";
 import { api } from "@/lib/api-client";
-import { formatField } from "@/lib/format";
+import { fileStem, formatField } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
 import type { PhaseData } from "./phase-plot";
 
@@ -46,7 +46,7 @@ export function ComparePlot({ lab, samples }: { lab: string; samples: { id: stri
       </fieldset>
       <div>
         <div className="h-[460px] rounded-xl border border-line bg-card p-2" data-testid="compare-plot">
-          {loaded.length ? <Plot data={figure.data} layout={figure.layout} config={{ displaylogo: false, responsive: true }} style={{ width: "100%", height: "100%" }} useResizeHandler /> : <p className="p-6 text-sm text-muted">Choose samples with spectra to overlay their phase plots.</p>}
+          {loaded.length ? <Plot data={figure.data} layout={figure.layout} config={{ displaylogo: false, responsive: true, toImageButtonOptions: { filename: fileStem(`compare ${loaded.map((d) => d.sample.name).join(" ")}`) } }} style={{ width: "100%", height: "100%" }} useResizeHandler /> : <p className="p-6 text-sm text-muted">Choose samples with spectra to overlay their phase plots.</p>}
         </div>
         <table className="mt-3 w-full text-sm">
           <tbody>

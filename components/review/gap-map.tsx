@@ -5,6 +5,7 @@ import { useRouter } from "next/navigation";
 import { useMemo, useState } from "react";
 import { axis, baseLayout, Plot } from "@/components/plots/plot";
 import { api } from "@/lib/api-client";
+import { fileStem } from "@/lib/format";
 import type { getGapMap } from "@/lib/services/spectra/gapMap";
 
 type MapData = Awaited<ReturnType<typeof getGapMap>>;
@@ -56,7 +57,7 @@ export function GapMap({ lab, sampleId, initial }: { lab: string; sampleId: stri
         <Plot
           data={fig.data}
           layout={fig.layout}
-          config={{ displaylogo: false, responsive: true }}
+          config={{ displaylogo: false, responsive: true, toImageButtonOptions: { filename: fileStem(`gap map ${(data.grids.find((g) => g.id === uploadId) ?? data.grids[0]).fileName.replace(/\.[^.]+$/, "")}`) } }}
           style={{ width: "100%", height: "100%" }}
           useResizeHandler
           onClick={(e: { points?: { customdata?: string | null }[] }) => {

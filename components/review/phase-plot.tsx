@@ -7,6 +7,7 @@ import { axis, baseLayout, downloadFigure, Plot } from "@/components/plots/plot"
 import { fieldModeRanges, PHASE_LOOK, PHASE_MARGIN, type PhaseData, regionColors, regionOf } from "./phase-figure";
 import { PhasePreview } from "./phase-preview";
 import { api } from "@/lib/api-client";
+import { fileStem } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
 
 export type { PhaseData };
@@ -39,9 +40,9 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
     initialData: initial,
     refetchInterval: 10_000,
   });
-  const fileStem = `${data.sample.name.replace(/[^A-Za-z0-9-]+/g, "-")}-phase`;
+  const filename = fileStem(`${data.sample.name} phase`);
   const download = (format: "png" | "svg") => {
-    if (graph.current) void downloadFigure(graph.current, { format, filename: fileStem, width: 1200, height: 800 });
+    if (graph.current) void downloadFigure(graph.current, { format, filename, width: 1200, height: 800 });
   };
 
   const figure = useMemo(() => {
@@ -173,7 +174,7 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
           <Plot
             data={figure.data}
             layout={figure.layout}
-            config={{ displaylogo: false, responsive: true, toImageButtonOptions: { filename: fileStem } }}
+            config={{ displaylogo: false, responsive: true, toImageButtonOptions: { filename } }}
             style={{ width: "100%", height: "100%" }}
             useResizeHandler
             // Until Plotly has drawn, a still drawing of the same figure stands in its place.

@@ -8,7 +8,7 @@ import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { api, ApiError } from "@/lib/api-client";
-import { formatGap } from "@/lib/format";
+import { fileStem, formatGap } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
 import type { getSpectrum } from "@/lib/services/spectra/readSpectra";
 
@@ -213,7 +213,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
             <Plot
               data={figure.data}
               layout={figure.layout}
-              config={{ displaylogo: false, responsive: true, edits: { shapePosition: canEdit } }}
+              config={{ displaylogo: false, responsive: true, edits: { shapePosition: canEdit }, toImageButtonOptions: { filename: fileStem(`${data.sourceName.replace(/\.[^.]+$/, "")} ${data.index} spectrum`) } }}
               style={{ width: "100%", height: "100%" }}
               useResizeHandler
               onRelayout={onRelayout as never}

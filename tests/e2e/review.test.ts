@@ -186,7 +186,7 @@ describe("review in the browser", () => {
     await graph.hover();
     const size = await graph.evaluate((el) => [el.clientWidth, el.clientHeight]);
     const [camera] = await Promise.all([page.waitForEvent("download"), graph.locator('[data-title="Download the figure as PNG"]').click()]);
-    expect(camera.suggestedFilename()).toBe("GX-20-bilayer-phase.png");
+    expect(camera.suggestedFilename()).toBe("gx-20-bilayer-phase.png");
     const cam = fs.readFileSync((await camera.path())!);
     expect([cam.readUInt32BE(16), cam.readUInt32BE(20)]).toEqual([2 * size[0], 2 * size[1]]);
     await context.close();

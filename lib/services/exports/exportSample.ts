@@ -7,6 +7,7 @@ import { loadSampleAnalysis } from "../analysis/sampleModel";
 import type { Ctx } from "../context";
 import { getSample } from "../samples/getSample";
 import { getPhase } from "../spectra/readSpectra";
+import { fileStem } from "@/lib/format";
 import { csv } from "./csv";
 
 /** Every point of the phase plot with what made it: field model and settings versions, raw-file hash. */
@@ -36,7 +37,7 @@ export async function phaseCsv({ ctx, input }: { ctx: Ctx; input: { sampleId: st
     p?.status, p?.vbEdgeV, p?.cbEdgeV, p?.gapEv, p?.uncertaintyEv, p?.closed, p?.resolutionMev,
     p?.source, p?.method, p?.excluded, p?.excludedReason, sv, fv,
   ]);
-  return { fileName: `${slug(sample.name)}-phase.csv`, text: csv(header, body) };
+  return { fileName: `${fileStem(sample.name)}-phase.csv`, text: csv(header, body) };
 }
 
 /** The spectra themselves, long form: one row per bias point. */
@@ -50,14 +51,14 @@ export async function spectraCsv({ ctx, input }: { ctx: Ctx; input: { sampleId: 
     .orderBy(asc(spectra.sourceName), asc(spectra.indexInFile));
   const body: (string | number)[][] = [];
   for (const r of rows) for (let i = 0; i < r.bias.length; i++) body.push([r.id, r.file, r.index, r.bias[i], r.didv[i]]);
-  return { fileName: `${slug(sample.name)}-spectra.csv`, text: csv(["spectrum_id", "source_file", "index_in_file", "bias_V", "dIdV"], body) };
+  return { fileName: `${fileStem(sample.name)}-spectra.csv`, text: csv(["spectrum_id", "source_file", "index_in_file", "bias_V", "dIdV"], body) };
 }
 
 export async function phaseJson({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }) {
   const phase = await getPhase({ ctx, input: { ...input, precise: true } });
   const analysis = await loadSampleAnalysis(ctx.db, input.sampleId);
   return {
-    fileName: `${slug(phase.sample.name)}-phase.json`,
+    fileName: `${fileStem(phase.sample.name)}-phase.json`,
     body: {
       sample: phase.sample,
       versions: { extractionSettings: analysis.settingsVersion, fieldModel: analysis.fieldVersion },
@@ -107,9 +108,5 @@ export async function methodsText({ ctx, input }: { ctx: Ctx; input: { sampleId:
     `Tip–sample distances were estimated as d = d_c + ln(G₀/G_set)/(2κ) + Δz with G₀ = 2e²/h, G_set = |I_set/V_set| and κ = √(2m_eφ)/ħ (field model version ${a.fieldVersion.version}: ${model.barrierHeight_eV == null ? "φ the mean of the tip and sample work functions" : `φ = ${model.barrierHeight_eV} eV, a measured apparent barrier height`}, d_c = ${model.contactDistance_nm} ± ${model.contactDistanceSigma_nm} nm), and the junction field as E = (Φ_tip − Φ_sample)/(e·d)${model.screening !== 1 ? `, divided by a screening factor of ${model.screening}` : ""}, with the sample work function ${model.sampleWorkFunction_eV} ± ${model.sampleWorkFunctionSigma_eV} eV and each session's tip work function. Field uncertainties were propagated from the work-function and contact-distance uncertainties. The field is a model estimate: ${fieldAssumptions(model).slice(0, 3).join("; ")}.`,
     result,
   ].join("\n\n");
-  return { fileName: `${slug(phase.sample.name)}-methods.txt`, text };
-}
-
-function slug(name: string): string {
-  return name.toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-|-$/g, "") || "sample";
+  return { fileName: `${fileStem(phase.sample.name)}-methods.txt`, text };
 }
