@@ -4,9 +4,13 @@
  * 1. Phase plot: the sample page carries the phase data in its server-rendered response, so the
  *    data has arrived when the document's response has ended (navigation responseEnd; a later
  *    `/phase` response, if the page fetched one, would count instead). Measured from there to the
- *    plot's first `plotly_afterplot` (Plotly's "drawn and interactive" event), with the plotting
- *    library's arrival and the plotting call's start on the way. Three loads in one fresh browser
- *    profile: the first visit and two returning ones; the goal (≤ 1 s) is judged on each kind.
+ *    first frame after the plot's first `plotly_afterplot` (Plotly's "drawn" event): a
+ *    requestAnimationFrame and then a task, so the time includes the browser putting the WebGL
+ *    canvases on screen and the page being free to answer the pointer. The library's arrival, the
+ *    plotting call's start and afterplot are printed on the way. Four loads in one fresh browser
+ *    profile: the first visit and three returning ones (Chrome compiles and caches the library's
+ *    code over the first visits); the goal (≤ 1 s) is judged on the first visit and on the slowest
+ *    returning one.
  * 2. Review: ArrowRight on /labs/{lab}/spectra/{id}, timed in the page from the key event to the
  *    change of the position text ("n of N"), 20 moves, median (goal < 100 ms). Between moves the
  *    page is left to settle (its prefetch of the next spectrum), as an analyst looks at each one.
@@ -16,7 +20,7 @@ import { BENCH_PASSWORD, benchLab, line, phaseSample, quantileOf, requireStack, 
 
 /** Runs before any page script: records when each Plotly graph gets its event emitter and each afterplot. */
 function plotHooks() {
-  type Rec = { start: number; afterplot: number[] };
+  type Rec = { start: number; afterplot: number[]; framed: number[] };
   const w = window as unknown as { __bxPlots: Rec[] };
   w.__bxPlots = [];
   Object.defineProperty(HTMLElement.prototype, "_ev", {
@@ -28,10 +32,13 @@ function plotHooks() {
       const el = this as unknown as { __bxEv?: unknown; __bxRec?: Rec };
       el.__bxEv = v;
       if (v && typeof v.on === "function" && !el.__bxRec) {
-        const rec: Rec = { start: performance.now(), afterplot: [] };
+        const rec: Rec = { start: performance.now(), afterplot: [], framed: [] };
         el.__bxRec = rec;
         w.__bxPlots.push(rec);
-        v.on("plotly_afterplot", () => rec.afterplot.push(performance.now()));
+        v.on("plotly_afterplot", () => {
+          rec.afterplot.push(performance.now());
+          requestAnimationFrame(() => setTimeout(() => rec.framed.push(performance.now()), 0));
+        });
       }
     },
   });
@@ -39,17 +46,17 @@ function plotHooks() {
 
 async function phaseLoad(page: Page, url: string) {
   await page.goto(url, { waitUntil: "commit" });
-  await page.waitForFunction(() => (window as unknown as { __bxPlots?: { afterplot: number[] }[] }).__bxPlots?.some((p) => p.afterplot.length > 0), null, { timeout: 30_000 });
+  await page.waitForFunction(() => (window as unknown as { __bxPlots?: { framed: number[] }[] }).__bxPlots?.some((p) => p.framed.length > 0), null, { timeout: 30_000 });
   return page.evaluate(() => {
     const nav = performance.getEntriesByType("navigation")[0] as PerformanceNavigationTiming;
     const res = performance.getEntriesByType("resource") as PerformanceResourceTiming[];
     const phase = res.filter((r) => r.name.includes("/phase")).map((r) => r.responseEnd);
     const js = res.filter((r) => r.name.endsWith(".js")).sort((a, b) => b.encodedBodySize - a.encodedBodySize)[0];
-    const plots = (window as unknown as { __bxPlots: { start: number; afterplot: number[] }[] }).__bxPlots;
-    const p = plots.find((x) => x.afterplot.length)!;
+    const plots = (window as unknown as { __bxPlots: { start: number; afterplot: number[]; framed: number[] }[] }).__bxPlots;
+    const p = plots.find((x) => x.framed.length)!;
     const points = Number(document.querySelector('[data-testid="phase-plot"]')?.getAttribute("data-points"));
     const dataAt = Math.max(nav.responseEnd, ...phase);
-    return { dataAt, plotlyChunkAt: js?.responseEnd ?? NaN, plotlyChunkKB: (js?.encodedBodySize ?? 0) / 1024, start: p.start, afterplot: p.afterplot[0], points, domContentLoaded: nav.domContentLoadedEventEnd };
+    return { dataAt, plotlyChunkAt: js?.responseEnd ?? NaN, plotlyChunkKB: (js?.encodedBodySize ?? 0) / 1024, start: p.start, afterplot: p.afterplot[0], framed: p.framed[0], points, domContentLoaded: nav.domContentLoadedEventEnd };
   });
 }
 
@@ -72,19 +79,20 @@ export async function run() {
 
     // 1. The phase plot.
     const sampleUrl = `${appUrl}/labs/${lab.slug}/samples/${s.sampleId}`;
-    const loads = [];
-    for (let i = 0; i < 3; i++) loads.push(await phaseLoad(page, sampleUrl));
-    line(`phase plot of ${loads[0].points} points (WebGL markers), sample page loaded 3 times in one fresh browser profile:`);
+    const loads: Awaited<ReturnType<typeof phaseLoad>>[] = [];
+    for (let i = 0; i < 4; i++) loads.push(await phaseLoad(page, sampleUrl));
+    line(`phase plot of ${loads[0].points} points (WebGL markers), sample page loaded ${loads.length} times in one fresh browser profile:`);
     loads.forEach((l, i) =>
       line(
-        `  load ${i + 1}${i === 0 ? " (first visit)" : " (returning)"}: data in at ${l.dataAt.toFixed(0)} ms, plotting library (${l.plotlyChunkKB.toFixed(0)} KB) at ${l.plotlyChunkAt.toFixed(0)} ms, plotting from ${l.start.toFixed(0)} ms, first plotly_afterplot at ${l.afterplot.toFixed(0)} ms → ${(l.afterplot - l.dataAt).toFixed(0)} ms after the data (plotting itself ${(l.afterplot - l.start).toFixed(0)} ms)`,
+        `  load ${i + 1}${i === 0 ? " (first visit)" : " (returning)"}: data in at ${l.dataAt.toFixed(0)} ms, plotting library (${l.plotlyChunkKB.toFixed(0)} KB) at ${l.plotlyChunkAt.toFixed(0)} ms, plotting from ${l.start.toFixed(0)} ms, afterplot at ${l.afterplot.toFixed(0)} ms, on screen at ${l.framed.toFixed(0)} ms → ${(l.framed - l.dataAt).toFixed(0)} ms after the data (plotting itself ${(l.framed - l.start).toFixed(0)} ms)`,
       ),
     );
     // Load 1 is a browser's first visit: it compiles the 4.8 MB plotting library from source, which
-    // alone takes 2 s or more on a 2-core machine. Loads 2 and 3 are what every later visit looks
-    // like (the library and its compiled code come from the browser's caches). Both are judged.
-    verdict("phase plot after its data, returning (slower of 2)", Math.max(...loads.slice(1).map((l) => l.afterplot - l.dataAt)), 1000, "ms", 0);
-    verdict("phase plot after its data, first visit", loads[0].afterplot - loads[0].dataAt, 1000, "ms", 0);
+    // alone takes 2 s or more on a 2-core machine. Later loads are what returning visits look like
+    // (the library and its compiled code come from the browser's caches). Both are judged.
+    const after = (l: (typeof loads)[number]) => l.framed - l.dataAt;
+    verdict(`phase plot after its data, returning (slowest of ${loads.length - 1})`, Math.max(...loads.slice(1).map(after)), 1000, "ms", 0);
+    verdict("phase plot after its data, first visit", after(loads[0]), 1000, "ms", 0);
 
     // 2. Keyboard review, bounded: a review screen that stops answering is reported, not waited for.
     // In a fresh context without the plot-timing hooks, which the review's editable shapes do not need.
