@@ -63,3 +63,20 @@ export function fieldModeRanges(data: PhaseData, showExcluded: boolean): PhaseRa
   const y = paddedRange(ys, { includeZero: true });
   return x && y ? { x, y } : null;
 }
+
+/**
+ * Error bars as one SVG path in data coordinates (`M x,y-σy V y+σy` and `M x-σx,y H x+σx` per
+ * point; zero or missing σ draws nothing). Used with WebGL markers: Plotly's WebGL error bars for
+ * 5,000 points took about 0.35 s more to reach the screen in software rendering than one path
+ * under the canvas, which looks the same.
+ */
+export function errorBarPaths(points: readonly { x: number; y: number; sx?: number | null; sy?: number | null }[]): { vertical: string; horizontal: string } {
+  const n = (v: number) => Number(v.toPrecision(7));
+  let vertical = "";
+  let horizontal = "";
+  for (const { x, y, sx, sy } of points) {
+    if (sy && sy > 0) vertical += `M${n(x)},${n(y - sy)}V${n(y + sy)}`;
+    if (sx && sx > 0) horizontal += `M${n(x - sx)},${n(y)}H${n(x + sx)}`;
+  }
+  return { vertical, horizontal };
+}

@@ -4,7 +4,8 @@ import { useQuery } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useMemo, useRef, useState } from "react";
 import { axis, baseLayout, downloadFigure, Plot } from "@/components/plots/plot";
-import { fieldModeRanges, PHASE_LOOK, PHASE_MARGIN, type PhaseData, regionColors, regionOf } from "./phase-figure";
+import { errorBarPaths, fieldModeRanges, PHASE_LOOK, PHASE_MARGIN, type PhaseData, regionColors, regionOf } from "./phase-figure";
+import { type PackedPhase, unpackPhase } from "./phase-pack";
 import { PhasePreview } from "./phase-preview";
 import { api } from "@/lib/api-client";
 import { fileStem } from "@/lib/format";
@@ -28,12 +29,13 @@ const WEBGL_FROM = 1500;
  * 95% band, the critical field with its interval, and an optional theory overlay. Clicking a point
  * opens that spectrum.
  */
-export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: string; initial: PhaseData }) {
+export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sampleId: string; initial: PackedPhase }) {
   const router = useRouter();
   const [mode, setMode] = useState<XMode>("field");
   const [showExcluded, setShowExcluded] = useState(true);
   const [theory, setTheory] = useState({ on: false, lambda_meV: "43", ell_A: "0.33" });
   const graph = useRef<HTMLElement | null>(null);
+  const initial = useMemo(() => unpackPhase(packed), [packed]);
   const { data = initial, isFetching, isError, refetch } = useQuery({
     queryKey: queryKeys.phase(sampleId),
     queryFn: () => api<PhaseData>(lab, "GET", `/samples/${sampleId}/phase`),
@@ -58,6 +60,7 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
       traces.push({ x: c.curve.field, y: c.curve.lo.map((v: number) => Math.max(0, v) * 1000), type: "scatter", mode: "lines", line: { width: 0 }, fill: "tonexty", fillcolor: PHASE_LOOK.band, name: "95% band", hoverinfo: "skip" });
       traces.push({ x: c.curve.field, y: c.curve.gap.map((v: number) => v * 1000), type: "scatter", mode: "lines", line: { color: PHASE_LOOK.fit, width: 2 }, name: c.state === "crossed" ? "fit: closes and reopens" : "fit: closing", hoverinfo: "skip" });
     }
+    const shapes: Record<string, unknown>[] = [];
     for (const { region, color } of regionColors(data.points)) {
       const groups: { name: string; pts: PhaseData["points"]; marker: Record<string, unknown> }[] = [
         { name: `${region}`, pts: data.points.filter((p) => regionOf(p) === region && !p.excluded && p.source === "auto"), marker: { symbol: "circle", size: 7, color } },
@@ -67,16 +70,32 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
       for (const g of groups) {
         const pts = g.pts.filter((p) => x.of(p) != null);
         if (!pts.length) continue;
+        const xs = pts.map((p) => x.of(p)!);
+        const ys = pts.map((p) => p.gap_eV * 1000);
+        const sy = pts.map((p) => (p.gapSigma_eV ?? 0) * 1000);
+        const sx = x.sigma ? pts.map((p) => x.sigma!(p) ?? 0) : null;
+        let errorBars: Record<string, unknown> = {
+          error_y: { type: "data", array: sy, visible: true, thickness: 1, width: 2, color: g.marker.color },
+          ...(sx ? { error_x: { type: "data", array: sx, visible: true, thickness: 1, width: 0, color: PHASE_LOOK.fieldErrorBar } } : {}),
+        };
+        if (gl) {
+          // Under WebGL markers the bars are SVG paths below the canvas, in the series' legend
+          // group so that hiding the series hides its bars.
+          const paths = errorBarPaths(xs.map((v, i) => ({ x: v, y: ys[i], sx: sx?.[i], sy: sy[i] })));
+          const bar = (path: string, color: string) => ({ type: "path", path, xref: "x", yref: "y", layer: "below", line: { color, width: 1 }, legendgroup: g.name });
+          if (paths.horizontal) shapes.push(bar(paths.horizontal, PHASE_LOOK.fieldErrorBar));
+          if (paths.vertical) shapes.push(bar(paths.vertical, g.marker.color as string));
+          errorBars = { legendgroup: g.name };
+        }
         traces.push({
           type,
           mode: "markers",
           name: g.name,
-          x: pts.map((p) => x.of(p)),
-          y: pts.map((p) => p.gap_eV * 1000),
+          x: xs,
+          y: ys,
           customdata: pts.map((p) => p.spectrumId),
           marker: g.marker,
-          error_y: { type: "data", array: pts.map((p) => (p.gapSigma_eV ?? 0) * 1000), visible: true, thickness: 1, width: gl ? 0 : 2, color: g.marker.color },
-          ...(x.sigma ? { error_x: { type: "data", array: pts.map((p) => x.sigma!(p) ?? 0), visible: true, thickness: 1, width: 0, color: PHASE_LOOK.fieldErrorBar } } : {}),
+          ...errorBars,
           hovertemplate: `${mode === "field" ? "E = %{x:.3f} V/nm" : mode === "distance" ? "d = %{x:.3f} nm" : "G = %{x:.3e} S"}<br>gap = %{y:.1f} meV<extra>${g.name}</extra>`,
         });
       }
@@ -91,7 +110,6 @@ export function PhasePlot({ lab, sampleId, initial }: { lab: string; sampleId: s
         traces.push({ x: grid, y: grid.map((E) => 2 * Math.abs(lambda - ell_nm * E) * 1000), type: "scatter", mode: "lines", line: { color: "#5b4b8a", dash: "dash", width: 1.5 }, name: `theory: Δ = 2|λ − ℓeE| (λ ${theory.lambda_meV} meV, ℓ ${theory.ell_A} Å)` });
       }
     }
-    const shapes: Record<string, unknown>[] = [];
     const annotations: Record<string, unknown>[] = [];
     if (mode === "field" && c.state === "crossed" && c.field_V_per_nm != null) {
       // Light: the interval with the field model's common uncertainty; darker: from the points' scatter alone.

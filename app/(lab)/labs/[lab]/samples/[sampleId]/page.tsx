@@ -2,6 +2,7 @@ import Link from "next/link";
 import { CrossingTimeline } from "@/components/alerts/crossing-timeline";
 import { WatchToggle } from "@/components/alerts/watch-toggle";
 import { CrossingSummary } from "@/components/review/crossing-summary";
+import { packPhase } from "@/components/review/phase-pack";
 import { PhasePlot } from "@/components/review/phase-plot";
 import { SettingsEditors } from "@/components/review/settings-editors";
 import { ButtonLink } from "@/components/ui/button";
@@ -63,7 +64,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
       />
       <div className="grid gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)]">
         <Card title="Gap versus estimated field">
-          <PhasePlot lab={lab} sampleId={s.id} initial={phase} />
+          <PhasePlot lab={lab} sampleId={s.id} initial={packPhase(phase)} />
         </Card>
         <div className="space-y-5">
           <Card title="Critical field">
