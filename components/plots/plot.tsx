@@ -2,7 +2,7 @@
 
 import { type ComponentType, type ReactNode, useEffect, useState } from "react";
 import { preinit } from "react-dom";
-import type { PlotParams } from "react-plotly.js/factory";
+import createPlotlyComponent, { type PlotParams } from "react-plotly.js/factory";
 import { loadPlotly, PLOTLY_SRC } from "./plotly-script";
 
 /**
@@ -20,8 +20,10 @@ interface Loaded {
 }
 let component: Promise<Loaded> | null = null;
 function loadComponent(): Promise<Loaded> {
-  component ??= Promise.all([import("react-plotly.js/factory"), loadPlotly()])
-    .then(([{ default: createPlotlyComponent }, Plotly]) => ({
+  // The factory (a few kB) is bundled, not a chunk of its own: when the library's script has run
+  // before hydration ends, the figure starts drawing without another request.
+  component ??= loadPlotly()
+    .then((Plotly) => ({
       Component: createPlotlyComponent(Plotly) as ComponentType<PlotParams>,
       modeBarButtonsToAdd: [
         {
