@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { Suspense } from "react";
 import { CrossingTimeline } from "@/components/alerts/crossing-timeline";
 import { WatchToggle } from "@/components/alerts/watch-toggle";
 import { CrossingSummary } from "@/components/review/crossing-summary";
@@ -66,6 +67,9 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
         <Card title="Gap versus estimated field">
           <PhasePlot lab={lab} sampleId={s.id} initial={packPhase(phase)} />
         </Card>
+        {/* Boundaries of their own: React hydrates them after the plot's part of the page, so the
+            plot starts drawing sooner; a click in one before then hydrates it at once. */}
+        <Suspense>
         <div className="space-y-5">
           <Card title="Critical field">
             <CrossingSummary crossing={phase.crossing} nIncluded={included} />
@@ -94,14 +98,18 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
             </div>
           </Card>
         </div>
+        </Suspense>
       </div>
       {map.grids.length ? (
-        <div className="mt-5">
-          <Card title="Gap map">
-            <GapMap lab={lab} sampleId={s.id} initial={map} />
-          </Card>
-        </div>
+        <Suspense>
+          <div className="mt-5">
+            <Card title="Gap map">
+              <GapMap lab={lab} sampleId={s.id} initial={map} />
+            </Card>
+          </div>
+        </Suspense>
       ) : null}
+      <Suspense>
       <div className="mt-5 grid gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)]">
         <Card title="Analysis settings">
           <SettingsEditors
@@ -166,6 +174,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
         </Card>
         </div>
       </div>
+      </Suspense>
     </>
   );
 }
