@@ -3,6 +3,8 @@ import { defineConfig } from "vitest/config";
 
 const root = fileURLToPath(new URL(".", import.meta.url));
 const alias = { "@": root, "server-only": `${root}tests/support/server-only.ts` };
+/** What next.config.ts sets for the app: the plotting library's address (never fetched by tests). */
+const env = { BANDCROSS_PLOTLY_SRC: "/vendor/plotly-test.min.js" };
 
 /**
  * Three depths of tests (see DEVELOPERS.md):
@@ -16,12 +18,13 @@ export default defineConfig({
     projects: [
       {
         resolve: { alias },
-        test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node" },
+        test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node", env },
       },
       {
         resolve: { alias },
         test: {
           name: "integration",
+          env,
           include: ["tests/integration/**/*.test.ts"],
           environment: "node",
           testTimeout: 30_000,
@@ -33,6 +36,7 @@ export default defineConfig({
         resolve: { alias },
         test: {
           name: "e2e",
+          env,
           include: ["tests/e2e/**/*.test.ts"],
           environment: "node",
           testTimeout: 60_000,

@@ -60,7 +60,9 @@ const fileName = (config: unknown) => (config as { toImageButtonOptions?: { file
 export async function downloadFigure(gd: HTMLElement, { format, filename, width, height }: { format: "png" | "svg"; filename: string; width: number; height: number }) {
   const Plotly = await loadPlotly();
   const { data, layout } = gd as unknown as { data: Plotly.Data[]; layout: Partial<Plotly.Layout> };
-  await Plotly.downloadImage({ data, layout, config: { plotGlPixelRatio: 2 } } as unknown as HTMLElement, { format, filename, width, height, scale: format === "png" ? 2 : 1 });
+  // downloadImage hands its options to toImage, which takes `scale`; the published types omit it.
+  const options = { format, filename, width, height, scale: format === "png" ? 2 : 1 };
+  await Plotly.downloadImage({ data, layout, config: { plotGlPixelRatio: 2 } } as unknown as HTMLElement, options);
 }
 
 /**

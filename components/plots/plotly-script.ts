@@ -1,18 +1,23 @@
-import plotlyPackage from "plotly.js-dist-min/package.json";
-
-type PlotlyStatic = typeof import("plotly.js-dist-min");
+type PlotlyStatic = typeof import("plotly.js");
 
 /**
- * The plotting library is served as one static, versioned classic script (`public/vendor/`, copied
- * from the installed `plotly.js-dist-min` by next.config.ts) instead of a bundler chunk, so that
+ * The plotting library is served as one static classic script (`public/vendor/`, built by
+ * scripts/plotly-vendor.ts with only the trace types Bandcross draws) instead of a bundler chunk,
+ * so that
  *
  * - a page that plots names it in its `<head>` (React's `preinit`, see `Plot`) and the browser
  *   fetches and compiles it while the HTML and the page's own code are still arriving, off the main
  *   thread, rather than after hydration asks for a chunk;
- * - its address changes only with the library's version, so browsers and CDNs cache it for a year
+ * - its address changes only with its content, so browsers and CDNs cache it for a year
  *   (`Cache-Control: immutable`, next.config.ts) and the browser can keep its compiled code.
+ *
+ * next.config.ts sets the address at build time; the unit tests' config sets one of its own.
  */
-export const PLOTLY_SRC = `/vendor/plotly-${plotlyPackage.version}.min.js`;
+export const PLOTLY_SRC: string = process.env.BANDCROSS_PLOTLY_SRC ?? missingSrc();
+
+function missingSrc(): never {
+  throw new Error("BANDCROSS_PLOTLY_SRC is not set: next.config.ts sets it for the app");
+}
 
 let loading: Promise<PlotlyStatic> | null = null;
 

@@ -87,9 +87,9 @@ export async function run() {
         `  load ${i + 1}${i === 0 ? " (first visit)" : " (returning)"}: data in at ${l.dataAt.toFixed(0)} ms, plotting library (${l.plotlyChunkKB.toFixed(0)} KB) at ${l.plotlyChunkAt.toFixed(0)} ms, plotting from ${l.start.toFixed(0)} ms, afterplot at ${l.afterplot.toFixed(0)} ms, on screen at ${l.framed.toFixed(0)} ms → ${(l.framed - l.dataAt).toFixed(0)} ms after the data (plotting itself ${(l.framed - l.start).toFixed(0)} ms)`,
       ),
     );
-    // Load 1 is a browser's first visit: it compiles the 4.8 MB plotting library from source, which
-    // alone takes 2 s or more on a 2-core machine. Later loads are what returning visits look like
-    // (the library and its compiled code come from the browser's caches). Both are judged.
+    // Load 1 is a browser's first visit: it compiles the plotting library (1.6 MB, only the trace
+    // types Bandcross draws) from source. Later loads are what returning visits look like (the
+    // library and its compiled code come from the browser's caches). Both are judged.
     const after = (l: (typeof loads)[number]) => l.framed - l.dataAt;
     verdict(`phase plot after its data, returning (slowest of ${loads.length - 1})`, Math.max(...loads.slice(1).map(after)), 1000, "ms", 0);
     verdict("phase plot after its data, first visit", after(loads[0]), 1000, "ms", 0);
