@@ -1,6 +1,6 @@
 "use client";
 
-import { type ComponentType, type ReactNode, useEffect, useState } from "react";
+import { type ComponentType, type ReactNode, useEffect, useRef, useState } from "react";
 import { preinit } from "react-dom";
 import createPlotlyComponent, { type PlotParams } from "react-plotly.js/factory";
 import { loadPlotly, PLOTLY_SRC } from "./plotly-script";
@@ -11,6 +11,7 @@ import { loadPlotly, PLOTLY_SRC } from "./plotly-script";
  * is forgotten so that the next attempt starts afresh.
  */
 interface Loaded {
+  Plotly: Awaited<ReturnType<typeof loadPlotly>>;
   Component: ComponentType<PlotParams>;
   /**
    * The camera button, made once: Plotly compares configs on every update, and a new click
@@ -24,6 +25,7 @@ function loadComponent(): Promise<Loaded> {
   // before hydration ends, the figure starts drawing without another request.
   component ??= loadPlotly()
     .then((Plotly) => ({
+      Plotly,
       Component: createPlotlyComponent(Plotly) as ComponentType<PlotParams>,
       modeBarButtonsToAdd: [
         {
@@ -70,11 +72,36 @@ export async function downloadFigure(gd: HTMLElement, { format, filename, width,
  * the page head. Until the figure has drawn, `placeholder` (a still drawing, say) or a skeleton
  * stands in its place; if the library cannot be loaded, a message with a retry does.
  */
-export function Plot({ placeholder, ...props }: PlotParams & { placeholder?: ReactNode }) {
+export function Plot({ placeholder, ...props }: Omit<PlotParams, "useResizeHandler"> & { placeholder?: ReactNode }) {
   preinit(PLOTLY_SRC, { as: "script", fetchPriority: "high" });
   const [loaded, setLoaded] = useState<Loaded | { error: Error } | null>(null);
   const [attempt, setAttempt] = useState(0);
   const [drawn, setDrawn] = useState(false);
+  const box = useRef<HTMLDivElement>(null);
+  const [graph, setGraph] = useState<HTMLElement | null>(null);
+  const Plotly = loaded && "Plotly" in loaded ? loaded.Plotly : null;
+  // The figure follows its box, whatever changes the box's size (the window, a side panel, the
+  // page's grid). Plotly sizes a new figure to its box, so only a later change redraws, once per
+  // frame at most; react-plotly's own handler relaid every new figure out a second time (~80 ms
+  // for the 5,000-point phase plot) and heard only the window.
+  useEffect(() => {
+    const el = box.current;
+    if (!graph || !Plotly || !el) return;
+    let size = `${el.clientWidth}x${el.clientHeight}`;
+    let frame = 0;
+    const observer = new ResizeObserver(() => {
+      const now = `${el.clientWidth}x${el.clientHeight}`;
+      if (now === size) return;
+      size = now;
+      cancelAnimationFrame(frame);
+      frame = requestAnimationFrame(() => void Plotly.Plots.resize(graph));
+    });
+    observer.observe(el);
+    return () => {
+      observer.disconnect();
+      cancelAnimationFrame(frame);
+    };
+  }, [graph, Plotly]);
   useEffect(() => {
     let live = true;
     loadComponent().then(
@@ -86,7 +113,7 @@ export function Plot({ placeholder, ...props }: PlotParams & { placeholder?: Rea
     };
   }, [attempt]);
   return (
-    <div className="relative h-full w-full">
+    <div ref={box} className="relative h-full w-full">
       {loaded && "Component" in loaded ? (
         <loaded.Component
           {...props}
@@ -97,8 +124,10 @@ export function Plot({ placeholder, ...props }: PlotParams & { placeholder?: Rea
             modeBarButtonsToAdd: loaded.modeBarButtonsToAdd,
             ...(props.config as Record<string, unknown> | undefined),
           }}
+          useResizeHandler={false}
           onInitialized={(figure, gd) => {
             setDrawn(true);
+            setGraph(gd);
             props.onInitialized?.(figure, gd);
           }}
         />

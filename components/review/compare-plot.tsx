@@ -39,7 +39,7 @@ export function ComparePlot({ lab, samples }: { lab: string; samples: { id: stri
     return { data: traces, layout: baseLayout({ xaxis: axis("estimated field E (V/nm)"), yaxis: axis("band gap (meV)", { rangemode: "tozero" }), shapes }) };
   }, [loaded, byRegion]);
   return (
-    <div className="grid gap-5 lg:grid-cols-[240px_1fr]">
+    <div className="grid grid-cols-1 gap-5 lg:grid-cols-[240px_minmax(0,1fr)]">
       <fieldset className="space-y-1.5 text-sm" aria-label="Samples to compare">
         <legend className="mb-2 text-xs font-semibold uppercase tracking-wide text-muted">Samples</legend>
         {samples.map((s) => (
@@ -55,7 +55,7 @@ export function ComparePlot({ lab, samples }: { lab: string; samples: { id: stri
       </fieldset>
       <div>
         <div className="h-[460px] rounded-xl border border-line bg-card p-2" data-testid="compare-plot">
-          {loaded.length ? <Plot data={figure.data} layout={figure.layout} config={{ displaylogo: false, responsive: true, toImageButtonOptions: { filename: fileStem(`compare ${loaded.map((d) => d.sample.name).join(" ")}`) } }} style={{ width: "100%", height: "100%" }} useResizeHandler /> : <p className="p-6 text-sm text-muted">Choose samples with spectra to overlay their phase plots.</p>}
+          {loaded.length ? <Plot data={figure.data} layout={figure.layout} config={{ displaylogo: false, toImageButtonOptions: { filename: fileStem(`compare ${loaded.map((d) => d.sample.name).join(" ")}`) } }} style={{ width: "100%", height: "100%" }} /> : <p className="p-6 text-sm text-muted">Choose samples with spectra to overlay their phase plots.</p>}
         </div>
         <table className="mt-3 w-full text-sm">
           <tbody>

@@ -57,9 +57,8 @@ export function GapMap({ lab, sampleId, initial }: { lab: string; sampleId: stri
         <Plot
           data={fig.data}
           layout={fig.layout}
-          config={{ displaylogo: false, responsive: true, toImageButtonOptions: { filename: fileStem(`gap map ${(data.grids.find((g) => g.id === uploadId) ?? data.grids[0]).fileName.replace(/\.[^.]+$/, "")}`) } }}
+          config={{ displaylogo: false, toImageButtonOptions: { filename: fileStem(`gap map ${(data.grids.find((g) => g.id === uploadId) ?? data.grids[0]).fileName.replace(/\.[^.]+$/, "")}`) } }}
           style={{ width: "100%", height: "100%" }}
-          useResizeHandler
           onClick={(e: { points?: { customdata?: string | null }[] }) => {
             const id = e.points?.[0]?.customdata;
             if (typeof id === "string") router.push(`/labs/${lab}/spectra/${id}`);

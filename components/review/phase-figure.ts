@@ -80,3 +80,30 @@ export function errorBarPaths(points: readonly { x: number; y: number; sx?: numb
   }
   return { vertical, horizontal };
 }
+
+/** From this many points the phase plot uses WebGL markers, and the field bars start hidden. */
+export const WEBGL_FROM = 1500;
+
+/**
+ * The field-direction error bars of every point, as one shape with a legend entry of its own.
+ * Their σ comes from the field model (work functions, contact distance), so it moves all points of
+ * a sample together: the fit treats it as a common scale error, not as point-to-point scatter, and
+ * the legend says so. Shown from the start for samples plotted as SVG; for WebGL-sized samples
+ * (thousands of overlapping bars would cover the data in grey) they start hidden, one legend click
+ * away.
+ */
+export function fieldErrorBarShape(path: string, pointCount: number): Record<string, unknown> {
+  return {
+    type: "path",
+    path,
+    xref: "x",
+    yref: "y",
+    layer: "below",
+    line: { color: PHASE_LOOK.fieldErrorBar, width: 1 },
+    name: "field ± σ (model, shared by all points)",
+    showlegend: true,
+    legendgroup: "field-sigma",
+    visible: pointCount >= WEBGL_FROM ? "legendonly" : true,
+  };
+}
+

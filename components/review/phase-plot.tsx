@@ -4,7 +4,7 @@ import { useQuery } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useMemo, useRef, useState } from "react";
 import { axis, baseLayout, downloadFigure, Plot } from "@/components/plots/plot";
-import { errorBarPaths, fieldModeRanges, PHASE_LOOK, PHASE_MARGIN, type PhaseData, regionColors, regionOf } from "./phase-figure";
+import { errorBarPaths, fieldErrorBarShape, fieldModeRanges, PHASE_LOOK, PHASE_MARGIN, type PhaseData, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
 import { type PackedPhase, unpackPhase } from "./phase-pack";
 import { PhasePreview } from "./phase-preview";
 import { api } from "@/lib/api-client";
@@ -21,7 +21,6 @@ const X_AXIS: Record<XMode, { title: string; type?: "log"; of: (p: PhaseData["po
 };
 
 /** Above this many points the markers are drawn with WebGL. */
-const WEBGL_FROM = 1500;
 
 /**
  * Gap versus estimated field: error bars both ways, one series per region, corrected picks as
@@ -61,6 +60,7 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
       traces.push({ x: c.curve.field, y: c.curve.gap.map((v: number) => v * 1000), type: "scatter", mode: "lines", line: { color: PHASE_LOOK.fit, width: 2 }, name: c.state === "crossed" ? "fit: closes and reopens" : "fit: closing", hoverinfo: "skip" });
     }
     const shapes: Record<string, unknown>[] = [];
+    let fieldBars = "";
     for (const { region, color } of regionColors(data.points)) {
       const groups: { name: string; pts: PhaseData["points"]; marker: Record<string, unknown> }[] = [
         { name: `${region}`, pts: data.points.filter((p) => regionOf(p) === region && !p.excluded && p.source === "auto"), marker: { symbol: "circle", size: 7, color } },
@@ -74,17 +74,14 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
         const ys = pts.map((p) => p.gap_eV * 1000);
         const sy = pts.map((p) => (p.gapSigma_eV ?? 0) * 1000);
         const sx = x.sigma ? pts.map((p) => x.sigma!(p) ?? 0) : null;
-        let errorBars: Record<string, unknown> = {
-          error_y: { type: "data", array: sy, visible: true, thickness: 1, width: 2, color: g.marker.color },
-          ...(sx ? { error_x: { type: "data", array: sx, visible: true, thickness: 1, width: 0, color: PHASE_LOOK.fieldErrorBar } } : {}),
-        };
+        const paths = errorBarPaths(xs.map((v, i) => ({ x: v, y: ys[i], sx: sx?.[i], sy: sy[i] })));
+        // Field bars of all series go in one shape with a legend entry of its own (below).
+        fieldBars += paths.horizontal;
+        let errorBars: Record<string, unknown> = { error_y: { type: "data", array: sy, visible: true, thickness: 1, width: 2, color: g.marker.color } };
         if (gl) {
-          // Under WebGL markers the bars are SVG paths below the canvas, in the series' legend
-          // group so that hiding the series hides its bars.
-          const paths = errorBarPaths(xs.map((v, i) => ({ x: v, y: ys[i], sx: sx?.[i], sy: sy[i] })));
-          const bar = (path: string, color: string) => ({ type: "path", path, xref: "x", yref: "y", layer: "below", line: { color, width: 1 }, legendgroup: g.name });
-          if (paths.horizontal) shapes.push(bar(paths.horizontal, PHASE_LOOK.fieldErrorBar));
-          if (paths.vertical) shapes.push(bar(paths.vertical, g.marker.color as string));
+          // Under WebGL markers the gap bars are an SVG path below the canvas, in the series'
+          // legend group so that hiding the series hides its bars.
+          if (paths.vertical) shapes.push({ type: "path", path: paths.vertical, xref: "x", yref: "y", layer: "below", line: { color: g.marker.color, width: 1 }, legendgroup: g.name });
           errorBars = { legendgroup: g.name };
         }
         traces.push({
@@ -100,6 +97,7 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
         });
       }
     }
+    if (fieldBars) shapes.push(fieldErrorBarShape(fieldBars, data.points.length));
     if (mode === "field" && theory.on) {
       const lambda = Number(theory.lambda_meV) / 1000;
       const ell_nm = Number(theory.ell_A) / 10;
@@ -192,9 +190,8 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
           <Plot
             data={figure.data}
             layout={figure.layout}
-            config={{ displaylogo: false, responsive: true, toImageButtonOptions: { filename } }}
+            config={{ displaylogo: false, toImageButtonOptions: { filename } }}
             style={{ width: "100%", height: "100%" }}
-            useResizeHandler
             // Until Plotly has drawn, a still drawing of the same figure stands in its place.
             placeholder={figure.ranges ? <PhasePreview data={data} showExcluded={showExcluded} ranges={figure.ranges} /> : undefined}
             onInitialized={(_f, gd) => (graph.current = gd)}

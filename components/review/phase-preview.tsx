@@ -1,12 +1,9 @@
 import { PLOT_STYLE } from "@/components/plots/plot";
 import { niceTicks } from "@/components/plots/ranges";
-import { PHASE_LOOK, PHASE_MARGIN, type PhaseData, type PhasePoint, type PhaseRanges, regionColors, regionOf } from "./phase-figure";
+import { PHASE_LOOK, PHASE_MARGIN, type PhaseData, type PhasePoint, type PhaseRanges, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
 
 /** Plotly's plot area inside the phase plot: its margins, with a one-row legend below. */
 const AREA = { ...PHASE_MARGIN, b: PHASE_MARGIN.b + 51 };
-
-/** Error bars are drawn for samples small enough that Plotly draws them as SVG too. */
-const ERROR_BARS_UP_TO = 1500;
 
 /**
  * A still drawing of the phase plot in field mode, rendered with the page (no script needed), shown
@@ -31,7 +28,7 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
   const ec = c.state === "crossed" && c.field_V_per_nm != null ? c.field_V_per_nm : null;
   const ci = ec != null ? [c.ci95_V_per_nm, "ci95Statistical_V_per_nm" in c ? c.ci95Statistical_V_per_nm : null] : [];
   const bars =
-    data.points.length <= ERROR_BARS_UP_TO
+    data.points.length < WEBGL_FROM
       ? data.points
           .filter((p) => showExcluded || !p.excluded)
           .map((p) => {

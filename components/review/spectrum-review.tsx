@@ -204,7 +204,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
           <input type="checkbox" checked={logY} onChange={(e) => setLogY(e.target.checked)} /> log scale
         </label>
       </div>
-      <div className="grid gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(300px,1fr)]">
+      <div className="grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(300px,1fr)]">
         <div className="rounded-xl border border-line bg-card p-3">
           <p className="px-2 pb-1 text-sm font-medium" data-testid="review-file">
             {data.sourceName} <span className="num text-xs font-normal text-muted">#{data.index}{data.label && !data.label.startsWith("spectrum") ? ` · ${data.label}` : ""}</span>
@@ -213,9 +213,8 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
             <Plot
               data={figure.data}
               layout={figure.layout}
-              config={{ displaylogo: false, responsive: true, edits: { shapePosition: canEdit }, toImageButtonOptions: { filename: fileStem(`${data.sourceName.replace(/\.[^.]+$/, "")} ${data.index} spectrum`) } }}
+              config={{ displaylogo: false, edits: { shapePosition: canEdit }, toImageButtonOptions: { filename: fileStem(`${data.sourceName.replace(/\.[^.]+$/, "")} ${data.index} spectrum`) } }}
               style={{ width: "100%", height: "100%" }}
-              useResizeHandler
               onRelayout={onRelayout as never}
             />
           </div>

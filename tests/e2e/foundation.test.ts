@@ -90,6 +90,9 @@ describe("lab home and forms", () => {
     expect(res?.status()).toBe(404);
     const res2 = await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/new`);
     expect(res2?.status()).toBe(404);
+    // The sample page streams its frame before its data; an unknown sample is still a 404 response.
+    const res3 = await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/00000000-0000-4000-8000-000000000000`);
+    expect(res3?.status()).toBe(404);
     await context.close();
   });
 

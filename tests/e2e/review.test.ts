@@ -189,6 +189,12 @@ describe("review in the browser", () => {
     expect(camera.suggestedFilename()).toBe("gx-20-bilayer-phase.png");
     const cam = fs.readFileSync((await camera.path())!);
     expect([cam.readUInt32BE(16), cam.readUInt32BE(20)]).toEqual([2 * size[0], 2 * size[1]]);
+    // The figure follows its box: a window of another width redraws it at the box's new width.
+    const widths = () => graph.evaluate((el) => [el.parentElement!.clientWidth, Number(el.querySelector(".main-svg")!.getAttribute("width"))]);
+    const [boxBefore, svgBefore] = await widths();
+    expect(Math.abs(svgBefore - boxBefore)).toBeLessThan(1);
+    await page.setViewportSize({ width: 640, height: 900 });
+    await expect.poll(async () => { const [b, w] = await widths(); return b !== boxBefore && Math.abs(w - b) < 1; }).toBe(true);
     await context.close();
   });
   it("a plotting library that fails to download gets a message and a retry that draws the plot", async () => {

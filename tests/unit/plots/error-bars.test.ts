@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { errorBarPaths } from "@/components/review/phase-figure";
+import { errorBarPaths, fieldErrorBarShape, WEBGL_FROM } from "@/components/review/phase-figure";
 
 /**
  * The phase plot's error bars under WebGL markers, as SVG path data in data coordinates. The
@@ -24,5 +24,24 @@ describe("errorBarPaths", () => {
     const { vertical, horizontal } = errorBarPaths([{ x: 2.5e-9, y: 123.456789, sx: 1e-10, sy: 0.1 }]);
     expect(vertical).toBe("M2.5e-9,123.3568V123.5568");
     expect(horizontal).toBe("M2.4e-9,123.4568H2.6e-9");
+  });
+});
+
+/**
+ * The field bars' σ comes from the field model and moves every point together; they are one
+ * legend entry that says so, shown for SVG-sized samples and hidden (legend only) from the WebGL
+ * size up, where thousands of overlapping bars would cover the data.
+ */
+describe("fieldErrorBarShape", () => {
+  it("is one path with a legend entry naming the shared model σ", () => {
+    const shape = fieldErrorBarShape("M0.95,100H1.05", 10);
+    expect(shape).toMatchObject({ type: "path", path: "M0.95,100H1.05", xref: "x", yref: "y", showlegend: true, visible: true });
+    expect(shape.name).toMatch(/model.*shared by all points/);
+  });
+
+  it("starts hidden, one legend click away, from the WebGL size up", () => {
+    expect(fieldErrorBarShape("M0,1H2", WEBGL_FROM - 1).visible).toBe(true);
+    expect(fieldErrorBarShape("M0,1H2", WEBGL_FROM).visible).toBe("legendonly");
+    expect(fieldErrorBarShape("M0,1H2", 5000).visible).toBe("legendonly");
   });
 });

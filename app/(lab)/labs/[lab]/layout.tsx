@@ -12,7 +12,7 @@ export default async function LabLayout({ children, params }: { children: React.
   const { actor } = ctx;
   const unread = await unreadCount({ ctx });
   return (
-    <div className="min-h-screen lg:grid lg:grid-cols-[232px_1fr] lg:bg-[linear-gradient(to_right,var(--color-night)_232px,transparent_232px)]">
+    <div className="min-h-screen lg:grid lg:grid-cols-[232px_minmax(0,1fr)] lg:bg-[linear-gradient(to_right,var(--color-night)_232px,transparent_232px)]">
       <LabNav
         lab={{ slug: actor.labSlug, name: actor.labName }}
         user={{ name: actor.name, email: actor.email, role: actor.role }}

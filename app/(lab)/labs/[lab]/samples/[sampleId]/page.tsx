@@ -63,7 +63,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
           </>
         }
       />
-      <div className="grid gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)]">
+      <div className="grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)]">
         <Card title="Gap versus estimated field">
           <PhasePlot lab={lab} sampleId={s.id} initial={packPhase(phase)} />
         </Card>
@@ -110,7 +110,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
         </Suspense>
       ) : null}
       <Suspense>
-      <div className="mt-5 grid gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)]">
+      <div className="mt-5 grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)]">
         <Card title="Analysis settings">
           <SettingsEditors
             lab={lab}
