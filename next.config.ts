@@ -7,33 +7,38 @@ import { vendorPlotly } from "./scripts/plotly-vendor";
  * every `next build`, `next dev` and `next start` has the one matching the lock file, and the
  * pages learn its address from BANDCROSS_PLOTLY_SRC. public/vendor/ is not committed.
  */
-const plotlySrc = vendorPlotly();
-
-const nextConfig: NextConfig = {
-  serverExternalPackages: ["pg", "pg-boss", "s3rver"],
-  poweredByHeader: false,
-  env: { BANDCROSS_PLOTLY_SRC: plotlySrc },
-  // The app's own files; `npm run typecheck` checks everything, scripts and tests included.
-  typescript: { tsconfigPath: "tsconfig.app.json" },
-  typedRoutes: false,
-  experimental: { serverActions: { bodySizeLimit: "2mb" } },
-  async headers() {
-    return [
-      {
-        source: "/(.*)",
-        headers: [
-          { key: "X-Content-Type-Options", value: "nosniff" },
-          { key: "Referrer-Policy", value: "same-origin" },
-          { key: "X-Frame-Options", value: "DENY" },
-        ],
-      },
-      {
-        // Versioned file names: a new library version is a new address.
-        source: "/vendor/:file*",
-        headers: [{ key: "Cache-Control", value: "public, max-age=31536000, immutable" }],
-      },
-    ];
-  },
-};
-
-export default nextConfig;
+export default async function nextConfig(): Promise<NextConfig> {
+  const plotlySrc = await vendorPlotly();
+  return {
+    serverExternalPackages: ["pg", "pg-boss", "s3rver"],
+    poweredByHeader: false,
+    env: { BANDCROSS_PLOTLY_SRC: plotlySrc },
+    // The app's own files; `npm run typecheck` checks everything, scripts and tests included.
+    typescript: { tsconfigPath: "tsconfig.app.json" },
+    typedRoutes: false,
+    experimental: { serverActions: { bodySizeLimit: "2mb" } },
+    async headers() {
+      return [
+        {
+          source: "/(.*)",
+          headers: [
+            { key: "X-Content-Type-Options", value: "nosniff" },
+            { key: "Referrer-Policy", value: "same-origin" },
+            { key: "X-Frame-Options", value: "DENY" },
+          ],
+        },
+        {
+          // Pages that plot: the browser starts fetching the library with the response's headers,
+          // before it has parsed any HTML.
+          source: "/labs/:lab/(samples|spectra)/:id",
+          headers: [{ key: "Link", value: `<${plotlySrc}>; rel=preload; as=script; fetchpriority=high` }],
+        },
+        {
+          // Content-keyed file names: new content is a new address.
+          source: "/vendor/:file*",
+          headers: [{ key: "Cache-Control", value: "public, max-age=31536000, immutable" }],
+        },
+      ];
+    },
+  };
+}
