@@ -7,10 +7,10 @@
  *    first frame after the plot's first `plotly_afterplot` (Plotly's "drawn" event): a
  *    requestAnimationFrame and then a task, so the time includes the browser putting the WebGL
  *    canvases on screen and the page being free to answer the pointer. The library's arrival, the
- *    plotting call's start and afterplot are printed on the way. Four loads in one fresh browser
- *    profile: the first visit and three returning ones (Chrome compiles and caches the library's
- *    code over the first visits); the goal (≤ 1 s) is judged on the first visit and on the slowest
- *    returning one.
+ *    plotting call's start and afterplot are printed on the way. Three fresh browser profiles,
+ *    each with a first visit and two returning ones (Chrome caches the library and its compiled
+ *    code after the first); the goal (≤ 1 s) is judged on the median first visit and the median
+ *    returning one, the slowest of each printed beside them.
  * 2. Review: ArrowRight on /labs/{lab}/spectra/{id}, timed in the page from the key event to the
  *    change of the position text ("n of N"), 20 moves, median (goal < 100 ms). Between moves the
  *    page is left to settle (its prefetch of the next spectrum), as an analyst looks at each one.
@@ -44,6 +44,19 @@ function plotHooks() {
   });
 }
 
+const PROFILES = 3;
+const RETURNING = 2;
+
+type Load = Awaited<ReturnType<typeof phaseLoad>>;
+const after = (l: Load) => l.framed - l.dataAt;
+
+async function signIn(page: Page, appUrl: string, lab: { slug: string; email: string }) {
+  await page.goto(`${appUrl}/sign-in`);
+  await page.fill('[data-testid="sign-in-form"] input[name="email"]', lab.email);
+  await page.fill('[data-testid="sign-in-form"] input[name="password"]', BENCH_PASSWORD);
+  await Promise.all([page.waitForURL(`**/labs/${lab.slug}`, { timeout: 30_000 }), page.click('[data-testid="sign-in-submit"]')]);
+}
+
 async function phaseLoad(page: Page, url: string) {
   await page.goto(url, { waitUntil: "commit" });
   await page.waitForFunction(() => (window as unknown as { __bxPlots?: { framed: number[] }[] }).__bxPlots?.some((p) => p.framed.length > 0), null, { timeout: 30_000 });
@@ -69,39 +82,40 @@ export async function run() {
     args: ["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--disable-dev-shm-usage"],
   });
   try {
-    const context = await browser.newContext({ viewport: { width: 1400, height: 900 } });
-    await context.addInitScript(plotHooks);
-    const page = await context.newPage();
-    await page.goto(`${appUrl}/sign-in`);
-    await page.fill('[data-testid="sign-in-form"] input[name="email"]', lab.email);
-    await page.fill('[data-testid="sign-in-form"] input[name="password"]', BENCH_PASSWORD);
-    await Promise.all([page.waitForURL(`**/labs/${lab.slug}`, { timeout: 30_000 }), page.click('[data-testid="sign-in-submit"]')]);
-
-    // 1. The phase plot.
+    // 1. The phase plot, in three fresh browser profiles (each a browser's first visit, then two
+    // returning ones): single loads on a 2-core machine vary by ±150 ms.
     const sampleUrl = `${appUrl}/labs/${lab.slug}/samples/${s.sampleId}`;
-    const loads: Awaited<ReturnType<typeof phaseLoad>>[] = [];
-    for (let i = 0; i < 4; i++) loads.push(await phaseLoad(page, sampleUrl));
-    line(`phase plot of ${loads[0].points} points (WebGL markers), sample page loaded ${loads.length} times in one fresh browser profile:`);
-    loads.forEach((l, i) =>
-      line(
-        `  load ${i + 1}${i === 0 ? " (first visit)" : " (returning)"}: data in at ${l.dataAt.toFixed(0)} ms, plotting library (${l.plotlyChunkKB.toFixed(0)} KB) at ${l.plotlyChunkAt.toFixed(0)} ms, plotting from ${l.start.toFixed(0)} ms, afterplot at ${l.afterplot.toFixed(0)} ms, on screen at ${l.framed.toFixed(0)} ms → ${(l.framed - l.dataAt).toFixed(0)} ms after the data (plotting itself ${(l.framed - l.start).toFixed(0)} ms)`,
-      ),
-    );
-    // Load 1 is a browser's first visit: it compiles the plotting library (1.6 MB, only the trace
-    // types Bandcross draws) from source. Later loads are what returning visits look like (the
-    // library and its compiled code come from the browser's caches). Both are judged.
-    const after = (l: (typeof loads)[number]) => l.framed - l.dataAt;
-    verdict(`phase plot after its data, returning (slowest of ${loads.length - 1})`, Math.max(...loads.slice(1).map(after)), 1000, "ms", 0);
-    verdict("phase plot after its data, first visit", after(loads[0]), 1000, "ms", 0);
+    const firsts: Load[] = [];
+    const returning: Load[] = [];
+    for (let profile = 1; profile <= PROFILES; profile++) {
+      const context = await browser.newContext({ viewport: { width: 1400, height: 900 } });
+      await context.addInitScript(plotHooks);
+      const page = await context.newPage();
+      await signIn(page, appUrl, lab);
+      for (let i = 0; i < 1 + RETURNING; i++) {
+        const l = await phaseLoad(page, sampleUrl);
+        (i === 0 ? firsts : returning).push(l);
+        if (profile === 1 && i === 0) line(`phase plot of ${l.points} points (WebGL markers), sample page loaded ${1 + RETURNING} times in each of ${PROFILES} fresh browser profiles:`);
+        line(
+          `  profile ${profile} load ${i + 1}${i === 0 ? " (first visit)" : " (returning)"}: data in at ${l.dataAt.toFixed(0)} ms, plotting library (${l.plotlyChunkKB.toFixed(0)} KB) at ${l.plotlyChunkAt.toFixed(0)} ms, plotting from ${l.start.toFixed(0)} ms, afterplot at ${l.afterplot.toFixed(0)} ms, on screen at ${l.framed.toFixed(0)} ms → ${after(l).toFixed(0)} ms after the data (plotting itself ${(l.framed - l.start).toFixed(0)} ms)`,
+        );
+      }
+      await context.close();
+    }
+    // A first visit compiles the plotting library (1.6 MB, only the trace types Bandcross draws)
+    // and the drawing code from source; returning visits get both from the browser's caches.
+    // Judged on the median (the figure a user meets), the slowest printed beside it.
+    const figures = (xs: Load[]) => xs.map(after);
+    line(`  first visits: ${figures(firsts).map((v) => v.toFixed(0)).join(", ")} ms; returning: ${figures(returning).map((v) => v.toFixed(0)).join(", ")} ms`);
+    verdict(`phase plot after its data, first visit (median of ${firsts.length})`, quantileOf(figures(firsts), 0.5), 1000, "ms", 0);
+    verdict(`phase plot after its data, returning (median of ${returning.length})`, quantileOf(figures(returning), 0.5), 1000, "ms", 0);
+    line(`  slowest: first visit ${Math.max(...figures(firsts)).toFixed(0)} ms, returning ${Math.max(...figures(returning)).toFixed(0)} ms`);
 
     // 2. Keyboard review, bounded: a review screen that stops answering is reported, not waited for.
     // In a fresh context without the plot-timing hooks, which the review's editable shapes do not need.
     const reviewContext = await browser.newContext({ viewport: { width: 1400, height: 900 } });
     const reviewPage = await reviewContext.newPage();
-    await reviewPage.goto(`${appUrl}/sign-in`);
-    await reviewPage.fill('[data-testid="sign-in-form"] input[name="email"]', lab.email);
-    await reviewPage.fill('[data-testid="sign-in-form"] input[name="password"]', BENCH_PASSWORD);
-    await Promise.all([reviewPage.waitForURL(`**/labs/${lab.slug}`, { timeout: 30_000 }), reviewPage.click('[data-testid="sign-in-submit"]')]);
+    await signIn(reviewPage, appUrl, lab);
     const review = reviewMoves(reviewPage, appUrl, lab.slug, s.sampleId);
     review.catch(() => {}); // after a timeout the page is closed under it
     const outcome = await Promise.race([review.then(() => "done" as const), new Promise<"timeout">((r) => setTimeout(() => r("timeout"), 60_000))]);
@@ -109,7 +123,6 @@ export async function run() {
       line("review: the 20 moves did not finish within 60 s");
       verdict("review: next spectrum (median of 20 moves)", Infinity, 100, "ms", 1);
     }
-    await context.close();
   } finally {
     await browser.close();
   }

@@ -1,0 +1,37 @@
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { afterAll, describe, expect, it } from "vitest";
+import { PLOTLY_TRACES, plotlyVendorFile, vendorPlotly } from "@/scripts/plotly-vendor";
+
+/**
+ * The plotting library's build step, as `next build` runs it from a fresh clone: the file appears
+ * under public/vendor/ with a content-keyed name, holds the trace types we draw, and carries the
+ * changes to its dependencies (the build throws if one of them no longer matches).
+ */
+describe("vendorPlotly", () => {
+  const root = fs.mkdtempSync(path.join(os.tmpdir(), "bandcross-vendor-"));
+  afterAll(() => fs.rmSync(root, { recursive: true, force: true }));
+
+  it("builds the library once, under a name keyed by what decides its content", async () => {
+    const stale = path.join(root, "public", "vendor", "plotly-0.0.0-old.min.js");
+    fs.mkdirSync(path.dirname(stale), { recursive: true });
+    fs.writeFileSync(stale, "old build");
+    const src = await vendorPlotly(root);
+    const { file } = plotlyVendorFile(root);
+    expect(src).toMatch(/^\/vendor\/plotly-\d+\.\d+\.\d+-[0-9a-f]{10}\.min\.js$/);
+    expect(path.basename(file)).toBe(path.basename(src));
+    const text = fs.readFileSync(file, "utf8");
+    // A browser script that defines the global the pages read.
+    expect(text).toMatch(/^(\/\*[\s\S]*?\*\/\s*)*var Plotly=/);
+    // The trace types beyond the core, by the names Plotly registers them under.
+    for (const t of PLOTLY_TRACES) expect(text).toContain(`"${t}"`);
+    // The focus canvas made on the first selection (patches 2 and 3): property names survive minifying.
+    expect(text.split("_focusReglWanted").length - 1).toBe(2);
+    // Older builds are removed; a second call keeps the file as it is.
+    expect(fs.existsSync(stale)).toBe(false);
+    const mtime = fs.statSync(file).mtimeMs;
+    await vendorPlotly(root);
+    expect(fs.statSync(file).mtimeMs).toBe(mtime);
+  }, 60_000);
+});
