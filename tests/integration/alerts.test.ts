@@ -1,6 +1,6 @@
 import type { ChildProcess } from "node:child_process";
 import { randomUUID } from "node:crypto";
-import { and, desc, eq } from "drizzle-orm";
+import { and, desc, eq, sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
 import { analysisRuns, crossingEvents, crossings, mailLog, memberships, sampleAccess, subscriptions, users } from "@/db/schema";
@@ -338,5 +338,20 @@ describe("race-free event decisions", () => {
       if (events.length === 2) expect(events[1]).toMatchObject({ kind: "moved", fieldVPerNm: 1.5 });
       await db().delete(crossings).where(eq(crossings.sampleId, race.id));
     }
+  });
+
+  it("dates each event when it is decided, so a decision in an older transaction still comes after the event it saw", async () => {
+    const s = await createSample({ ctx: lab.ctx("owner"), input: { name: `Order ${randomUUID().slice(0, 4)}`, material: "germanene", workFunction_eV: 3.9, workFunctionSigma_eV: 0.1 } });
+    const row = (field: number) => ({ labId: lab.lab.id, sampleId: s.id, state: "crossed" as const, found: true, fieldVPerNm: field, ci95LoVPerNm: field - 0.05, ci95HiVPerNm: field + 0.05, nPoints: 20, comparison: {} });
+    const [c1] = await db().insert(crossings).values(row(1.0)).returning();
+    await db().transaction(async (tx) => {
+      await tx.execute(sql`select 1`); // this transaction has begun: its now() is fixed from here
+      await new Promise((r) => setTimeout(r, 20));
+      expect((await afterRefit(db(), { current: c1 }))?.kind).toBe("found"); // another connection, committed
+      const [c2] = await tx.insert(crossings).values(row(1.5)).returning();
+      expect((await afterRefit(tx, { current: c2 }))?.kind).toBe("moved"); // decided after 'found', in the older transaction
+    });
+    const events = await db().select().from(crossingEvents).where(eq(crossingEvents.sampleId, s.id)).orderBy(crossingEvents.createdAt);
+    expect(events.map((e) => e.kind)).toEqual(["found", "moved"]);
   });
 });

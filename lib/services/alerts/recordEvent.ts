@@ -59,6 +59,10 @@ export async function recordEvent(
       fieldVPerNm: c.fieldVPerNm,
       ci95LoVPerNm: c.ci95LoVPerNm,
       ci95HiVPerNm: c.ci95HiVPerNm,
+      // The time of the decision, taken under the sample's lock: now() is when the transaction
+      // began, which for two racing refits can put the later decision first, and the latest
+      // event (what the next decision compares with) is found by this column.
+      createdAt: sql`clock_timestamp()`,
       data: {
         state: c.state,
         status: c.status,
