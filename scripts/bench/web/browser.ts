@@ -9,8 +9,10 @@
  *    canvases on screen and the page being free to answer the pointer. The library's arrival, the
  *    plotting call's start and afterplot are printed on the way. Three fresh browser profiles,
  *    each with a first visit and two returning ones (Chrome caches the library and its compiled
- *    code after the first); the goal (≤ 1 s) is judged on the median first visit and the median
- *    returning one, the slowest of each printed beside them.
+ *    code after the first); and, the common way in, three fresh profiles that open the sample
+ *    with a click from the lab's sample list after 3 s there (the data then arrives in the
+ *    navigation's RSC response). The goal (≤ 1 s) is judged on the median of each of the three,
+ *    the slowest printed beside them.
  * 2. Review: ArrowRight on /labs/{lab}/spectra/{id}, timed in the page from the key event to the
  *    change of the position text ("n of N"), 20 moves, median (goal < 100 ms). Between moves the
  *    page is left to settle (its prefetch of the next spectrum), as an analyst looks at each one.
@@ -73,6 +75,25 @@ async function phaseLoad(page: Page, url: string) {
   });
 }
 
+/** Waits 3 s on the sample list, clicks the sample, times as phaseLoad with the RSC response as the data. */
+async function listClick(page: Page, sampleId: string): Promise<Load> {
+  await page.waitForSelector('[data-testid="samples-table"]');
+  await page.waitForTimeout(3000);
+  const clickedAt = await page.evaluate(() => performance.now());
+  await page.click(`[data-testid="samples-table"] a[href$="/samples/${sampleId}"]`);
+  await page.waitForFunction(() => (window as unknown as { __bxPlots?: { framed: number[] }[] }).__bxPlots?.some((p) => p.framed.length > 0), null, { timeout: 30_000 });
+  return page.evaluate(
+    ({ id, clickedAt }) => {
+      const res = performance.getEntriesByType("resource") as PerformanceResourceTiming[];
+      const rsc = res.filter((r) => r.name.includes(`/samples/${id}`) && r.responseEnd > clickedAt).map((r) => r.responseEnd);
+      const p = (window as unknown as { __bxPlots: { start: number; afterplot: number[]; framed: number[] }[] }).__bxPlots.find((x) => x.framed.length)!;
+      const points = Number(document.querySelector('[data-testid="phase-plot"]')?.getAttribute("data-points"));
+      return { dataAt: rsc.length ? Math.max(...rsc) : NaN, plotlyChunkAt: NaN, plotlyChunkKB: 0, start: p.start, afterplot: p.afterplot[0], framed: p.framed[0], points, domContentLoaded: NaN };
+    },
+    { id: sampleId, clickedAt },
+  );
+}
+
 export async function run() {
   const { appUrl } = requireStack();
   const lab = await benchLab();
@@ -102,13 +123,27 @@ export async function run() {
       }
       await context.close();
     }
+    // The common way in: from the lab's sample list, after a few seconds there (the lab pages
+    // fetch and compile the plotting library when idle), a click on the sample; the page's data
+    // arrives in the navigation's RSC response.
+    const navs: Load[] = [];
+    for (let k = 0; k < 3; k++) {
+      const context = await browser.newContext({ viewport: { width: 1400, height: 900 } });
+      await context.addInitScript(plotHooks);
+      const page = await context.newPage();
+      await signIn(page, appUrl, lab);
+      navs.push(await listClick(page, s.sampleId));
+      await context.close();
+    }
+    line(`  opened from the sample list (a click, client-side navigation), 3 fresh profiles: ${navs.map((l) => `${after(l).toFixed(0)} ms after the data (in at ${l.dataAt.toFixed(0)}, on screen at ${l.framed.toFixed(0)})`).join("; ")}`);
     // A first visit compiles the plotting library (1.6 MB, only the trace types Bandcross draws)
     // and the drawing code from source; returning visits get both from the browser's caches.
     // Judged on the median (the figure a user meets), the slowest printed beside it.
     const figures = (xs: Load[]) => xs.map(after);
     line(`  first visits: ${figures(firsts).map((v) => v.toFixed(0)).join(", ")} ms; returning: ${figures(returning).map((v) => v.toFixed(0)).join(", ")} ms`);
-    verdict(`phase plot after its data, first visit (median of ${firsts.length})`, quantileOf(figures(firsts), 0.5), 1000, "ms", 0);
-    verdict(`phase plot after its data, returning (median of ${returning.length})`, quantileOf(figures(returning), 0.5), 1000, "ms", 0);
+    verdict(`phase plot after data: first visit, median of ${firsts.length}`, quantileOf(figures(firsts), 0.5), 1000, "ms", 0);
+    verdict(`phase plot after data: returning, median of ${returning.length}`, quantileOf(figures(returning), 0.5), 1000, "ms", 0);
+    verdict(`phase plot after data: from the list, median of ${navs.length}`, quantileOf(navs.map(after), 0.5), 1000, "ms", 0);
     line(`  slowest: first visit ${Math.max(...figures(firsts)).toFixed(0)} ms, returning ${Math.max(...figures(returning)).toFixed(0)} ms`);
 
     // 2. Keyboard review, bounded: a review screen that stops answering is reported, not waited for.
