@@ -1,5 +1,5 @@
 import type { Browser, BrowserContext, Page } from "playwright-core";
-import { eq } from "drizzle-orm";
+import { and, asc, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
 import { gapPicks, spectra } from "@/db/schema";
@@ -8,7 +8,7 @@ import { createSample } from "@/lib/services/samples/createSample";
 import { createSession } from "@/lib/services/sessions/sessions";
 import { createTip } from "@/lib/services/tips/tips";
 import { processUpload } from "@/lib/services/uploads/processUpload";
-import { makeSweep, spectrumToCsv } from "@/lib/spectra";
+import { columnsToCsv, makeSpectrum, makeSweep, spectrumToCsv } from "@/lib/spectra";
 import { APP_URL, launch, shot, SignInPage, signedIn as signedInAs } from "../support/browser";
 import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
 import { bytesOf, uploadFile } from "../support/pipeline";
@@ -209,6 +209,51 @@ describe("review in the browser", () => {
     await alert.locator("button", { hasText: "Retry" }).click();
     await page.waitForSelector('[data-testid="phase-plot"] .main-svg');
     expect(await alert.count()).toBe(0);
+    await context.close();
+  });
+
+  it("a grid upload shows the gap over position; clicking a cell opens that spectrum; compare overlays two samples", async () => {
+    const owner = lab.ctx("owner");
+    const mapId = (await createSample({ ctx: owner, input: { name: "SN-map 4x4", material: "stanene", workFunction_eV: 4.3, workFunctionSigma_eV: 0.1 } })).id;
+    const sessionId = (await createSession({ ctx: owner, input: { sampleId: mapId, label: "grid", date: "2026-11-27", temperature_K: 4.5 } })).id;
+    // A 4 × 4 grid, 0.5 nm apart, whose gap is smallest in one corner.
+    const cols = [];
+    let bias: Float64Array | null = null;
+    for (let k = 0; k < 16; k++) {
+      const gap = 0.08 + 0.01 * k;
+      const sp = makeSpectrum({ vbEdge_V: -gap / 2, cbEdge_V: gap / 2, T_K: 4.5, vrms_mV: 2, noise: 0.02, seed: 900 + k, step_V: 0.004 });
+      bias ??= sp.bias_V;
+      cols.push({ label: `px${k}`, didv: sp.didv });
+    }
+    const csv = columnsToCsv(bias!, cols, { setpoint_bias_V: 0.6, setpoint_current_A: 2e-10, temperature_K: 4.5, lockin_modulation_mV_rms: 2, extra: { grid: "4 x 4", grid_step_nm: "0.5" } });
+    const { id: uploadId } = await uploadFile(owner, sessionId, "grid-4x4.csv", bytesOf(csv));
+    await processUpload(db(), uploadId);
+    const [corner] = await db().select({ id: spectra.id }).from(spectra).where(and(eq(spectra.sampleId, mapId), eq(spectra.xNm, 0), eq(spectra.yNm, 0))).orderBy(asc(spectra.id));
+    expect(corner).toBeDefined();
+
+    const { context, page } = await signedIn(lab.people.collaborator.email);
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${mapId}`);
+    const map = page.locator('[data-testid="gap-map"]');
+    expect(await map.textContent()).toContain("grid-4x4.csv · 16 spectra");
+    // Plotly draws a heatmap as one image over the cells' area.
+    const cells = map.locator(".heatmaplayer image");
+    await cells.waitFor();
+    await shot(page, "gap-map");
+    await cells.scrollIntoViewIfNeeded();
+    const area = (await cells.boundingBox())!;
+    // The cell at x = 0, y = 0: left column, bottom row (y grows upwards). Plotly takes the point
+    // under the pointer from its hover, so the pointer rests there before the click.
+    const [cx, cy] = [area.x + area.width / 8, area.y + (area.height * 7) / 8];
+    await page.mouse.move(cx, cy);
+    await map.locator(".hoverlayer .hovertext").waitFor();
+    await Promise.all([page.waitForURL(`**/spectra/${corner.id}`), page.mouse.click(cx, cy)]);
+    await page.waitForSelector('[data-testid="spectrum-review"]');
+
+    // Compare: both samples on one field axis, one legend entry each.
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/compare`);
+    await page.waitForSelector(".js-plotly-plot .main-svg");
+    await expect.poll(() => page.locator(".js-plotly-plot .legendtext").allTextContents()).toEqual(expect.arrayContaining(["GX-20 bilayer", "SN-map 4x4"]));
+    await shot(page, "compare");
     await context.close();
   });
 });
