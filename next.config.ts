@@ -1,14 +1,16 @@
 import type { NextConfig } from "next";
-import { vendorPlotly } from "./scripts/plotly-vendor";
+import { PHASE_PRODUCTION_SERVER } from "next/constants";
+import { builtPlotly, vendorPlotly } from "./scripts/plotly-vendor";
 
 /**
  * The plotting library ships as a static file of its own, built from the installed sources with
  * only the trace types Bandcross draws (scripts/plotly-vendor.ts, components/plots/plotly-script.ts);
  * every `next build`, `next dev` and `next start` has the one matching the lock file, and the
- * pages learn its address from BANDCROSS_PLOTLY_SRC. public/vendor/ is not committed.
+ * pages learn its address from BANDCROSS_PLOTLY_SRC. public/vendor/ is not committed. `next start`
+ * uses the file the build made (its pages name it) and never removes one.
  */
-export default async function nextConfig(): Promise<NextConfig> {
-  const plotlySrc = await vendorPlotly();
+export default async function nextConfig(phase: string): Promise<NextConfig> {
+  const plotlySrc = phase === PHASE_PRODUCTION_SERVER ? await builtPlotly() : await vendorPlotly();
   return {
     serverExternalPackages: ["pg", "pg-boss", "s3rver"],
     poweredByHeader: false,

@@ -101,6 +101,25 @@ export function plotlyVendorFile(root = process.cwd()): { src: string; file: str
 }
 
 /**
+ * For `next start`: the library the build made (the pages name it in their code), found in
+ * public/vendor/ rather than recomputed, so a server whose installed packages differ from the
+ * build machine's still points at the file its pages ask for; built only if there is none.
+ */
+export async function builtPlotly(root = process.cwd()): Promise<string> {
+  const { src, file } = plotlyVendorFile(root);
+  if (fs.existsSync(file)) return src;
+  const dir = path.dirname(file);
+  const built = fs.existsSync(dir)
+    ? fs
+        .readdirSync(dir)
+        .filter((f) => /^plotly-.*\.min\.js$/.test(f))
+        .map((f) => ({ f, t: fs.statSync(path.join(dir, f)).mtimeMs }))
+        .sort((a, b) => b.t - a.t)
+    : [];
+  return built.length ? `/vendor/${built[0].f}` : vendorPlotly(root);
+}
+
+/**
  * Builds the file (from the packages installed in the working directory) into `root`/public/vendor/
  * unless it is there, removes that folder's other Plotly builds, and returns
  * its address. Written to a temporary name and renamed, so a server reading the folder never sees

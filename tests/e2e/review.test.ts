@@ -239,14 +239,22 @@ describe("review in the browser", () => {
     const cells = map.locator(".heatmaplayer image");
     await cells.waitFor();
     await shot(page, "gap-map");
-    await cells.scrollIntoViewIfNeeded();
-    const area = (await cells.boundingBox())!;
     // The cell at x = 0, y = 0: left column, bottom row (y grows upwards). Plotly takes the point
-    // under the pointer from its hover, so the pointer rests there before the click.
-    const [cx, cy] = [area.x + area.width / 8, area.y + (area.height * 7) / 8];
-    await page.mouse.move(cx, cy);
-    await map.locator(".hoverlayer .hovertext").waitFor();
-    await Promise.all([page.waitForURL(`**/spectra/${corner.id}`), page.mouse.click(cx, cy)]);
+    // under the pointer from its hover, so the pointer rests there first, until the hover names
+    // that cell (the cards beside the map may still move the page as they load).
+    const hover = map.locator(".hoverlayer .hovertext");
+    let at: [number, number] = [0, 0];
+    await expect
+      .poll(async () => {
+        await cells.scrollIntoViewIfNeeded();
+        const area = (await cells.boundingBox())!;
+        at = [area.x + area.width / 8, area.y + (area.height * 7) / 8];
+        await page.mouse.move(at[0] + 1, at[1]);
+        await page.mouse.move(at[0], at[1]);
+        return (await hover.count()) ? await hover.textContent() : "";
+      })
+      .toContain("x 0.00 nm, y 0.00 nm");
+    await Promise.all([page.waitForURL(`**/spectra/${corner.id}`), page.mouse.click(at[0], at[1])]);
     await page.waitForSelector('[data-testid="spectrum-review"]');
 
     // Compare: both samples on one field axis, one legend entry each.

@@ -2,7 +2,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
-import { PLOTLY_TRACES, plotlyVendorFile, vendorPlotly } from "@/scripts/plotly-vendor";
+import { builtPlotly, PLOTLY_TRACES, plotlyVendorFile, vendorPlotly } from "@/scripts/plotly-vendor";
 
 /**
  * The plotting library's build step, as `next build` runs it from a fresh clone: the file appears
@@ -34,4 +34,18 @@ describe("vendorPlotly", () => {
     await vendorPlotly(root);
     expect(fs.statSync(file).mtimeMs).toBe(mtime);
   }, 60_000);
+
+  it("on a server (next start), points at the file the build made and removes nothing", async () => {
+    const other = fs.mkdtempSync(path.join(os.tmpdir(), "bandcross-vendor-"));
+    try {
+      const dir = path.join(other, "public", "vendor");
+      fs.mkdirSync(dir, { recursive: true });
+      // A build made elsewhere, under another key (say, another esbuild version on the build machine).
+      fs.writeFileSync(path.join(dir, "plotly-4.1.1-0123456789.min.js"), "var Plotly={}");
+      expect(await builtPlotly(other)).toBe("/vendor/plotly-4.1.1-0123456789.min.js");
+      expect(fs.readdirSync(dir)).toEqual(["plotly-4.1.1-0123456789.min.js"]);
+    } finally {
+      fs.rmSync(other, { recursive: true, force: true });
+    }
+  });
 });
