@@ -13,7 +13,7 @@ import path from "node:path";
  * 1.6 MB and took 0.4-0.5 s (measurements in DEVELOPERS.md).
  *
  * The name's key is a hash of everything that decides the file's content (the entry below, the
- * versions of plotly.js and esbuild, the build options), so the address changes exactly when the
+ * versions of plotly.js and esbuild, the build options, the patches), so the address changes when the
  * content can, and the file can be cached for a year. Built once: an existing file is kept.
  */
 
@@ -39,7 +39,8 @@ const OPTIONS = {
   globalName: "Plotly",
   target: "es2020",
   legalComments: "inline",
-  // Node's `global` in some of Plotly's dependencies; `buffer` is the browser package of that name.
+  // Node's `global` in some of Plotly's dependencies. Their `require("buffer")` finds the browser
+  // package of that name, a dependency of ours for this reason.
   define: { global: "window" },
   // Plotly asks for the map library's stylesheet when a map trace registers; there is none here.
   loader: { ".css": "empty" },
