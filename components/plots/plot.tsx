@@ -76,8 +76,8 @@ export function Plot({ placeholder, ...props }: Omit<PlotParams, "useResizeHandl
   preinit(PLOTLY_SRC, { as: "script", fetchPriority: "high" });
   const [loaded, setLoaded] = useState<Loaded | { error: Error } | null>(null);
   const [attempt, setAttempt] = useState(0);
-  const [drawn, setDrawn] = useState(false);
   const box = useRef<HTMLDivElement>(null);
+  /** The graph div, once Plotly has drawn into it. */
   const [graph, setGraph] = useState<HTMLElement | null>(null);
   const Plotly = loaded && "Plotly" in loaded ? loaded.Plotly : null;
   // The figure follows its box, whatever changes the box's size (the window, a side panel, the
@@ -126,7 +126,6 @@ export function Plot({ placeholder, ...props }: Omit<PlotParams, "useResizeHandl
           }}
           useResizeHandler={false}
           onInitialized={(figure, gd) => {
-            setDrawn(true);
             setGraph(gd);
             props.onInitialized?.(figure, gd);
           }}
@@ -146,7 +145,7 @@ export function Plot({ placeholder, ...props }: Omit<PlotParams, "useResizeHandl
             Retry
           </button>
         </div>
-      ) : !drawn ? (
+      ) : !graph ? (
         (placeholder ?? <div className="absolute inset-0 animate-pulse rounded-lg bg-line/50" aria-label="Loading the plot" />)
       ) : null}
     </div>

@@ -6,7 +6,7 @@ import { axis, baseLayout, COLORS, Plot } from "@/components/plots/plot";
 import { api } from "@/lib/api-client";
 import { fileStem, formatField } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
-import { errorBarPaths } from "./phase-figure";
+import { errorBarPaths, gapErrorBarShape, WEBGL_FROM } from "./phase-figure";
 import type { PhaseData } from "./phase-plot";
 
 /** Phase plots of several samples, or of the regions of one, overlaid on one field axis. */
@@ -27,10 +27,10 @@ export function ComparePlot({ lab, samples }: { lab: string; samples: { id: stri
         const x = pts.map((p) => p.field_V_per_nm);
         const y = pts.map((p) => p.gap_eV * 1000);
         const sy = pts.map((p) => (p.gapSigma_eV ?? 0) * 1000);
-        const gl = pts.length > 1500;
+        const gl = pts.length >= WEBGL_FROM;
         // As on the phase plot: WebGL series get their error bars as an SVG path in their legend group.
         const bars = gl ? errorBarPaths(x.map((v, i) => ({ x: v, y: y[i], sy: sy[i] }))).vertical : "";
-        if (bars) shapes.push({ type: "path", path: bars, xref: "x", yref: "y", layer: "below", line: { color, width: 1 }, legendgroup: g.name });
+        if (bars) shapes.push(gapErrorBarShape(bars, color, g.name));
         traces.push({ type: gl ? "scattergl" : "scatter", mode: "markers", name: g.name, x, y, marker: { color, size: 6, symbol: "circle" }, ...(gl ? { legendgroup: g.name } : { error_y: { type: "data", array: sy, thickness: 1, width: 0, color } }) });
         const c = d.crossing;
         if (!byRegion && "curve" in c && c.curve && c.state !== "none") traces.push({ type: "scatter", mode: "lines", x: c.curve.field, y: c.curve.gap.map((v: number) => v * 1000), line: { color, width: 2 }, name: `${d.sample.name} fit`, showlegend: false, hoverinfo: "skip" });

@@ -107,3 +107,10 @@ export function fieldErrorBarShape(path: string, pointCount: number): Record<str
   };
 }
 
+/**
+ * The gap-direction error bars of a WebGL series, as one SVG path shape below the canvas, in the
+ * series' legend group so that hiding the series hides its bars.
+ */
+export function gapErrorBarShape(path: string, color: string, legendgroup: string): Record<string, unknown> {
+  return { type: "path", path, xref: "x", yref: "y", layer: "below", line: { color, width: 1 }, legendgroup };
+}

@@ -4,7 +4,7 @@ import { useQuery } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useMemo, useRef, useState } from "react";
 import { axis, baseLayout, downloadFigure, Plot } from "@/components/plots/plot";
-import { errorBarPaths, fieldErrorBarShape, fieldModeRanges, PHASE_LOOK, PHASE_MARGIN, type PhaseData, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
+import { errorBarPaths, fieldErrorBarShape, gapErrorBarShape, fieldModeRanges, PHASE_LOOK, PHASE_MARGIN, type PhaseData, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
 import { type PackedPhase, unpackPhase } from "./phase-pack";
 import { PhasePreview } from "./phase-preview";
 import { api } from "@/lib/api-client";
@@ -19,8 +19,6 @@ const X_AXIS: Record<XMode, { title: string; type?: "log"; of: (p: PhaseData["po
   distance: { title: "estimated tip–sample distance d (nm)", of: (p) => p.distance_nm },
   conductance: { title: "setpoint conductance |I/V| (S)", type: "log", of: (p) => p.setpointConductance_S },
 };
-
-/** Above this many points the markers are drawn with WebGL. */
 
 /**
  * Gap versus estimated field: error bars both ways, one series per region, corrected picks as
@@ -79,9 +77,8 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
         fieldBars += paths.horizontal;
         let errorBars: Record<string, unknown> = { error_y: { type: "data", array: sy, visible: true, thickness: 1, width: 2, color: g.marker.color } };
         if (gl) {
-          // Under WebGL markers the gap bars are an SVG path below the canvas, in the series'
-          // legend group so that hiding the series hides its bars.
-          if (paths.vertical) shapes.push({ type: "path", path: paths.vertical, xref: "x", yref: "y", layer: "below", line: { color: g.marker.color, width: 1 }, legendgroup: g.name });
+          // Under WebGL markers the gap bars are an SVG path below the canvas (gapErrorBarShape).
+          if (paths.vertical) shapes.push(gapErrorBarShape(paths.vertical, g.marker.color as string, g.name));
           errorBars = { legendgroup: g.name };
         }
         traces.push({

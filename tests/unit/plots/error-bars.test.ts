@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { errorBarPaths, fieldErrorBarShape, WEBGL_FROM } from "@/components/review/phase-figure";
+import { errorBarPaths, fieldErrorBarShape, gapErrorBarShape, WEBGL_FROM } from "@/components/review/phase-figure";
 
 /**
  * The phase plot's error bars under WebGL markers, as SVG path data in data coordinates. The
@@ -43,5 +43,11 @@ describe("fieldErrorBarShape", () => {
     expect(fieldErrorBarShape("M0,1H2", WEBGL_FROM - 1).visible).toBe(true);
     expect(fieldErrorBarShape("M0,1H2", WEBGL_FROM).visible).toBe("legendonly");
     expect(fieldErrorBarShape("M0,1H2", 5000).visible).toBe("legendonly");
+  });
+});
+
+describe("gapErrorBarShape", () => {
+  it("sits below the WebGL canvas in its series' legend group, in the series' colour", () => {
+    expect(gapErrorBarShape("M1,92V108", "#1f6b73", "terrace A")).toEqual({ type: "path", path: "M1,92V108", xref: "x", yref: "y", layer: "below", line: { color: "#1f6b73", width: 1 }, legendgroup: "terrace A" });
   });
 });
