@@ -1,10 +1,12 @@
 import "server-only";
 import { notFound, redirect } from "next/navigation";
+import { cache } from "react";
 import { db } from "@/db/client";
 import { auth } from "@/lib/auth";
 import { actorForUser } from "@/lib/auth/actor";
 import type { Ctx } from "@/lib/services/context";
 import { isServiceError } from "@/lib/services/errors";
+import { getSample } from "@/lib/services/samples/getSample";
 
 import type { ActionState } from "./types";
 export type { ActionState };
@@ -39,15 +41,21 @@ export async function runAction(
   }
 }
 
-/** For server pages: like labCtx, but a lab the user is not in renders the 404 page. */
-export async function pageCtx(labSlug: string): Promise<Ctx> {
+/**
+ * For server pages: like labCtx, but a lab the user is not in renders the 404 page. Resolved once
+ * per request (React's cache), however many layouts and pages of the request ask for it.
+ */
+export const pageCtx = cache(async (labSlug: string): Promise<Ctx> => {
   try {
     return await labCtx(labSlug);
   } catch (e) {
     if (isServiceError(e) && e.code === "not_found") notFound();
     throw e;
   }
-}
+});
+
+/** For server pages: the sample, or the 404 page; read once per request (the sample's layout checks it, its pages use it). */
+export const pageSample = cache(async (labSlug: string, sampleId: string) => orNotFound(getSample({ ctx: await pageCtx(labSlug), input: { id: sampleId } })));
 
 /** Runs a read for a page; a record outside the lab (or absent) renders the 404 page. */
 export async function orNotFound<T>(p: Promise<T>): Promise<T> {

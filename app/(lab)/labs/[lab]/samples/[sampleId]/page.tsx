@@ -8,12 +8,11 @@ import { PhasePlot } from "@/components/review/phase-plot";
 import { SettingsEditors } from "@/components/review/settings-editors";
 import { ButtonLink } from "@/components/ui/button";
 import { Card, EmptyState, PageHeader } from "@/components/ui/card";
-import { orNotFound, pageCtx } from "@/lib/actions/validated";
+import { pageCtx, pageSample } from "@/lib/actions/validated";
 import { can } from "@/lib/auth/permissions";
 import { fieldAssumptions } from "@/lib/spectra";
 import { loadSampleAnalysis } from "@/lib/services/analysis/sampleModel";
 import { getSampleVersions } from "@/lib/services/analysis/versions";
-import { getSample } from "@/lib/services/samples/getSample";
 import { listSessions } from "@/lib/services/sessions/sessions";
 import { tipsOfSample } from "@/lib/services/tips/tips";
 import { getPhaseJson } from "@/lib/services/spectra/phaseCache";
@@ -24,7 +23,7 @@ import { GapMap } from "@/components/review/gap-map";
 export default async function SamplePage({ params }: { params: Promise<{ lab: string; sampleId: string }> }) {
   const { lab, sampleId } = await params;
   const ctx = await pageCtx(lab);
-  const s = await orNotFound(getSample({ ctx, input: { id: sampleId } }));
+  const s = await pageSample(lab, sampleId);
   const [sessions, phase, versions, analysis, map, usedTips] = await Promise.all([
     listSessions({ ctx, input: { sampleId: s.id } }),
     // The same cached JSON the phase endpoint serves (a 5,000-spectrum sample is built once, not per visit).

@@ -2,16 +2,15 @@ import { notFound } from "next/navigation";
 import { EntityForm } from "@/components/forms/entity-form";
 import { sampleFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
-import { orNotFound, pageCtx } from "@/lib/actions/validated";
+import { pageCtx, pageSample } from "@/lib/actions/validated";
 import { can } from "@/lib/auth/permissions";
-import { getSample } from "@/lib/services/samples/getSample";
 import { updateSampleAction } from "../../../actions";
 
 export default async function EditSamplePage({ params }: { params: Promise<{ lab: string; sampleId: string }> }) {
   const { lab, sampleId } = await params;
   const ctx = await pageCtx(lab);
   if (!can(ctx.actor.role, "sample:write")) notFound();
-  const s = await orNotFound(getSample({ ctx, input: { id: sampleId } }));
+  const s = await pageSample(lab, sampleId);
   return (
     <>
       <PageHeader eyebrow={s.name} title="Edit sample" />
