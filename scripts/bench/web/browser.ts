@@ -17,7 +17,7 @@
  *    change of the position text ("n of N"), 20 moves, median (goal < 100 ms). Between moves the
  *    page is left to settle (its prefetch of the next spectrum), as an analyst looks at each one.
  */
-import { chromium, type Page } from "playwright-core";
+import { type Browser, chromium, type Page } from "playwright-core";
 import { BENCH_PASSWORD, benchLab, line, phaseSample, quantileOf, requireStack, verdict } from "./common";
 
 /** Runs before any page script: records when each Plotly graph gets its event emitter and each afterplot. */
@@ -49,7 +49,6 @@ function plotHooks() {
 const PROFILES = 3;
 const RETURNING = 2;
 
-type Load = Awaited<ReturnType<typeof phaseLoad>>;
 const after = (l: Load) => l.framed - l.dataAt;
 
 async function signIn(page: Page, appUrl: string, lab: { slug: string; email: string }) {
@@ -59,39 +58,67 @@ async function signIn(page: Page, appUrl: string, lab: { slug: string; email: st
   await Promise.all([page.waitForURL(`**/labs/${lab.slug}`, { timeout: 30_000 }), page.click('[data-testid="sign-in-submit"]')]);
 }
 
-async function phaseLoad(page: Page, url: string) {
-  await page.goto(url, { waitUntil: "commit" });
+interface Load {
+  /** When the page's data had arrived (ms from the navigation's start). */
+  dataAt: number;
+  /** When the plotting library had arrived, and its size (full page loads only). */
+  library?: { at: number; kb: number };
+  start: number;
+  afterplot: number;
+  framed: number;
+  points: number;
+}
+
+/** Waits for the first plot to reach the screen; its times as recorded by plotHooks. */
+async function drawnPlot(page: Page): Promise<Pick<Load, "start" | "afterplot" | "framed" | "points">> {
   await page.waitForFunction(() => (window as unknown as { __bxPlots?: { framed: number[] }[] }).__bxPlots?.some((p) => p.framed.length > 0), null, { timeout: 30_000 });
   return page.evaluate(() => {
+    const p = (window as unknown as { __bxPlots: { start: number; afterplot: number[]; framed: number[] }[] }).__bxPlots.find((x) => x.framed.length)!;
+    const points = Number(document.querySelector('[data-testid="phase-plot"]')?.getAttribute("data-points"));
+    return { start: p.start, afterplot: p.afterplot[0], framed: p.framed[0], points };
+  });
+}
+
+/** A full page load: the data has arrived with the document (or a later `/phase` response). */
+async function phaseLoad(page: Page, url: string): Promise<Load> {
+  await page.goto(url, { waitUntil: "commit" });
+  const plot = await drawnPlot(page);
+  const net = await page.evaluate(() => {
     const nav = performance.getEntriesByType("navigation")[0] as PerformanceNavigationTiming;
     const res = performance.getEntriesByType("resource") as PerformanceResourceTiming[];
     const phase = res.filter((r) => r.name.includes("/phase")).map((r) => r.responseEnd);
     const js = res.filter((r) => r.name.endsWith(".js")).sort((a, b) => b.encodedBodySize - a.encodedBodySize)[0];
-    const plots = (window as unknown as { __bxPlots: { start: number; afterplot: number[]; framed: number[] }[] }).__bxPlots;
-    const p = plots.find((x) => x.framed.length)!;
-    const points = Number(document.querySelector('[data-testid="phase-plot"]')?.getAttribute("data-points"));
-    const dataAt = Math.max(nav.responseEnd, ...phase);
-    return { dataAt, plotlyChunkAt: js?.responseEnd ?? NaN, plotlyChunkKB: (js?.encodedBodySize ?? 0) / 1024, start: p.start, afterplot: p.afterplot[0], framed: p.framed[0], points, domContentLoaded: nav.domContentLoadedEventEnd };
+    return { dataAt: Math.max(nav.responseEnd, ...phase), library: js ? { at: js.responseEnd, kb: js.encodedBodySize / 1024 } : undefined };
   });
+  return { ...plot, ...net };
 }
 
-/** Waits 3 s on the sample list, clicks the sample, times as phaseLoad with the RSC response as the data. */
+/** From the sample list: 3 s there, then a click on the sample; the data arrives in the navigation's RSC response. */
 async function listClick(page: Page, sampleId: string): Promise<Load> {
   await page.waitForSelector('[data-testid="samples-table"]');
   await page.waitForTimeout(3000);
   const clickedAt = await page.evaluate(() => performance.now());
   await page.click(`[data-testid="samples-table"] a[href$="/samples/${sampleId}"]`);
-  await page.waitForFunction(() => (window as unknown as { __bxPlots?: { framed: number[] }[] }).__bxPlots?.some((p) => p.framed.length > 0), null, { timeout: 30_000 });
-  return page.evaluate(
-    ({ id, clickedAt }) => {
-      const res = performance.getEntriesByType("resource") as PerformanceResourceTiming[];
-      const rsc = res.filter((r) => r.name.includes(`/samples/${id}`) && r.responseEnd > clickedAt).map((r) => r.responseEnd);
-      const p = (window as unknown as { __bxPlots: { start: number; afterplot: number[]; framed: number[] }[] }).__bxPlots.find((x) => x.framed.length)!;
-      const points = Number(document.querySelector('[data-testid="phase-plot"]')?.getAttribute("data-points"));
-      return { dataAt: rsc.length ? Math.max(...rsc) : NaN, plotlyChunkAt: NaN, plotlyChunkKB: 0, start: p.start, afterplot: p.afterplot[0], framed: p.framed[0], points, domContentLoaded: NaN };
+  const plot = await drawnPlot(page);
+  // The page's responses between the click and the start of plotting (the plot's own later
+  // refreshes of /phase are not its data's arrival).
+  const dataAt = await page.evaluate(
+    ({ id, clickedAt, plotStart }) => {
+      const rsc = (performance.getEntriesByType("resource") as PerformanceResourceTiming[]).filter((r) => r.name.includes(`/samples/${id}`) && r.responseEnd > clickedAt && r.responseEnd <= plotStart).map((r) => r.responseEnd);
+      return rsc.length ? Math.max(...rsc) : NaN;
     },
-    { id: sampleId, clickedAt },
+    { id: sampleId, clickedAt, plotStart: plot.start },
   );
+  return { ...plot, dataAt };
+}
+
+/** A fresh browser profile, signed in, with the plot-timing hooks unless told otherwise. */
+async function freshPage(browser: Browser, appUrl: string, lab: { slug: string; email: string }, { hooks = true } = {}) {
+  const context = await browser.newContext({ viewport: { width: 1400, height: 900 } });
+  if (hooks) await context.addInitScript(plotHooks);
+  const page = await context.newPage();
+  await signIn(page, appUrl, lab);
+  return { context, page };
 }
 
 export async function run() {
@@ -109,16 +136,13 @@ export async function run() {
     const firsts: Load[] = [];
     const returning: Load[] = [];
     for (let profile = 1; profile <= PROFILES; profile++) {
-      const context = await browser.newContext({ viewport: { width: 1400, height: 900 } });
-      await context.addInitScript(plotHooks);
-      const page = await context.newPage();
-      await signIn(page, appUrl, lab);
+      const { context, page } = await freshPage(browser, appUrl, lab);
       for (let i = 0; i < 1 + RETURNING; i++) {
         const l = await phaseLoad(page, sampleUrl);
         (i === 0 ? firsts : returning).push(l);
         if (profile === 1 && i === 0) line(`phase plot of ${l.points} points (WebGL markers), sample page loaded ${1 + RETURNING} times in each of ${PROFILES} fresh browser profiles:`);
         line(
-          `  profile ${profile} load ${i + 1}${i === 0 ? " (first visit)" : " (returning)"}: data in at ${l.dataAt.toFixed(0)} ms, plotting library (${l.plotlyChunkKB.toFixed(0)} KB) at ${l.plotlyChunkAt.toFixed(0)} ms, plotting from ${l.start.toFixed(0)} ms, afterplot at ${l.afterplot.toFixed(0)} ms, on screen at ${l.framed.toFixed(0)} ms → ${after(l).toFixed(0)} ms after the data (plotting itself ${(l.framed - l.start).toFixed(0)} ms)`,
+          `  profile ${profile} load ${i + 1}${i === 0 ? " (first visit)" : " (returning)"}: data in at ${l.dataAt.toFixed(0)} ms, plotting library (${l.library?.kb.toFixed(0)} KB) at ${l.library?.at.toFixed(0)} ms, plotting from ${l.start.toFixed(0)} ms, afterplot at ${l.afterplot.toFixed(0)} ms, on screen at ${l.framed.toFixed(0)} ms → ${after(l).toFixed(0)} ms after the data (plotting itself ${(l.framed - l.start).toFixed(0)} ms)`,
         );
       }
       await context.close();
@@ -128,10 +152,7 @@ export async function run() {
     // arrives in the navigation's RSC response.
     const navs: Load[] = [];
     for (let k = 0; k < 3; k++) {
-      const context = await browser.newContext({ viewport: { width: 1400, height: 900 } });
-      await context.addInitScript(plotHooks);
-      const page = await context.newPage();
-      await signIn(page, appUrl, lab);
+      const { context, page } = await freshPage(browser, appUrl, lab);
       navs.push(await listClick(page, s.sampleId));
       await context.close();
     }
@@ -148,9 +169,7 @@ export async function run() {
 
     // 2. Keyboard review, bounded: a review screen that stops answering is reported, not waited for.
     // In a fresh context without the plot-timing hooks, which the review's editable shapes do not need.
-    const reviewContext = await browser.newContext({ viewport: { width: 1400, height: 900 } });
-    const reviewPage = await reviewContext.newPage();
-    await signIn(reviewPage, appUrl, lab);
+    const { page: reviewPage } = await freshPage(browser, appUrl, lab, { hooks: false });
     const review = reviewMoves(reviewPage, appUrl, lab.slug, s.sampleId);
     review.catch(() => {}); // after a timeout the page is closed under it
     const outcome = await Promise.race([review.then(() => "done" as const), new Promise<"timeout">((r) => setTimeout(() => r("timeout"), 60_000))]);
