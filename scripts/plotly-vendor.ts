@@ -93,11 +93,12 @@ function patchPlugin(applied: Set<number>): import("esbuild").Plugin {
 
 /** The file's address under the site root, and where it lives on disk, for this checkout. */
 export function plotlyVendorFile(root = process.cwd()): { src: string; file: string } {
+  const version = versionOf("plotly.js");
   const key = createHash("sha256")
-    .update(JSON.stringify({ entry: entrySource(), plotly: versionOf("plotly.js"), esbuild: versionOf("esbuild"), options: OPTIONS, patches: PATCHES.map((p) => [p.file.source, p.from, p.to]) }))
+    .update(JSON.stringify({ entry: entrySource(), plotly: version, esbuild: versionOf("esbuild"), options: OPTIONS, patches: PATCHES.map((p) => [p.file.source, p.from, p.to]) }))
     .digest("hex")
     .slice(0, 10);
-  const name = `plotly-${versionOf("plotly.js")}-${key}.min.js`;
+  const name = `plotly-${version}-${key}.min.js`;
   return { src: `/vendor/${name}`, file: path.join(root, "public", "vendor", name) };
 }
 
