@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import localFont from "next/font/local";
 import "./globals.css";
+import { ScriptWorkerRegistration } from "@/components/script-worker-registration";
 
 const sans = localFont({
   src: [
@@ -30,7 +31,10 @@ export const metadata: Metadata = {
 export default function RootLayout({ children }: { children: React.ReactNode }) {
   return (
     <html lang="en" className={`${sans.variable} ${mono.variable}`}>
-      <body className="min-h-screen bg-paper text-ink">{children}</body>
+      <body className="min-h-screen bg-paper text-ink">
+        {children}
+        <ScriptWorkerRegistration />
+      </body>
     </html>
   );
 }
