@@ -32,6 +32,72 @@ function RunProgress({ run }: { run: Versions["run"] }) {
   );
 }
 
+const METHOD_LABEL: Record<string, string> = { "savitzky-golay": "Savitzky–Golay", gaussian: "Gaussian", fft: "FFT low-pass", none: "none" };
+
+/** A value with its unit, or what a blank means. */
+const shown = (v: unknown, unit: string, blank: string) => (v === null || v === undefined || v === "" ? blank : `${v}${unit ? ` ${unit}` : ""}`);
+
+function Facts({ title, version, rows }: { title: string; version: number; rows: [string, string][] }) {
+  return (
+    <section aria-label={title}>
+      <h3 className="text-sm font-semibold">
+        {title} <span className="num font-normal text-muted">v{version}</span>
+      </h3>
+      <dl className="mt-2 grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
+        {rows.map(([k, v]) => (
+          <div key={k} className="contents">
+            <dt className="text-ink-soft">{k}</dt>
+            <dd className="num">{v}</dd>
+          </div>
+        ))}
+      </dl>
+    </section>
+  );
+}
+
+/** The versions as facts, for people who may not change them: no form, nothing that looks editable. */
+function ReadOnlyVersions({ data }: { data: Versions }) {
+  const s = data.settings.settings;
+  const m = data.fieldModel.model;
+  const source = m.decayConstantSource ?? (m.barrierHeight_eV ? "measured" : "mean-work-function");
+  const method = s.smoothing?.method;
+  return (
+    <div className="space-y-5" data-testid="settings-read-only">
+      <RunProgress run={data.run} />
+      <Facts
+        title="Extraction settings"
+        version={data.settings.version}
+        rows={[
+          ["Smoothing", METHOD_LABEL[method] ?? String(method)],
+          ...(method === "savitzky-golay"
+            ? ([
+                ["SG window", shown(s.smoothing?.window_mV, "mV", "from the resolution")],
+                ["SG order", shown(s.smoothing?.order, "", "—")],
+              ] as [string, string][])
+            : []),
+          ...(method === "gaussian" ? ([["Gaussian σ", shown(s.smoothing?.gaussianSigma_mV, "mV", "from the resolution")]] as [string, string][]) : []),
+          ...(method === "fft" ? ([["FFT cutoff", shown(s.smoothing?.fftCutoff_mV, "mV", "from the resolution")]] as [string, string][]) : []),
+          ["Threshold", `floor + ${shown(s.threshold?.k, "", "—")}·σ, ${shown(s.threshold?.consecutive, "", "—")} consecutive points`],
+          ["Search", s.search?.minBias_V == null && s.search?.maxBias_V == null ? "whole spectrum" : `${shown(s.search?.minBias_V, "V", "start")} to ${shown(s.search?.maxBias_V, "V", "end")}`],
+          ["Edge refinement", s.fit?.enabled ? "broadening-aware fit (thermal and lock-in kernels)" : "threshold only"],
+        ]}
+      />
+      <div className="border-t border-line pt-4">
+        <Facts
+          title="Field model"
+          version={data.fieldModel.version}
+          rows={[
+            ["Contact distance d_c", `${shown(m.contactDistance_nm, "", "—")} ± ${shown(m.contactDistanceSigma_nm, "nm", "—")}`],
+            ["Screening factor", shown(m.screening, "", "1 (none)")],
+            ["Decay constant κ from", source === "measured" ? `measured barrier, ${shown(m.barrierHeight_eV, "eV", "—")}` : "mean work function"],
+          ]}
+        />
+      </div>
+      <p className="text-xs text-muted">Analysts and owners change these; each change becomes a new version and the sample is re-analysed.</p>
+    </div>
+  );
+}
+
 /**
  * Editors of a sample's extraction settings and field model. Saving makes a new version; the
  * automatic picks nobody corrected by hand and every field estimate are re-run in the background.
@@ -81,6 +147,7 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
   }
 
   const fe = (k: string) => msg?.fields?.[k];
+  if (!canEdit) return <ReadOnlyVersions data={data} />;
   return (
     <div className="space-y-5" data-testid="settings-editors">
       <RunProgress run={data.run} />
@@ -89,7 +156,7 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
         <h3 className="text-sm font-semibold">
           Extraction settings <span className="num font-normal text-muted">v{data.settings.version}</span>
         </h3>
-        <fieldset disabled={!canEdit} className="grid gap-3 sm:grid-cols-3">
+        <fieldset className="grid gap-3 sm:grid-cols-3">
           <Field label="Smoothing" name="method">
             <Select name="method" defaultValue={s.smoothing?.method}>
               <option value="savitzky-golay">Savitzky–Golay</option>
@@ -129,17 +196,15 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
             <Input name="note" placeholder="why this change" />
           </Field>
         </fieldset>
-        {canEdit ? (
-          <div className="flex justify-end">
-            <Button type="submit">Save settings as v{data.settings.version + 1}</Button>
-          </div>
-        ) : null}
+        <div className="flex justify-end">
+          <Button type="submit">Save settings as v{data.settings.version + 1}</Button>
+        </div>
       </form>
       <form onSubmit={(e) => save("field", e)} className="space-y-3 border-t border-line pt-4" aria-label="Field model">
         <h3 className="text-sm font-semibold">
           Field model <span className="num font-normal text-muted">v{data.fieldModel.version}</span>
         </h3>
-        <fieldset disabled={!canEdit} className="grid gap-3 sm:grid-cols-3">
+        <fieldset className="grid gap-3 sm:grid-cols-3">
           <Field label="Contact distance d_c" name="contactDistance_nm" unit="nm" error={fe("contactDistance_nm")}>
             <Input name="contactDistance_nm" defaultValue={m.contactDistance_nm} className="num" />
           </Field>
@@ -163,11 +228,9 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
           </Field>
         </fieldset>
         <p className="text-xs text-muted">Tip and sample work functions come from each session&apos;s tip and from the sample (edit them there).</p>
-        {canEdit ? (
-          <div className="flex justify-end">
-            <Button type="submit">Save field model as v{data.fieldModel.version + 1}</Button>
-          </div>
-        ) : null}
+        <div className="flex justify-end">
+          <Button type="submit">Save field model as v{data.fieldModel.version + 1}</Button>
+        </div>
       </form>
     </div>
   );

@@ -133,7 +133,12 @@ describe("review in the browser", () => {
     expect(await page.$('[data-testid="save-correction"]')).toBeNull();
     expect(await page.$('[data-testid="toggle-exclude"]')).toBeNull();
     await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
+    // The settings are facts to read, not a form: no inputs, no save buttons.
+    const facts = await page.waitForSelector('[data-testid="settings-read-only"]');
+    expect(await facts.textContent()).toContain("Savitzky–Golay");
+    expect(await page.$('[data-testid="settings-editors"]')).toBeNull();
     expect(await page.$("text=Save settings as")).toBeNull();
+    await shot(page, "sample-collaborator");
     const res = await page.request.patch(`${APP_URL}/api/v1/spectra/${ids[5]}/pick`, { headers: { "x-bandcross-lab": lab.lab.slug }, data: { vbEdge_V: -0.05, cbEdge_V: 0.05, reason: "sneaky", version: 1 } });
     expect(res.status()).toBe(403);
     await context.close();

@@ -158,11 +158,11 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
           ) : (
             <ul className="divide-y divide-line">
               {sessions.map((x) => (
-                <li key={x.id} className="flex items-center justify-between py-2.5">
+                <li key={x.id} className="flex items-baseline justify-between gap-3 py-2.5">
                   <Link className="font-medium hover:underline" href={`/labs/${lab}/sessions/${x.id}`}>
                     {x.label}
                   </Link>
-                  <span className="num text-xs text-muted">
+                  <span className="num text-right text-xs text-muted">
                     {x.date} · {x.tipLabel ?? "no tip"} · {x.spectraCount} spectra
                   </span>
                 </li>
