@@ -38,7 +38,7 @@ afterAll(async () => {
   await closeDb();
 });
 
-const signedIn = (email: string) => signedInAs(browser, email, TEST_PASSWORD, lab.lab.slug, { width: 1400, height: 900 });
+const signedIn = (email: string, options?: { serviceWorkers?: "allow" | "block" }) => signedInAs(browser, email, TEST_PASSWORD, lab.lab.slug, { width: 1400, height: 900 }, options);
 
 /** Drags the n-th editable edge line (0 = valence, 1 = conduction) of the review plot by dx pixels. */
 async function dragEdge(page: Page, n: number, dx: number) {
@@ -203,7 +203,8 @@ describe("review in the browser", () => {
     await context.close();
   });
   it("a plotting library that fails to download gets a message and a retry that draws the plot", async () => {
-    const { context, page } = await signedIn(lab.people.analyst.email);
+    // A browser without the script worker's copy: the library comes from the network, which fails.
+    const { context, page } = await signedIn(lab.people.analyst.email, { serviceWorkers: "block" });
     await page.route("**/vendor/plotly-*.min.js", (route) => route.abort());
     await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
     const alert = page.locator('[data-testid="phase-plot"] [role="alert"]');
@@ -214,6 +215,34 @@ describe("review in the browser", () => {
     await alert.locator("button", { hasText: "Retry" }).click();
     await page.waitForSelector('[data-testid="phase-plot"] .main-svg');
     expect(await alert.count()).toBe(0);
+    await context.close();
+  });
+
+  it("the script worker installs on the first page and serves the plotting library from its cache", async () => {
+    const { context, page } = await signedIn(lab.people.collaborator.email);
+    // The lab page registered it after loading; once active it holds the library and the build's chunks.
+    await page.evaluate(() => navigator.serviceWorker.ready);
+    const listed = await page.evaluate(async () => {
+      const names = await caches.keys();
+      const mine = names.filter((n) => n.startsWith("bandcross-scripts:"));
+      const keys = mine.length ? (await (await caches.open(mine[0])).keys()).map((r) => new URL(r.url).pathname) : [];
+      return { caches: mine.length, keys };
+    });
+    expect(listed.caches).toBe(1);
+    expect(listed.keys.some((k) => /^\/vendor\/plotly-.*\.min\.js$/.test(k))).toBe(true);
+    expect(listed.keys.some((k) => k.startsWith("/_next/static/chunks/"))).toBe(true);
+    // The sample page is controlled by it, its library comes from the worker, and the plot draws.
+    const library: boolean[] = [];
+    page.on("response", (r) => {
+      if (r.url().includes("/vendor/plotly-")) library.push(r.fromServiceWorker());
+    });
+    const doc = await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
+    await page.waitForSelector('[data-testid="phase-plot"] .main-svg');
+    expect(await page.evaluate(() => navigator.serviceWorker.controller?.scriptURL)).toBe(`${APP_URL}/sw.js`);
+    // Pages themselves always come from the server.
+    expect(doc!.fromServiceWorker()).toBe(false);
+    expect(library.length).toBeGreaterThan(0);
+    expect(library.every(Boolean)).toBe(true);
     await context.close();
   });
 

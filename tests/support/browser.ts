@@ -44,8 +44,9 @@ export async function signedIn(
   password: string,
   labSlug: string,
   viewport = { width: 1360, height: 900 },
+  { serviceWorkers = "allow" }: { serviceWorkers?: "allow" | "block" } = {},
 ): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ viewport, acceptDownloads: true });
+  const context = await browser.newContext({ viewport, acceptDownloads: true, serviceWorkers });
   const page = await context.newPage();
   const s = new SignInPage(page);
   await s.open();
