@@ -32,7 +32,11 @@ function RunProgress({ run }: { run: Versions["run"] }) {
   );
 }
 
+/** Smoothing methods and where κ comes from, as the form's choices and the read-only view name them. */
 const METHOD_LABEL: Record<string, string> = { "savitzky-golay": "Savitzky–Golay", gaussian: "Gaussian", fft: "FFT low-pass", none: "none" };
+const DECAY_LABEL: Record<string, string> = { "mean-work-function": "mean work function", measured: "measured barrier" };
+/** Older field models carry no source: a barrier height means it was measured. */
+const decaySource = (m: Versions["fieldModel"]["model"]): string => m.decayConstantSource ?? (m.barrierHeight_eV ? "measured" : "mean-work-function");
 
 /** A value with its unit, or what a blank means. */
 const shown = (v: unknown, unit: string, blank: string) => (v === null || v === undefined || v === "" ? blank : `${v}${unit ? ` ${unit}` : ""}`);
@@ -55,12 +59,23 @@ function Facts({ title, version, rows }: { title: string; version: number; rows:
   );
 }
 
+/** The parameters of each smoothing method, as facts (the other methods' fields do not apply). */
+const SMOOTHING_FACTS: Record<string, (sm: Record<string, unknown>) => [string, string][]> = {
+  "savitzky-golay": (sm) => [
+    ["SG window", shown(sm.window_mV, "mV", "from the resolution")],
+    ["SG order", shown(sm.order, "", "—")],
+  ],
+  gaussian: (sm) => [["Gaussian σ", shown(sm.gaussianSigma_mV, "mV", "from the resolution")]],
+  fft: (sm) => [["FFT cutoff", shown(sm.fftCutoff_mV, "mV", "from the resolution")]],
+};
+
 /** The versions as facts, for people who may not change them: no form, nothing that looks editable. */
 function ReadOnlyVersions({ data }: { data: Versions }) {
   const s = data.settings.settings;
   const m = data.fieldModel.model;
-  const source = m.decayConstantSource ?? (m.barrierHeight_eV ? "measured" : "mean-work-function");
   const method = s.smoothing?.method;
+  const smoothing = SMOOTHING_FACTS[method]?.(s.smoothing) ?? [];
+  const source = decaySource(m);
   return (
     <div className="space-y-5" data-testid="settings-read-only">
       <RunProgress run={data.run} />
@@ -69,14 +84,7 @@ function ReadOnlyVersions({ data }: { data: Versions }) {
         version={data.settings.version}
         rows={[
           ["Smoothing", METHOD_LABEL[method] ?? String(method)],
-          ...(method === "savitzky-golay"
-            ? ([
-                ["SG window", shown(s.smoothing?.window_mV, "mV", "from the resolution")],
-                ["SG order", shown(s.smoothing?.order, "", "—")],
-              ] as [string, string][])
-            : []),
-          ...(method === "gaussian" ? ([["Gaussian σ", shown(s.smoothing?.gaussianSigma_mV, "mV", "from the resolution")]] as [string, string][]) : []),
-          ...(method === "fft" ? ([["FFT cutoff", shown(s.smoothing?.fftCutoff_mV, "mV", "from the resolution")]] as [string, string][]) : []),
+          ...smoothing,
           ["Threshold", `floor + ${shown(s.threshold?.k, "", "—")}·σ, ${shown(s.threshold?.consecutive, "", "—")} consecutive points`],
           ["Search", s.search?.minBias_V == null && s.search?.maxBias_V == null ? "whole spectrum" : `${shown(s.search?.minBias_V, "V", "start")} to ${shown(s.search?.maxBias_V, "V", "end")}`],
           ["Edge refinement", s.fit?.enabled ? "broadening-aware fit (thermal and lock-in kernels)" : "threshold only"],
@@ -89,7 +97,7 @@ function ReadOnlyVersions({ data }: { data: Versions }) {
           rows={[
             ["Contact distance d_c", `${shown(m.contactDistance_nm, "", "—")} ± ${shown(m.contactDistanceSigma_nm, "nm", "—")}`],
             ["Screening factor", shown(m.screening, "", "1 (none)")],
-            ["Decay constant κ from", source === "measured" ? `measured barrier, ${shown(m.barrierHeight_eV, "eV", "—")}` : "mean work function"],
+            ["Decay constant κ from", source === "measured" ? `${DECAY_LABEL.measured}, ${shown(m.barrierHeight_eV, "eV", "—")}` : DECAY_LABEL[source]],
           ]}
         />
       </div>
@@ -159,10 +167,11 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
         <fieldset className="grid gap-3 sm:grid-cols-3">
           <Field label="Smoothing" name="method">
             <Select name="method" defaultValue={s.smoothing?.method}>
-              <option value="savitzky-golay">Savitzky–Golay</option>
-              <option value="gaussian">Gaussian</option>
-              <option value="fft">FFT low-pass</option>
-              <option value="none">none</option>
+              {Object.entries(METHOD_LABEL).map(([value, label]) => (
+                <option key={value} value={value}>
+                  {label}
+                </option>
+              ))}
             </Select>
           </Field>
           <Field label="SG window" name="window_mV" unit="mV" hint="blank: from the resolution" error={fe("smoothing.window_mV")}>
@@ -215,9 +224,12 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
             <Input name="screening" defaultValue={m.screening} className="num" />
           </Field>
           <Field label="Decay constant κ from" name="decayConstantSource">
-            <Select name="decayConstantSource" defaultValue={m.decayConstantSource ?? (m.barrierHeight_eV ? "measured" : "mean-work-function")}>
-              <option value="mean-work-function">mean work function</option>
-              <option value="measured">measured barrier</option>
+            <Select name="decayConstantSource" defaultValue={decaySource(m)}>
+              {Object.entries(DECAY_LABEL).map(([value, label]) => (
+                <option key={value} value={value}>
+                  {label}
+                </option>
+              ))}
             </Select>
           </Field>
           <Field label="Apparent barrier height" name="barrierHeight_eV" unit="eV" hint="from an I(z) curve: 0.952·(d ln I/dz [Å⁻¹])²" error={fe("barrierHeight_eV")}>
