@@ -125,9 +125,10 @@ async function freshPage(browser: Browser, appUrl: string, lab: { slug: string; 
   if (hooks) await context.addInitScript(plotHooks);
   const page = await context.newPage();
   await signIn(page, appUrl, lab);
+  if (!worker) return { context, page, workerReady_ms: NaN };
   const signedIn = Date.now();
-  const workerReady_ms = worker ? await page.evaluate(() => Promise.race([navigator.serviceWorker.ready.then(() => true), new Promise<boolean>((r) => setTimeout(() => r(false), 10_000))])).then((ok) => (ok ? Date.now() - signedIn : NaN)) : NaN;
-  return { context, page, workerReady_ms };
+  const ready = await page.evaluate(() => Promise.race([navigator.serviceWorker.ready.then(() => true), new Promise<boolean>((r) => setTimeout(() => r(false), 10_000))]));
+  return { context, page, workerReady_ms: ready ? Date.now() - signedIn : NaN };
 }
 
 export async function run() {
