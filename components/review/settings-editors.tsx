@@ -14,7 +14,17 @@ type Versions = {
   run: { id: string; status: string; total: number; done: number; reason: string } | null;
 };
 
-const num = (v: FormDataEntryValue | null) => (v === null || String(v).trim() === "" ? null : Number(String(v).replace(",", ".")));
+/**
+ * A number field's value: null when blank, the number (a decimal comma accepted), or else the text
+ * as typed, which the server refuses with its own message ("must be a number"); a NaN would travel
+ * as null and read as "blank".
+ */
+function num(v: FormDataEntryValue | null): number | string | null {
+  const text = v === null ? "" : String(v).trim();
+  if (text === "") return null;
+  const x = Number(text.replace(",", "."));
+  return Number.isFinite(x) ? x : text;
+}
 
 /** Progress of the background re-analysis that a saved version started. */
 function RunProgress({ run }: { run: Versions["run"] }) {
@@ -139,18 +149,22 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
       } else {
         const source = String(f.get("decayConstantSource"));
         await api(lab, "PUT", `/samples/${sampleId}/field-model`, {
-          contactDistance_nm: num(f.get("contactDistance_nm")),
-          contactDistanceSigma_nm: num(f.get("contactDistanceSigma_nm")),
+          // Blank here is left out: the server's default, or its "must be a number" where none applies.
+          contactDistance_nm: num(f.get("contactDistance_nm")) ?? undefined,
+          contactDistanceSigma_nm: num(f.get("contactDistanceSigma_nm")) ?? undefined,
           decayConstantSource: source,
           barrierHeight_eV: source === "measured" ? num(f.get("barrierHeight_eV")) : null,
-          screening: num(f.get("screening")),
+          screening: num(f.get("screening")) ?? undefined,
           note: String(f.get("note") ?? "") || undefined,
         });
       }
       setMsg({ tone: "ok", text: "Saved as a new version; the sample is being re-analysed." });
       await qc.invalidateQueries({ queryKey: queryKeys.sampleVersions(sampleId) });
     } catch (err) {
-      setMsg({ tone: "danger", text: err instanceof ApiError ? err.message : "Not saved.", fields: err instanceof ApiError ? err.body?.error?.fields : undefined });
+      const fields = err instanceof ApiError ? err.body?.error?.fields : undefined;
+      // With marked fields the banner need not repeat them by their API names.
+      const text = fields && Object.keys(fields).length ? "Not saved: correct the marked values." : err instanceof ApiError ? err.message : "Not saved.";
+      setMsg({ tone: "danger", text, fields });
     }
   }
 
@@ -192,16 +206,16 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
           <Field label="Consecutive points" name="consecutive" error={fe("threshold.consecutive")}>
             <Input name="consecutive" defaultValue={s.threshold?.consecutive} className="num" />
           </Field>
-          <Field label="Search from" name="minBias_V" unit="V" hint="blank: whole spectrum">
+          <Field label="Search from" name="minBias_V" unit="V" hint="blank: whole spectrum" error={fe("search.minBias_V")}>
             <Input name="minBias_V" defaultValue={s.search?.minBias_V ?? ""} className="num" />
           </Field>
-          <Field label="Search to" name="maxBias_V" unit="V">
+          <Field label="Search to" name="maxBias_V" unit="V" error={fe("search.maxBias_V")}>
             <Input name="maxBias_V" defaultValue={s.search?.maxBias_V ?? ""} className="num" />
           </Field>
           <label className="flex items-center gap-2 text-sm sm:col-span-2">
             <input type="checkbox" name="fit" defaultChecked={s.fit?.enabled} /> refine each edge with the broadening-aware fit (thermal and lock-in kernels)
           </label>
-          <Field label="Note" name="note">
+          <Field label="Note" name="note" error={fe("note")}>
             <Input name="note" placeholder="why this change" />
           </Field>
         </fieldset>
@@ -235,7 +249,7 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
           <Field label="Apparent barrier height" name="barrierHeight_eV" unit="eV" hint="from an I(z) curve: 0.952·(d ln I/dz [Å⁻¹])²" error={fe("barrierHeight_eV")}>
             <Input name="barrierHeight_eV" defaultValue={m.barrierHeight_eV ?? ""} className="num" />
           </Field>
-          <Field label="Note" name="note">
+          <Field label="Note" name="note" error={fe("note")}>
             <Input name="note" placeholder="why this change" />
           </Field>
         </fieldset>

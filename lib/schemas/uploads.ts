@@ -50,11 +50,11 @@ export const spectraQuery = z.object({
 export type SpectraQuery = z.infer<typeof spectraQuery>;
 
 export const fieldModelInput = z.object({
-  contactDistance_nm: z.coerce.number().min(0, "The contact distance cannot be negative.").max(1, "A contact distance above 1 nm is not a tunnel junction."),
-  contactDistanceSigma_nm: z.coerce.number().min(0).max(0.5).default(0.05),
+  contactDistance_nm: z.coerce.number({ error: "must be a number" }).min(0, "The contact distance cannot be negative.").max(1, "A contact distance above 1 nm is not a tunnel junction."),
+  contactDistanceSigma_nm: z.coerce.number({ error: "must be a number" }).min(0).max(0.5).default(0.05),
   /** "mean-work-function" or "measured" (then barrierHeight_eV is the measured apparent barrier). */
   decayConstantSource: z.enum(["mean-work-function", "measured"]).default("mean-work-function"),
-  barrierHeight_eV: z.coerce.number().min(0.1).max(10).nullable().optional(),
-  screening: z.coerce.number().min(1, "A screening factor below 1 would amplify the field.").max(100).default(1),
+  barrierHeight_eV: z.coerce.number({ error: "must be a number" }).min(0.1).max(10).nullable().optional(),
+  screening: z.coerce.number({ error: "must be a number" }).min(1, "A screening factor below 1 would amplify the field.").max(100).default(1),
   note: z.string().trim().max(500).optional(),
 }).refine((m) => m.decayConstantSource !== "measured" || m.barrierHeight_eV != null, { message: "Give the measured apparent barrier height.", path: ["barrierHeight_eV"] });

@@ -5,7 +5,9 @@
 import { z } from "zod";
 import type { ImportLimits } from "./import/types";
 
-const positive = z.number({ error: "must be a number" }).finite().positive("must be above zero");
+/** Every number of the settings says so when it is missing or text ("two", an empty form field sent as null). */
+const number = () => z.number({ error: "must be a number" }).finite();
+const positive = number().positive("must be above zero");
 
 /** Freeze an object and everything inside it, so that a shared default cannot be changed by accident. */
 function deepFreeze<T>(o: T): T {
@@ -15,7 +17,7 @@ function deepFreeze<T>(o: T): T {
   }
   return o;
 }
-const nonNegative = z.number({ error: "must be a number" }).finite().nonnegative("cannot be negative");
+const nonNegative = number().nonnegative("cannot be negative");
 
 export const extractionSettingsSchema = z.object({
   smoothing: z.object({
@@ -24,7 +26,7 @@ export const extractionSettingsSchema = z.object({
     /** Savitzky–Golay window, mV; null = windowPerResolution × the spectrum's resolution. */
     window_mV: positive.nullable(),
     /** Savitzky–Golay polynomial order. */
-    order: z.number().int().min(0).max(6),
+    order: number().int().min(0).max(6),
     /** Gaussian σ, mV; null = windowPerResolution × resolution / 2.355 (a Gaussian whose FWHM is the automatic window). */
     gaussianSigma_mV: positive.nullable(),
     /** FFT low-pass: shortest period kept, mV; null = windowPerResolution × resolution. */
@@ -38,10 +40,10 @@ export const extractionSettingsSchema = z.object({
     /** Edge where the smoothed signal exceeds floor + k·σ_smoothed … */
     k: positive,
     /** … for this many consecutive points (at least the smoothing window's width in points). */
-    consecutive: z.number().int().min(1).max(50),
+    consecutive: number().int().min(1).max(50),
   }),
   /** Restrict the search for the gap to this bias range (V); null = whole spectrum. */
-  search: z.object({ minBias_V: z.number().finite().nullable(), maxBias_V: z.number().finite().nullable() }),
+  search: z.object({ minBias_V: number().nullable(), maxBias_V: number().nullable() }),
   fit: z.object({
     /** Refine each edge by fitting the broadened onset model (edges/fit.ts). */
     enabled: z.boolean(),
@@ -88,7 +90,7 @@ export const fieldModelSchema = z.object({
   /** Measured apparent barrier height, eV; null = mean of the two work functions. */
   barrierHeight_eV: positive.nullable(),
   /** Field divided by this factor (1 = no screening). */
-  screening: z.number().finite().min(1),
+  screening: number().min(1),
 });
 export type FieldModel = z.infer<typeof fieldModelSchema>;
 

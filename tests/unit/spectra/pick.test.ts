@@ -126,6 +126,20 @@ describe("extraction settings", () => {
     expect(extractionSettingsSchema.safeParse({ ...DEFAULT_EXTRACTION_SETTINGS, threshold: { k: -1, consecutive: 3 } }).success).toBe(false);
     expect(() => pickGap(makeSpectrum({ vbEdge_V: -0.1, cbEdge_V: 0.1 }), { smoothing: { order: 9 } })).toThrow();
   });
+  it("text or a missing value where a number belongs is named as such, in every number of the settings", () => {
+    const d = DEFAULT_EXTRACTION_SETTINGS;
+    const cases = [
+      { smoothing: { ...d.smoothing, order: "two" } },
+      { smoothing: { ...d.smoothing, window_mV: "abc" } },
+      { threshold: { ...d.threshold, consecutive: null } },
+      { search: { minBias_V: "-0.5 V", maxBias_V: null } },
+    ];
+    for (const c of cases) {
+      const r = extractionSettingsSchema.safeParse({ ...d, ...c });
+      expect(r.success).toBe(false);
+      expect(r.error!.issues.map((i) => i.message)).toEqual(["must be a number"]);
+    }
+  });
 });
 
 describe("polarity and sampling", () => {
