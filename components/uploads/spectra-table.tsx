@@ -9,6 +9,7 @@ import { Notice } from "@/components/ui/card";
 import { api, ApiError } from "@/lib/api-client";
 import { formatGap } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
+import { readNumber } from "@/lib/schemas/number";
 
 type Row = {
   id: string;
@@ -32,16 +33,28 @@ type Page = { total: number; page: number; pageSize: number; rows: Row[]; region
 type Sort = "index" | "file" | "region" | "setpointCurrent" | "zOffset" | "gap" | "field";
 type Patch = { region?: string | null; setpointBias_V?: number | null; setpointCurrent_A?: number | null; zOffset_pm?: number | null; tipId?: string | null };
 
+/** What a typed value becomes: the API's value (null clears), or why it was not sent. */
+type Parsed = { value: string | number | null } | { error: string };
+
+/** A number cell: blank clears; a number in the column's unit (a decimal comma is read as a point), scaled to the API's unit; anything else is refused before it is sent. */
+const numberCell =
+  (label: string, unit: string, toApi = 1) =>
+  (s: string): Parsed => {
+    const v = readNumber(s);
+    if (v === undefined) return { value: null };
+    return typeof v === "number" && Number.isFinite(v) ? { value: v * toApi } : { error: `Not saved: ${label} "${s.trim()}" is not a number (in ${unit}).` };
+  };
+
 /** The editable fields, with how the table shows them and how a typed value becomes the API's unit. */
 const EDITABLE = {
-  region: { label: "Region", unit: "", show: (r: Row) => r.region ?? "", parse: (s: string) => (s.trim() ? s.trim() : null) },
-  setpointBias_V: { label: "V set", unit: "V", show: (r: Row) => (r.setpointBias_V == null ? "" : String(r.setpointBias_V)), parse: (s: string) => (s.trim() ? Number(s.replace(",", ".")) : null) },
-  setpointCurrent_A: { label: "I set", unit: "pA", show: (r: Row) => (r.setpointCurrent_A == null ? "" : String(+(r.setpointCurrent_A * 1e12).toPrecision(6))), parse: (s: string) => (s.trim() ? Number(s.replace(",", ".")) * 1e-12 : null) },
-  zOffset_pm: { label: "Δz", unit: "pm", show: (r: Row) => (r.zOffset_pm == null ? "" : String(r.zOffset_pm)), parse: (s: string) => (s.trim() ? Number(s.replace(",", ".")) : null) },
+  region: { label: "Region", unit: "", show: (r: Row) => r.region ?? "", parse: (s: string): Parsed => ({ value: s.trim() ? s.trim() : null }) },
+  setpointBias_V: { label: "V set", unit: "V", show: (r: Row) => (r.setpointBias_V == null ? "" : String(r.setpointBias_V)), parse: numberCell("setpoint bias", "V") },
+  setpointCurrent_A: { label: "I set", unit: "pA", show: (r: Row) => (r.setpointCurrent_A == null ? "" : String(+(r.setpointCurrent_A * 1e12).toPrecision(6))), parse: numberCell("setpoint current", "pA", 1e-12) },
+  zOffset_pm: { label: "Δz", unit: "pm", show: (r: Row) => (r.zOffset_pm == null ? "" : String(r.zOffset_pm)), parse: numberCell("z offset", "pm") },
 } as const;
 type EditKey = keyof typeof EDITABLE;
 
-function EditableCell({ row, field, canEdit, onSave }: { row: Row; field: EditKey; canEdit: boolean; onSave: (ids: string[], patch: Patch) => Promise<void> }) {
+function EditableCell({ row, field, canEdit, onSave }: { row: Row; field: EditKey; canEdit: boolean; onSave: (ids: string[], field: EditKey, parsed: Parsed) => Promise<void> }) {
   const spec = EDITABLE[field];
   const [editing, setEditing] = useState(false);
   const [value, setValue] = useState(spec.show(row));
@@ -55,7 +68,7 @@ function EditableCell({ row, field, canEdit, onSave }: { row: Row; field: EditKe
   const save = async () => {
     setEditing(false);
     if (value === spec.show(row)) return;
-    await onSave([row.id], { [field]: spec.parse(value) });
+    await onSave([row.id], field, spec.parse(value));
   };
   return (
     <input
@@ -100,8 +113,13 @@ export function SpectraTable({ lab, sessionId, sampleId, canEdit, tips }: { lab:
     },
     onError: (e) => setError(e instanceof ApiError ? e.message : "The change was not saved."),
   });
-  const save = async (ids: string[], patch: Patch) => {
+  const send = async (ids: string[], patch: Patch) => {
     await tag.mutateAsync({ ids, patch }).catch(() => undefined);
+  };
+  /** A typed value: sent when it reads as one, otherwise the reason is shown and nothing changes. */
+  const save = async (ids: string[], field: EditKey, parsed: Parsed) => {
+    if ("error" in parsed) setError(parsed.error);
+    else await send(ids, { [field]: parsed.value });
   };
   const header = (key: Sort, label: string, unit?: string) => (
     <th scope="col" className="px-3 py-2 font-semibold" aria-sort={sort === key ? (dir === "asc" ? "ascending" : "descending") : undefined}>
@@ -130,8 +148,8 @@ export function SpectraTable({ lab, sessionId, sampleId, canEdit, tips }: { lab:
   const applyBulk = async () => {
     const ids = [...selected];
     if (!ids.length) return;
-    const patch: Patch = bulk.field === "tipId" ? { tipId: bulk.value || null } : { [bulk.field]: EDITABLE[bulk.field].parse(bulk.value) };
-    await save(ids, patch);
+    if (bulk.field === "tipId") await send(ids, { tipId: bulk.value || null });
+    else await save(ids, bulk.field, EDITABLE[bulk.field].parse(bulk.value));
   };
 
   return (

@@ -1,8 +1,10 @@
 import { z } from "zod";
+import { numberInput } from "./number";
 
 /**
  * Inputs for samples, tips, sessions and members: one schema each, used by the browser forms, the
- * server actions and the HTTP API alike. Numbers use `z.coerce` because forms send strings.
+ * server actions and the HTTP API alike. Numbers go through `numberInput`: forms send text, scripts
+ * send JSON, and neither a blank nor a `null` may turn into 0.
  * Work-function bounds: every elemental metal and common 2D film lies within 2–7 eV
  * (CRC Handbook, 2008, work functions of the elements); an uncertainty above 1 eV is a typo.
  */
@@ -14,14 +16,18 @@ const optionalText = (max: number) =>
     .optional()
     .transform((v) => (v ? v : undefined));
 
-const workFunction = z.coerce
-  .number({ error: "Enter a number in eV." })
-  .min(2, "A work function below 2 eV is not physical for a tip or film.")
-  .max(7, "A work function above 7 eV is not physical for a tip or film.");
-const workFunctionSigma = z.coerce
-  .number({ error: "Enter a number in eV." })
-  .min(0, "An uncertainty cannot be negative.")
-  .max(1, "An uncertainty above 1 eV is almost certainly a typo.");
+const workFunction = numberInput(
+  z
+    .number({ error: "Enter a number in eV." })
+    .min(2, "A work function below 2 eV is not physical for a tip or film.")
+    .max(7, "A work function above 7 eV is not physical for a tip or film."),
+);
+const workFunctionSigma = numberInput(
+  z
+    .number({ error: "Enter a number in eV." })
+    .min(0, "An uncertainty cannot be negative.")
+    .max(1, "An uncertainty above 1 eV is almost certainly a typo."),
+);
 
 const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use the form YYYY-MM-DD.");
 
@@ -56,11 +62,13 @@ export const sessionInput = z.object({
   label: z.string().trim().min(1, "Give the session a label.").max(120, "At most 120 characters."),
   date: isoDate,
   instrument: optionalText(120),
-  temperature_K: z.coerce
-    .number({ error: "Enter a temperature in kelvin." })
-    .positive("Temperature is in kelvin and must be above zero.")
-    .max(400, "Above 400 K is outside what this instrument model covers.")
-    .optional(),
+  temperature_K: numberInput(
+    z
+      .number({ error: "Enter a temperature in kelvin." })
+      .positive("Temperature is in kelvin and must be above zero.")
+      .max(400, "Above 400 K is outside what this instrument model covers.")
+      .optional(),
+  ),
   notes: optionalText(4000),
 });
 export type SessionInput = z.infer<typeof sessionInput>;

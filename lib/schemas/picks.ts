@@ -1,12 +1,14 @@
 import { z } from "zod";
+import { numberInput } from "./number";
 
 const reason = z.string().trim().min(3, "Say why, in a few words (kept in the pick's history).").max(500, "At most 500 characters.");
-const version = z.coerce.number().int().min(1);
+const version = numberInput(z.number({ error: "must be the version number the pick was read at" }).int("must be a whole number").min(1, "must be 1 or more"));
+const edge = numberInput(z.number({ error: "must be a bias in V" }));
 
 export const correctPickInput = z
   .object({
-    vbEdge_V: z.coerce.number().finite(),
-    cbEdge_V: z.coerce.number().finite(),
+    vbEdge_V: edge,
+    cbEdge_V: edge,
     reason,
     version,
   })

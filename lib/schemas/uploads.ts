@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { numberInput } from "./number";
 
 /** File names as the browser or the command line sends them: a base name, no folders or control characters. */
 const fileName = z
@@ -24,12 +25,15 @@ export const createUploadsInput = z.object({
 });
 export type CreateUploadsInput = z.infer<typeof createUploadsInput>;
 
+/** A number field's own schema: every refusal of a non-number names the unit it is read in. */
+const num = (unit: string) => z.number({ error: `must be a number (in ${unit})` });
+
 export const tagPatch = z
   .object({
     region: z.string().trim().max(80).nullable().optional(),
-    setpointBias_V: z.coerce.number().finite().refine((v) => v !== 0, "The setpoint bias cannot be zero.").nullable().optional(),
-    setpointCurrent_A: z.coerce.number().finite().positive("The setpoint current is positive (in A, e.g. 1e-10 for 100 pA).").max(1e-6, "Above 1 µA is not a tunnelling setpoint.").nullable().optional(),
-    zOffset_pm: z.coerce.number().finite().min(-2000).max(2000).nullable().optional(),
+    setpointBias_V: numberInput(num("V").refine((v) => v !== 0, "The setpoint bias cannot be zero.").nullable().optional()),
+    setpointCurrent_A: numberInput(num("A").positive("The setpoint current is positive (in A, e.g. 1e-10 for 100 pA).").max(1e-6, "Above 1 µA is not a tunnelling setpoint.").nullable().optional()),
+    zOffset_pm: numberInput(num("pm").min(-2000, "A z offset beyond ±2000 pm is not a tunnelling change.").max(2000, "A z offset beyond ±2000 pm is not a tunnelling change.").nullable().optional()),
     tipId: z.string().uuid().nullable().optional(),
   })
   .refine((p) => Object.keys(p).length > 0, "Change at least one field.");
@@ -50,11 +54,11 @@ export const spectraQuery = z.object({
 export type SpectraQuery = z.infer<typeof spectraQuery>;
 
 export const fieldModelInput = z.object({
-  contactDistance_nm: z.coerce.number({ error: "must be a number" }).min(0, "The contact distance cannot be negative.").max(1, "A contact distance above 1 nm is not a tunnel junction."),
-  contactDistanceSigma_nm: z.coerce.number({ error: "must be a number" }).min(0).max(0.5).default(0.05),
+  contactDistance_nm: numberInput(num("nm").min(0, "The contact distance cannot be negative.").max(1, "A contact distance above 1 nm is not a tunnel junction.")),
+  contactDistanceSigma_nm: numberInput(num("nm").min(0, "An uncertainty cannot be negative.").max(0.5, "An uncertainty above 0.5 nm is larger than the junction.").default(0.05)),
   /** "mean-work-function" or "measured" (then barrierHeight_eV is the measured apparent barrier). */
   decayConstantSource: z.enum(["mean-work-function", "measured"]).default("mean-work-function"),
-  barrierHeight_eV: z.coerce.number({ error: "must be a number" }).min(0.1).max(10).nullable().optional(),
-  screening: z.coerce.number({ error: "must be a number" }).min(1, "A screening factor below 1 would amplify the field.").max(100).default(1),
+  barrierHeight_eV: numberInput(num("eV").min(0.1, "An apparent barrier below 0.1 eV is not a tunnel barrier.").max(10, "An apparent barrier above 10 eV is not physical.").nullable().optional()),
+  screening: numberInput(num("a factor").min(1, "A screening factor below 1 would amplify the field.").max(100, "A screening factor above 100 leaves no field.").default(1)),
   note: z.string().trim().max(500).optional(),
 }).refine((m) => m.decayConstantSource !== "measured" || m.barrierHeight_eV != null, { message: "Give the measured apparent barrier height.", path: ["barrierHeight_eV"] });

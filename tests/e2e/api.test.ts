@@ -57,6 +57,15 @@ describe("HTTP API v1", () => {
     expect((await call("POST", "/samples", tokens["a-owner"], sampleBody("A-private"))).status).toBe(409);
   });
 
+  it("a null where a number belongs is a 422 naming the field, never a zero: the field model keeps its version", async () => {
+    const t = tokens["a-analyst"];
+    const before = (await (await call("GET", `/samples/${aSampleId}/field-model`, t)).json()) as { version: number };
+    const res = await call("PUT", `/samples/${aSampleId}/field-model`, t, { contactDistance_nm: null });
+    expect(res.status).toBe(422);
+    expect(((await res.json()) as { error: { fields: Record<string, string[]> } }).error.fields).toEqual({ contactDistance_nm: ["must be a number (in nm)"] });
+    expect(((await (await call("GET", `/samples/${aSampleId}/field-model`, t)).json()) as { version: number }).version).toBe(before.version);
+  });
+
   it("a collaborator's token reads but every write is refused with 403", async () => {
     const t = tokens["a-collaborator"];
     expect((await call("GET", "/samples", t)).status).toBe(200);

@@ -75,6 +75,19 @@ describe("upload in the browser", () => {
     await page.fill('[data-testid="spectrum-row"] >> nth=0 >> input[aria-label="Region"]', "terrace A");
     await page.keyboard.press("Enter");
     await page.waitForSelector('[data-testid="spectrum-row"] >> text=terrace A');
+
+    // A typo in a number cell is refused on the page and changes nothing; a number is saved.
+    const current = '[data-testid="spectrum-row"] >> nth=0 >> button[aria-label^="Edit I set"]';
+    const before = (await page.textContent(current))?.trim();
+    await page.click(current);
+    await page.fill('[data-testid="spectrum-row"] >> nth=0 >> input[aria-label="I set (pA)"]', "fifty");
+    await page.keyboard.press("Enter");
+    await page.waitForSelector('text=Not saved: setpoint current "fifty" is not a number (in pA).');
+    expect((await page.textContent(current))?.trim()).toBe(before);
+    await page.click(current);
+    await page.fill('[data-testid="spectrum-row"] >> nth=0 >> input[aria-label="I set (pA)"]', "75,5");
+    await page.keyboard.press("Enter");
+    await page.waitForFunction((sel) => document.querySelector(sel)?.textContent?.trim() === "75.5", '[data-testid="spectrum-row"]:first-of-type button[aria-label^="Edit I set"]');
     await context.close();
   });
 });
