@@ -8,6 +8,7 @@
  * them. A missed goal is printed as MISSED; it does not fail the run.
  */
 import { spawn } from "node:child_process";
+import fs from "node:fs";
 
 type Part = () => Promise<{ run: () => Promise<void> }>;
 
@@ -66,6 +67,17 @@ async function main() {
     return;
   }
   for (const name of local) await runPart(name, parts[name]);
+  if (web.includes("browser")) {
+    // Checked before the stack is built: the part drives Debian's chromium (npm test installs it).
+    const chromium = process.env.CHROMIUM_PATH || "/usr/bin/chromium";
+    try {
+      fs.accessSync(chromium, fs.constants.X_OK);
+    } catch {
+      process.stderr.write(`bench: the browser part needs chromium at ${chromium}: install it with \`apt-get install chromium\` (as root), or set CHROMIUM_PATH\n`);
+      process.exitCode = 2;
+      return;
+    }
+  }
   if (web.length) {
     process.stdout.write(`\n=== web (${web.join(", ")}) in a stack of its own ===\n`);
     const code = await runInStack(web);
