@@ -12,6 +12,37 @@ import { fileStem } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
 
 export type { PhaseData };
+
+/**
+ * How to read the plot, under it: how many points are automatic picks, corrected by an analyst or
+ * excluded, each with the marker shape it has on the plot, and what a click does.
+ */
+function PhaseKey({ points }: { points: PhaseData["points"] }) {
+  let corrected = 0;
+  let excluded = 0;
+  for (const p of points) {
+    if (p.excluded) excluded++;
+    else if (p.source === "corrected") corrected++;
+  }
+  const auto = points.length - corrected - excluded;
+  return (
+    <dl className="flex flex-wrap gap-x-5 gap-y-1 border-t border-line pt-3 text-xs text-ink-soft" data-testid="phase-key">
+      <div className="inline-flex items-center gap-1.5">
+        <dt><span aria-hidden>●</span> automatic picks</dt>
+        <dd className="num text-ink">{auto}</dd>
+      </div>
+      <div className="inline-flex items-center gap-1.5">
+        <dt><span aria-hidden>◆</span> corrected by an analyst</dt>
+        <dd className="num text-ink">{corrected}</dd>
+      </div>
+      <div className="inline-flex items-center gap-1.5">
+        <dt><span aria-hidden>✕</span> excluded (not in the fit)</dt>
+        <dd className="num text-ink">{excluded}</dd>
+      </div>
+      <p className="basis-full text-muted">Click a point to open its spectrum. The field axis is a model estimate: its assumptions are beside the plot.</p>
+    </dl>
+  );
+}
 type XMode = "field" | "distance" | "conductance";
 
 const X_AXIS: Record<XMode, { title: string; type?: "log"; of: (p: PhaseData["points"][number]) => number | null; sigma?: (p: PhaseData["points"][number]) => number | null }> = {
@@ -200,6 +231,7 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
           />
         </div>
       )}
+      {data.points.length ? <PhaseKey points={data.points} /> : null}
     </div>
   );
 }
