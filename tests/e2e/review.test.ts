@@ -66,6 +66,8 @@ describe("review in the browser", () => {
     await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
     await page.waitForSelector('[data-testid="phase-plot"] .js-plotly-plot');
     const before = await page.textContent('[data-testid="critical-field"]');
+    const corrected = async () => Number(await page.textContent('[data-testid="phase-key"] div:nth-child(2) dd'));
+    const correctedBefore = await corrected();
     await shot(page, "phase-plot");
     await page.goto(`${APP_URL}/labs/${lab.lab.slug}/spectra/${ids[1]}`);
     await page.waitForSelector('[data-testid="spectrum-review"] .js-plotly-plot');
@@ -84,6 +86,7 @@ describe("review in the browser", () => {
     await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
     await page.waitForSelector('[data-testid="phase-plot"] .js-plotly-plot');
     await page.waitForSelector(".legend >> text=corrected");
+    expect(await corrected()).toBe(correctedBefore + 1);
     const after = await page.textContent('[data-testid="critical-field"]');
     expect(after).not.toBe(before);
     await context.close();
