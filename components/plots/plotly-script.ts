@@ -20,6 +20,16 @@ function missingSrc(): never {
 }
 
 let loading: Promise<PlotlyStatic> | null = null;
+/** Failed loads in this document so far. */
+let failures = 0;
+
+/**
+ * The address a new `<script>` loads: after a failure, the same file under a query the server
+ * ignores. Chromium keeps a script that failed in its memory cache for the rest of the document
+ * and answers a new element with the same address from there, with the same error and no request
+ * (seen in Chromium 150), so a retry under the plain address could never succeed.
+ */
+const attemptSrc = () => (failures ? `${PLOTLY_SRC}?attempt=${failures + 1}` : PLOTLY_SRC);
 
 /**
  * Whether the browser already tried this script and got no library back: a network error (status
@@ -33,7 +43,8 @@ function failedEarlier(script: HTMLScriptElement): boolean {
 /**
  * Resolves with the global `Plotly` once the script has run: at once when it has, else when the
  * `<script>` already in the page (from `preinit`) or one added here finishes. A script that had
- * already failed is replaced; a failed load rejects and is tried afresh on the next call.
+ * already failed is replaced; a failed load rejects and is tried afresh, under a new address
+ * (`attemptSrc`), on the next call.
  */
 export function loadPlotly(): Promise<PlotlyStatic> {
   const w = window as unknown as { Plotly?: PlotlyStatic };
@@ -43,10 +54,11 @@ export function loadPlotly(): Promise<PlotlyStatic> {
     if (script && failedEarlier(script)) {
       script.remove();
       script = null;
+      failures++;
     }
     if (!script) {
       script = document.createElement("script");
-      script.src = PLOTLY_SRC;
+      script.src = attemptSrc();
       script.async = true;
       document.head.appendChild(script);
     }
@@ -56,6 +68,7 @@ export function loadPlotly(): Promise<PlotlyStatic> {
       "error",
       () => {
         added.remove();
+        failures++;
         reject(new Error("the download failed"));
       },
       { once: true },

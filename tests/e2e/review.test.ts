@@ -279,6 +279,9 @@ describe("review in the browser", () => {
     // The cell at x = 0, y = 0: left column, bottom row (y grows upwards). Plotly takes the point
     // under the pointer from its hover, so the pointer rests there first, until the hover names
     // that cell (the cards beside the map may still move the page as they load).
+    // The cards beside the map fetch their data after the page has drawn; a click aimed before
+    // they have landed can meet another cell once the page has moved.
+    await page.waitForLoadState("networkidle");
     const hover = map.locator(".hoverlayer .hovertext");
     let at: [number, number] = [0, 0];
     await expect
