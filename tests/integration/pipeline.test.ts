@@ -11,6 +11,7 @@ import { getPhase, getSpectrum, listSessionSpectra } from "@/lib/services/spectr
 import { tagSpectra } from "@/lib/services/spectra/tagSpectra";
 import { createTip } from "@/lib/services/tips/tips";
 import { createUploads } from "@/lib/services/uploads/createUploads";
+import { processUpload } from "@/lib/services/uploads/processUpload";
 import { completeUpload, getUpload, retryUpload } from "@/lib/services/uploads/uploadStatus";
 import { estimateField, makeSweep, resolveFieldModel, spectrumToCsv } from "@/lib/spectra";
 import { objectSize } from "@/lib/storage/s3";
@@ -163,6 +164,21 @@ describe("bad files and crashes", () => {
     expect(row.attempts).toBeGreaterThanOrEqual(2);
     expect(await db().select().from(spectra).where(eq(spectra.uploadId, id))).toHaveLength(1);
   }, 90_000);
+
+  it("two runs of one file at once (a job retried while the first still works) store it once, and a later run changes nothing", async () => {
+    const bytes = bytesOf(spectrumToCsv(makeSweep({ n: 3, seed: 78 }).spectra[0]));
+    const { id } = await uploadFile(lab.ctx("owner"), sessionId, "twice.csv", bytes);
+    // The worker may take the queued job too: at most one of all the runs stores the file.
+    const outcomes = await Promise.all([processUpload(db(), id), processUpload(db(), id)]);
+    expect(outcomes.filter((o) => o.status === "done").length).toBeLessThanOrEqual(1);
+    expect(outcomes.every((o) => o.status === "done" || (o.status === "skipped" && /already done/.test(o.reason)))).toBe(true);
+    const stored = await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, id));
+    expect(stored).toHaveLength(1);
+    expect(await processUpload(db(), id)).toEqual({ status: "skipped", reason: "already done" });
+    const [row] = await waitForUploads([id]);
+    expect(row.status).toBe("done");
+    expect(await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, id))).toEqual(stored);
+  });
 });
 
 describe("who may do what in the pipeline", () => {

@@ -20,7 +20,8 @@ export type ProcessOutcome =
  * The worker's job for one raw file: read it from storage, parse it with the analysis core, store
  * its spectra with their automatic picks and field estimates, and refit the sample. A file's
  * spectra are stored in one transaction or not at all; running it again (a retry after a crash)
- * replaces what an earlier run stored. A file that cannot be read is marked failed with the
+ * replaces what an unfinished earlier run stored, and a run that finds the file stored by another
+ * meanwhile leaves it as it is. A file that cannot be read is marked failed with the
  * parser's message; its raw bytes stay in storage. Infrastructure errors (storage or database
  * unreachable) are thrown, so the queue retries with backoff.
  */
@@ -60,7 +61,13 @@ export async function processUpload(db: DbOrTx, uploadId: string, hooks: { after
   const noSetpoint = prepared.filter((p) => p.field.fieldVPerNm == null).length;
   if (noSetpoint) warnings.push(`${noSetpoint} of ${prepared.length} spectra have no field estimate (no setpoint in the file): tag their setpoint to place them on the phase plot.`);
 
-  await db.transaction(async (tx) => {
+  const stored = await db.transaction(async (tx) => {
+    // Another run of the same file (a job retried after its lease ran out while the first was
+    // still working, on another worker) may have stored it meanwhile: the row lock makes the
+    // runs take turns, and the later one keeps what the first stored (its spectra's ids, and any
+    // correction made since) instead of replacing it.
+    const [now] = await tx.select({ status: uploads.status }).from(uploads).where(eq(uploads.id, u.id)).for("update");
+    if (!now || now.status === "done") return false;
     const old = await tx.select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, u.id));
     if (old.length) await tx.delete(spectra).where(inArray(spectra.id, old.map((o) => o.id)));
     for (let i = 0; i < prepared.length; i += INSERT_BATCH) {
@@ -103,7 +110,9 @@ export async function processUpload(db: DbOrTx, uploadId: string, hooks: { after
       .update(uploads)
       .set({ status: "done", message: null, spectraCount: prepared.length, warnings: warnings.slice(0, 200), updatedAt: new Date() })
       .where(eq(uploads.id, u.id));
+    return true;
   });
+  if (!stored) return { status: "skipped", reason: "already done by another run" };
   const refit = await refitSample(db, session.sampleId);
   return { status: "done", spectra: prepared.length, refit };
 }
