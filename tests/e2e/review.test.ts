@@ -208,13 +208,15 @@ describe("review in the browser", () => {
   it("a plotting library that fails to download gets a message and a retry that draws the plot", async () => {
     // A browser without the script worker's copy: the library comes from the network, which fails.
     const { context, page } = await signedIn(lab.people.analyst.email, { serviceWorkers: "block" });
-    await page.route("**/vendor/plotly-*.min.js", (route) => route.abort());
+    // Every address of the library, retries (with a query) included.
+    const library = /\/vendor\/plotly-[^/?]*\.min\.js(\?.*)?$/;
+    await page.route(library, (route) => route.abort());
     await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
     const alert = page.locator('[data-testid="phase-plot"] [role="alert"]');
     await alert.waitFor();
     expect(await alert.textContent()).toContain("The plotting library could not be loaded");
     await shot(page, "phase-plot-library-failed");
-    await page.unroute("**/vendor/plotly-*.min.js");
+    await page.unroute(library);
     await alert.locator("button", { hasText: "Retry" }).click();
     await page.waitForSelector('[data-testid="phase-plot"] .main-svg');
     expect(await alert.count()).toBe(0);

@@ -30,6 +30,10 @@ export class SignInPage {
     await this.page.goto(`${APP_URL}/sign-in`);
   }
   async signIn(email: string, password: string) {
+    // A previous attempt's answer resets the form when React commits it (React 19 form actions),
+    // which can land after its response: typed values would be wiped and the submit refused as
+    // incomplete. The button is enabled again only in that same commit.
+    await this.page.waitForSelector('[data-testid="sign-in-submit"]:enabled');
     await this.page.fill('[data-testid="sign-in-form"] input[name="email"]', email);
     await this.page.fill('[data-testid="sign-in-form"] input[name="password"]', password);
     // Wait for the server action's answer, so a following attempt never races the previous one.
