@@ -1,6 +1,6 @@
 "use client";
 
-import { type ComponentType, type ReactNode, useEffect, useRef, useState } from "react";
+import { type ComponentType, type ReactNode, useEffect, useLayoutEffect, useRef, useState, useSyncExternalStore } from "react";
 import { preinit } from "react-dom";
 import createPlotlyComponent, { type PlotParams } from "react-plotly.js/factory";
 import { loadPlotly, PLOTLY_SRC } from "./plotly-script";
@@ -20,23 +20,42 @@ interface Loaded {
   modeBarButtonsToAdd: object[];
 }
 let component: Promise<Loaded> | null = null;
+/** The same, once made: a figure mounted after the library has run draws in its first commit. */
+let ready: Loaded | null = null;
+
+function makeLoaded(Plotly: Loaded["Plotly"]): Loaded {
+  ready ??= {
+    Plotly,
+    Component: createPlotlyComponent(Plotly) as ComponentType<PlotParams>,
+    modeBarButtonsToAdd: [
+      {
+        name: "figure-png",
+        title: "Download the figure as PNG",
+        icon: Plotly.Icons.camera,
+        // The plot's own config (its file name) is on the graph div.
+        click: (gd: HTMLElement & { _context?: unknown }) => void downloadFigure(gd, { format: "png", filename: fileName(gd._context), width: gd.clientWidth, height: gd.clientHeight }),
+      },
+    ],
+  };
+  return ready;
+}
+
+/** True while React hydrates server-rendered HTML (its server snapshot), false in a render on the client. */
+const noSubscription = () => () => {};
+const notHydrating = () => false;
+const isHydrating = () => true;
+
+/** The component at once when the library's script has already run (it usually has by hydration), else null. */
+function loadedNow(): Loaded | null {
+  const Plotly = typeof window === "undefined" ? undefined : (window as unknown as { Plotly?: Loaded["Plotly"] }).Plotly;
+  return ready ?? (Plotly ? makeLoaded(Plotly) : null);
+}
+
 function loadComponent(): Promise<Loaded> {
   // The factory (a few kB) is bundled, not a chunk of its own: when the library's script has run
   // before hydration ends, the figure starts drawing without another request.
   component ??= loadPlotly()
-    .then((Plotly) => ({
-      Plotly,
-      Component: createPlotlyComponent(Plotly) as ComponentType<PlotParams>,
-      modeBarButtonsToAdd: [
-        {
-          name: "figure-png",
-          title: "Download the figure as PNG",
-          icon: Plotly.Icons.camera,
-          // The plot's own config (its file name) is on the graph div.
-          click: (gd: HTMLElement & { _context?: unknown }) => void downloadFigure(gd, { format: "png", filename: fileName(gd._context), width: gd.clientWidth, height: gd.clientHeight }),
-        },
-      ],
-    }))
+    .then(makeLoaded)
     .catch((e: unknown) => {
       component = null;
       throw e;
@@ -76,6 +95,7 @@ export function Plot({ placeholder, ...props }: Omit<PlotParams, "useResizeHandl
   preinit(PLOTLY_SRC, { as: "script", fetchPriority: "high" });
   const [loaded, setLoaded] = useState<Loaded | { error: Error } | null>(null);
   const [attempt, setAttempt] = useState(0);
+  const hydrating = useSyncExternalStore(noSubscription, notHydrating, isHydrating);
   const box = useRef<HTMLDivElement>(null);
   /** The graph div, once Plotly has drawn into it. */
   const [graph, setGraph] = useState<HTMLElement | null>(null);
@@ -102,7 +122,18 @@ export function Plot({ placeholder, ...props }: Omit<PlotParams, "useResizeHandl
       cancelAnimationFrame(frame);
     };
   }, [graph, Plotly]);
-  useEffect(() => {
+  // A figure that hydrates with the page is already on screen as its placeholder: it is drawn in
+  // the hydration's own commit when the library is there, not after a paint and the scheduler's
+  // later turns. One mounted by a client navigation is drawn after the new page has painted, so
+  // the page and its placeholder show first (drawing in that commit made the list-to-sample
+  // case 0.2-0.4 s slower to reach the screen).
+  const [viaHydration] = useState(hydrating);
+  const start = () => {
+    const now = loadedNow();
+    if (now) {
+      setLoaded(now);
+      return;
+    }
     let live = true;
     loadComponent().then(
       (l) => live && setLoaded(l),
@@ -111,7 +142,9 @@ export function Plot({ placeholder, ...props }: Omit<PlotParams, "useResizeHandl
     return () => {
       live = false;
     };
-  }, [attempt]);
+  };
+  useLayoutEffect(() => (viaHydration ? start() : undefined), [attempt]);
+  useEffect(() => (viaHydration ? undefined : start()), [attempt]);
   return (
     <div ref={box} className="relative h-full w-full">
       {loaded && "Component" in loaded ? (
