@@ -62,14 +62,18 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
           </>
         }
       />
-      <div className="grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)]">
+      {/* One grid: on wide screens the phase plot, the gap map and the settings stack on the left
+          and the side cards span the right, so neither column leaves a gap (the last row is the
+          flexible one, so the side cards' height goes there, not under the plot); on narrow
+          screens the side cards (the critical field first) follow the plot. */}
+      <div className={`grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)] xl:items-start ${map.grids.length ? "xl:grid-rows-[auto_auto_1fr]" : "xl:grid-rows-[auto_1fr]"}`}>
         <Card title="Gap versus estimated field">
           <PhasePlot lab={lab} sampleId={s.id} initial={packPhase(phase)} />
         </Card>
         {/* Boundaries of their own: React hydrates them after the plot's part of the page, so the
             plot starts drawing sooner; a click in one before then hydrates it at once. */}
         <Suspense>
-        <div className="space-y-5">
+        <div className={`space-y-5 xl:col-start-2 xl:row-start-1 ${map.grids.length ? "xl:row-span-3" : "xl:row-span-2"}`}>
           <Card title="Critical field">
             <CrossingSummary crossing={phase.crossing} nIncluded={included} />
           </Card>
@@ -96,33 +100,6 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
               </p>
             </div>
           </Card>
-        </div>
-        </Suspense>
-      </div>
-      {map.grids.length ? (
-        <Suspense>
-          <div className="mt-5">
-            <Card title="Gap map">
-              <GapMap lab={lab} sampleId={s.id} initial={map} />
-            </Card>
-          </div>
-        </Suspense>
-      ) : null}
-      <Suspense>
-      <div className="mt-5 grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)]">
-        <Card title="Analysis settings">
-          <SettingsEditors
-            lab={lab}
-            sampleId={s.id}
-            canEdit={can(ctx.actor.role, "analysis:write")}
-            initial={{
-              settings: { id: versions.settings.id, version: versions.settings.version, settings: versions.settings.settings, createdAt: versions.settings.createdAt.toISOString() },
-              fieldModel: { id: versions.field.id, version: versions.field.version, model: versions.field.model, createdAt: versions.field.createdAt.toISOString() },
-              run: versions.run ? { id: versions.run.id, status: versions.run.status, total: versions.run.total, done: versions.run.done, reason: versions.run.reason } : null,
-            }}
-          />
-        </Card>
-        <div className="space-y-5">
         <Card title="Export for a paper">
           <ul className="space-y-2 text-sm" data-testid="exports">
             <li>
@@ -172,8 +149,33 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
           {s.notes ? <p className="mt-4 whitespace-pre-wrap border-t border-line pt-3 text-sm text-ink-soft">{s.notes}</p> : null}
         </Card>
         </div>
+        </Suspense>
+        {map.grids.length ? (
+          <Suspense>
+            <div className="xl:col-start-1">
+              <Card title="Gap map">
+                <GapMap lab={lab} sampleId={s.id} initial={map} />
+              </Card>
+            </div>
+          </Suspense>
+        ) : null}
+        <Suspense>
+        <div className="xl:col-start-1">
+        <Card title="Analysis settings">
+          <SettingsEditors
+            lab={lab}
+            sampleId={s.id}
+            canEdit={can(ctx.actor.role, "analysis:write")}
+            initial={{
+              settings: { id: versions.settings.id, version: versions.settings.version, settings: versions.settings.settings, createdAt: versions.settings.createdAt.toISOString() },
+              fieldModel: { id: versions.field.id, version: versions.field.version, model: versions.field.model, createdAt: versions.field.createdAt.toISOString() },
+              run: versions.run ? { id: versions.run.id, status: versions.run.status, total: versions.run.total, done: versions.run.done, reason: versions.run.reason } : null,
+            }}
+          />
+        </Card>
+        </div>
+        </Suspense>
       </div>
-      </Suspense>
     </>
   );
 }
