@@ -179,6 +179,22 @@ describe("bad files and crashes", () => {
     expect(row.status).toBe("done");
     expect(await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, id))).toEqual(stored);
   });
+
+  it("a run that read the file's row just before another run stored it leaves the stored file as it is", async () => {
+    const bytes = bytesOf(spectrumToCsv(makeSweep({ n: 3, seed: 79 }).spectra[1]));
+    const { id } = await uploadFile(lab.ctx("owner"), sessionId, "late.csv", bytes);
+    let first: Awaited<ReturnType<typeof processUpload>> | undefined;
+    // The late run reads the row (not done), then another run stores the whole file before it goes on.
+    const late = await processUpload(db(), id, { afterRead: async () => void (first = await processUpload(db(), id)) });
+    const stored = await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, id));
+    expect(stored).toHaveLength(1);
+    // The queued job may have stored it first; either way exactly one run stored it.
+    expect([first?.status, late.status].filter((s) => s === "done").length).toBeLessThanOrEqual(1);
+    expect(late.status).toBe("skipped");
+    const [row] = await waitForUploads([id]);
+    expect(row.status).toBe("done");
+    expect(await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, id))).toEqual(stored);
+  });
 });
 
 describe("who may do what in the pipeline", () => {

@@ -1,5 +1,5 @@
 import "server-only";
-import { eq, inArray } from "drizzle-orm";
+import { and, eq, inArray, ne, sql } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { gapPicks, measurementSessions, spectra, tips, uploads } from "@/db/schema";
 import { sha256Hex } from "@/lib/auth/secrets";
@@ -25,11 +25,20 @@ export type ProcessOutcome =
  * parser's message; its raw bytes stay in storage. Infrastructure errors (storage or database
  * unreachable) are thrown, so the queue retries with backoff.
  */
-export async function processUpload(db: DbOrTx, uploadId: string, hooks: { afterParse?: () => Promise<void> } = {}): Promise<ProcessOutcome> {
+export async function processUpload(db: DbOrTx, uploadId: string, hooks: { afterRead?: () => Promise<void>; afterParse?: () => Promise<void> } = {}): Promise<ProcessOutcome> {
   const [u] = await db.select().from(uploads).where(eq(uploads.id, uploadId));
   if (!u) return { status: "skipped", reason: "no such upload" };
   if (u.status === "done") return { status: "skipped", reason: "already done" };
-  await db.update(uploads).set({ status: "processing", attempts: u.attempts + 1, updatedAt: new Date() }).where(eq(uploads.id, u.id));
+  await hooks.afterRead?.();
+  // Marked in flight only while not done: a plain write here, from a run that read the row just
+  // before another run stored the file, turned "done" back into "processing" and the file was
+  // stored a second time under new ids.
+  const [claimed] = await db
+    .update(uploads)
+    .set({ status: "processing", attempts: sql`${uploads.attempts} + 1`, updatedAt: new Date() })
+    .where(and(eq(uploads.id, u.id), ne(uploads.status, "done")))
+    .returning({ id: uploads.id });
+  if (!claimed) return { status: "skipped", reason: "already done by another run" };
 
   const bytes = await getObjectBytes(u.storageKey);
   if (sha256Hex(bytes) !== u.sha256) {
@@ -118,10 +127,15 @@ export async function processUpload(db: DbOrTx, uploadId: string, hooks: { after
 }
 
 async function fail(db: DbOrTx, id: string, message: string): Promise<ProcessOutcome> {
-  const [u] = await db.update(uploads).set({ status: "failed", message, updatedAt: new Date() }).where(eq(uploads.id, id)).returning({ sessionId: uploads.sessionId });
+  const [u] = await db
+    .update(uploads)
+    .set({ status: "failed", message, updatedAt: new Date() })
+    .where(and(eq(uploads.id, id), ne(uploads.status, "done")))
+    .returning({ sessionId: uploads.sessionId });
+  if (!u) return { status: "skipped", reason: "already done by another run" };
   // The sample's alerts wait while any of its files is in flight; this one no longer is, so refit
   // (nothing changed in the data) to let the decision be made if it was the last.
-  const [session] = u ? await db.select({ sampleId: measurementSessions.sampleId }).from(measurementSessions).where(eq(measurementSessions.id, u.sessionId)) : [];
+  const [session] = await db.select({ sampleId: measurementSessions.sampleId }).from(measurementSessions).where(eq(measurementSessions.id, u.sessionId));
   if (session) await refitSample(db, session.sampleId);
   return { status: "failed", message };
 }
