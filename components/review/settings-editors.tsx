@@ -7,6 +7,7 @@ import { Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { api, ApiError } from "@/lib/api-client";
 import { queryKeys } from "@/lib/query-keys";
+import { readNumber } from "@/lib/schemas/number";
 
 type Versions = {
   settings: { id: string; version: number; settings: Record<string, any>; createdAt: string };
@@ -15,15 +16,13 @@ type Versions = {
 };
 
 /**
- * A number field's value: null when blank, the number (a decimal comma accepted), or else the text
- * as typed, which the server refuses with its own message ("must be a number"); a NaN would travel
- * as null and read as "blank".
+ * A number field's value, read as every input reads numbers (`readNumber`): null when blank, the
+ * number (a decimal comma accepted), or else the text as typed, which the server refuses with its
+ * own message ("must be a number"); a NaN would travel as null and read as "blank".
  */
 function num(v: FormDataEntryValue | null): number | string | null {
-  const text = v === null ? "" : String(v).trim();
-  if (text === "") return null;
-  const x = Number(text.replace(",", "."));
-  return Number.isFinite(x) ? x : text;
+  const x = readNumber(v === null ? "" : String(v));
+  return x === undefined ? null : (x as number | string);
 }
 
 /** Progress of the background re-analysis that a saved version started. */
