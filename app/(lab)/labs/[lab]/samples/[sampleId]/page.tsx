@@ -35,6 +35,8 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
   ]);
   const model = analysis.modelFor(usedTips[0] ?? null);
   const included = phase.points.filter((p) => !p.excluded).length;
+  // Rows of the wide layout's left column: the plot, the gap map if any, the settings.
+  const rows = map.grids.length ? { grid: "xl:grid-rows-[auto_auto_1fr]", side: "xl:row-span-3" } : { grid: "xl:grid-rows-[auto_1fr]", side: "xl:row-span-2" };
   return (
     <>
       <PageHeader
@@ -66,14 +68,14 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
           and the side cards span the right, so neither column leaves a gap (the last row is the
           flexible one, so the side cards' height goes there, not under the plot); on narrow
           screens the side cards (the critical field first) follow the plot. */}
-      <div className={`grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)] xl:items-start ${map.grids.length ? "xl:grid-rows-[auto_auto_1fr]" : "xl:grid-rows-[auto_1fr]"}`}>
+      <div className={`grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)] xl:items-start ${rows.grid}`}>
         <Card title="Gap versus estimated field">
           <PhasePlot lab={lab} sampleId={s.id} initial={packPhase(phase)} />
         </Card>
         {/* Boundaries of their own: React hydrates them after the plot's part of the page, so the
             plot starts drawing sooner; a click in one before then hydrates it at once. */}
         <Suspense>
-        <div className={`space-y-5 xl:col-start-2 xl:row-start-1 ${map.grids.length ? "xl:row-span-3" : "xl:row-span-2"}`}>
+        <div className={`space-y-5 xl:col-start-2 xl:row-start-1 ${rows.side}`}>
           <Card title="Critical field">
             <CrossingSummary crossing={phase.crossing} nIncluded={included} />
           </Card>
