@@ -1,14 +1,13 @@
 "use client";
 
-import { type ComponentType, type ReactNode, useEffect, useLayoutEffect, useRef, useState, useSyncExternalStore } from "react";
+import { type ComponentType, type ReactNode, useEffect, useLayoutEffect, useMemo, useRef, useState, useSyncExternalStore } from "react";
 import { preinit } from "react-dom";
 import createPlotlyComponent, { type PlotParams } from "react-plotly.js/factory";
 import { loadPlotly, PLOTLY_SRC } from "./plotly-script";
 
 /**
  * react-plotly's component around the global from the versioned static script
- * (`plotly-script.ts`), made once per page; the bundler never carries the library. A failed load
- * is forgotten so that the next attempt starts afresh.
+ * (`plotly-script.ts`), made once per page; the bundler never carries the library.
  */
 interface Loaded {
   Plotly: Awaited<ReturnType<typeof loadPlotly>>;
@@ -19,8 +18,7 @@ interface Loaded {
    */
   modeBarButtonsToAdd: object[];
 }
-let component: Promise<Loaded> | null = null;
-/** The same, once made: a figure mounted after the library has run draws in its first commit. */
+/** Made once per page: a figure mounted after the library has run draws in its first commit. */
 let ready: Loaded | null = null;
 
 function makeLoaded(Plotly: Loaded["Plotly"]): Loaded {
@@ -51,17 +49,12 @@ function loadedNow(): Loaded | null {
   return ready ?? (Plotly ? makeLoaded(Plotly) : null);
 }
 
-function loadComponent(): Promise<Loaded> {
-  // The factory (a few kB) is bundled, not a chunk of its own: when the library's script has run
-  // before hydration ends, the figure starts drawing without another request.
-  component ??= loadPlotly()
-    .then(makeLoaded)
-    .catch((e: unknown) => {
-      component = null;
-      throw e;
-    });
-  return component;
-}
+/**
+ * The component once the library has run. The factory (a few kB) is bundled, not a chunk of its
+ * own, so nothing else is fetched; `loadPlotly` shares one download between callers and forgets a
+ * failed one, so the next call starts afresh.
+ */
+const loadComponent = (): Promise<Loaded> => loadPlotly().then(makeLoaded);
 
 /**
  * WebGL traces draw into canvases of (plot size × this ratio); Plotly's default of 2 quadruples the
@@ -145,18 +138,28 @@ export function Plot({ placeholder, ...props }: Omit<PlotParams, "useResizeHandl
   };
   useLayoutEffect(() => (viaHydration ? start() : undefined), [attempt]);
   useEffect(() => (viaHydration ? undefined : start()), [attempt]);
+  // The same object while the caller's config says the same: react-plotly runs Plotly.react
+  // whenever data, layout or config is a new object, and callers write their config inline, so a
+  // fresh one on every render (this component's own state, a caller's refetch flag) redrew the
+  // figure. Callers' configs are plain data, compared by their JSON.
+  const modeBar = loaded && "Component" in loaded ? loaded.modeBarButtonsToAdd : null;
+  const callerConfig = JSON.stringify(props.config ?? {});
+  const config = useMemo(
+    () => ({
+      plotGlPixelRatio: glPixelRatio(),
+      // The camera button writes the file with downloadFigure, as the pages' own buttons do.
+      modeBarButtonsToRemove: ["toImage"],
+      modeBarButtonsToAdd: modeBar,
+      ...(JSON.parse(callerConfig) as Record<string, unknown>),
+    }),
+    [modeBar, callerConfig],
+  );
   return (
     <div ref={box} className="relative h-full w-full">
       {loaded && "Component" in loaded ? (
         <loaded.Component
           {...props}
-          config={{
-            plotGlPixelRatio: glPixelRatio(),
-            // The camera button writes the file with downloadFigure, as the pages' own buttons do.
-            modeBarButtonsToRemove: ["toImage"],
-            modeBarButtonsToAdd: loaded.modeBarButtonsToAdd,
-            ...(props.config as Record<string, unknown> | undefined),
-          }}
+          config={config}
           useResizeHandler={false}
           onInitialized={(figure, gd) => {
             setGraph(gd);
