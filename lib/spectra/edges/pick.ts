@@ -27,6 +27,7 @@ import { fitEdges } from "./fit";
 import { noiseFloor } from "./noise";
 import { logOnset, thresholdEdgeDown, thresholdEdgeUp } from "./threshold";
 import type { SpectrumMeta } from "../import/types";
+import type { QualityFlag } from "./flags";
 
 export interface GapPick {
   status: "ok" | "no-gap";
@@ -54,6 +55,8 @@ export interface GapPick {
   /** dI/dV was mostly negative and was analysed with its sign inverted. */
   signInverted: boolean;
   warnings: string[];
+  /** Reasons the pick may not be trusted (flags.ts); empty when nothing is in doubt. */
+  flags: QualityFlag[];
 }
 
 export interface PickInput {
@@ -173,6 +176,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     smoothed: s,
     signInverted,
     warnings: why ? [...warnings, why] : warnings,
+    flags: [],
     ...extra,
   });
   if (hi - lo + 1 < 10) return empty("fewer than 10 points inside the search range");
@@ -255,5 +259,6 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     smoothed: s,
     signInverted,
     warnings,
+    flags: [],
   };
 }
