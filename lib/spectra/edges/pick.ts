@@ -79,13 +79,14 @@ function sortedCopy(bias: ArrayLike<number>, y: ArrayLike<number>): { b: Float64
  * above (or below) both neighbours while the neighbours agree within 4σ is replaced by their mean. σ is
  * the first-difference MAD estimate. A band-edge step is never touched (its neighbours disagree).
  */
-export function despike(y: Float64Array): { y: Float64Array; replaced: number } {
+export function despike(y: Float64Array): { y: Float64Array; replaced: number; indices: number[] } {
   const n = y.length;
-  if (n < 5) return { y, replaced: 0 };
+  const indices: number[] = [];
+  if (n < 5) return { y, replaced: 0, indices };
   const d = new Float64Array(n - 1);
   for (let i = 1; i < n; i++) d[i - 1] = y[i] - y[i - 1];
   const sigma = madSigma(d) / Math.SQRT2;
-  if (!(sigma > 0)) return { y, replaced: 0 };
+  if (!(sigma > 0)) return { y, replaced: 0, indices };
   let out: Float64Array | null = null;
   let replaced = 0;
   for (let i = 1; i < n - 1; i++) {
@@ -95,9 +96,10 @@ export function despike(y: Float64Array): { y: Float64Array; replaced: number } 
       out ??= Float64Array.from(y);
       out[i] = 0.5 * (y[i - 1] + y[i + 1]);
       replaced++;
+      indices.push(i);
     }
   }
-  return { y: out ?? y, replaced };
+  return { y: out ?? y, replaced, indices };
 }
 
 /**
@@ -128,8 +130,13 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
       warnings.push("dI/dV is mostly negative: sign inverted for the analysis (lock-in phase?)");
     }
   }
-  const { y, replaced } = despike(yPol);
-  if (replaced > 0) warnings.push(`${replaced} single-point spike${replaced > 1 ? "s" : ""} replaced by the mean of the neighbours`);
+  const { y, replaced, indices: spikeAt } = despike(yPol);
+  const flags: QualityFlag[] = [];
+  if (replaced > 0) {
+    warnings.push(`${replaced} single-point spike${replaced > 1 ? "s" : ""} replaced by the mean of the neighbours`);
+    const at_V = spikeAt.map((i) => bias[i]);
+    flags.push({ code: "glitch", message: `${replaced} single-point spike${replaced > 1 ? "s" : ""} replaced before picking, at ${at_V.map((v) => `${(v * 1000).toFixed(0)} mV`).join(", ")}`, at_V });
+  }
   const meta = input.meta ?? {};
   let T = meta.temperature_K;
   if (T === undefined) {
@@ -176,7 +183,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     smoothed: s,
     signInverted,
     warnings: why ? [...warnings, why] : warnings,
-    flags: [],
+    flags,
     ...extra,
   });
   if (hi - lo + 1 < 10) return empty("fewer than 10 points inside the search range");
@@ -259,6 +266,6 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     smoothed: s,
     signInverted,
     warnings,
-    flags: [],
+    flags,
   };
 }
