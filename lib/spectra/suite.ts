@@ -128,7 +128,10 @@ export function makeSuite(opts: { seed?: number; perCategory?: number; categorie
   const seed0 = opts.seed ?? 15_000;
   const cats = opts.categories ?? (Object.keys(SUITE_CATEGORIES) as SuiteCategory[]);
   const out: SuiteEntry[] = [];
-  cats.forEach((category, ci) => {
+  const all = Object.keys(SUITE_CATEGORIES) as SuiteCategory[];
+  for (const category of cats) {
+    // Seeds follow the category's place in the full list, so a subset draws the same spectra.
+    const ci = all.indexOf(category);
     const rng = makeRng(seed0 * 31 + ci * 7_919);
     const count = Math.min(COUNTS[category], opts.perCategory ?? Infinity);
     const seedOf = (k: number) => seed0 * 10_000 + ci * 1_000 + k;
@@ -141,7 +144,7 @@ export function makeSuite(opts: { seed?: number; perCategory?: number; categorie
           if (out.filter((e) => e.category === "repeats").length < count) out.push({ category, name: `repeats-${g}.${k}`, spectrum, group: `repeats-${g}` });
         });
       }
-      return;
+      continue;
     }
     if (category === "realistic") {
       const names = Object.keys(imperfections) as (keyof typeof imperfections)[];
@@ -155,10 +158,10 @@ export function makeSuite(opts: { seed?: number; perCategory?: number; categorie
         for (const c of chosen) m = imperfections[c](m, rng);
         out.push({ category, name: `${category}-${k}`, spectrum: makeSpectrum(m) });
       }
-      return;
+      continue;
     }
     const make = makers[category]!;
     for (let k = 0; k < count; k++) out.push({ category, name: `${category}-${k}`, spectrum: makeSpectrum(make(rng, seedOf(k))) });
-  });
+  }
   return out;
 }
