@@ -22,7 +22,7 @@
 import { broadeningKernel, energyResolution_mV } from "../resolution";
 import { type ExtractionSettings, resolveExtractionSettings, type DeepPartial } from "../settings";
 import { smoothSpectrum } from "../smooth/apply";
-import { madSigma, quantile } from "../stats";
+import { linearLeastSquares, madSigma, quantile } from "../stats";
 import { oddWindow } from "../smooth/apply";
 import { savgolFilter } from "../smooth/savgol";
 import { type Baseline, baselineAt, fitBaselineOn, trimOnsets } from "./baseline";
@@ -60,6 +60,43 @@ export interface GapPick {
   warnings: string[];
   /** Reasons the pick may not be trusted (flags.ts); empty when nothing is in doubt. */
   flags: QualityFlag[];
+}
+
+/**
+ * Is the spectrum one continuous V (a closed or nearly closed gap, Dirac-like) rather than a floor
+ * between two onsets? Fit a + b·V + v·|V − m| (m scanned) over the threshold gap and a band window on
+ * each side; a V explains a V-shaped spectrum to the noise, while a gap's onsets (steps above the V)
+ * leave large residuals. Judged on three windows (each band window and the middle third of the gap):
+ * the largest mean residual in units of its standard error (n_eff = n/τ); with the best m and slope.
+ */
+function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number, ext: number, sigma: number, tau: number): { deviation: number; m: number; v: number } | null {
+  const i0 = Math.max(0, iv - ext);
+  const i1 = Math.min(bias.length - 1, ic + ext);
+  const n = i1 - i0 + 1;
+  if (n < 12 || !(sigma > 0)) return null;
+  const yy = y.subarray(i0, i1 + 1);
+  const one = new Float64Array(n).fill(1);
+  const lin = Float64Array.from({ length: n }, (_, i) => bias[i0 + i] - bias[i0]);
+  let best: { deviation: number; m: number; v: number } | null = null;
+  for (let t = 0; t <= 20; t++) {
+    const m = bias[iv] + ((bias[ic] - bias[iv]) * t) / 20;
+    const vcol = Float64Array.from({ length: n }, (_, i) => Math.abs(bias[i0 + i] - m));
+    const r = linearLeastSquares([one, lin, vcol], yy);
+    if (!r || !(r.coef[2] > 0)) continue;
+    // Judge on the band windows only (where a gap's steps are), each window's mean residual in units
+    // of its standard error (n_eff = n/τ points).
+    let worst = 0;
+    const third = Math.floor((ic - iv) / 3);
+    for (const [a, b] of [[0, iv - i0], [ic - i0, n - 1], [iv - i0 + third, ic - i0 - third]]) {
+      if (b < a) continue;
+      let sum = 0;
+      for (let i = a; i <= b; i++) sum += yy[i] - (r.coef[0] + r.coef[1] * lin[i] + r.coef[2] * vcol[i]);
+      const cnt = b - a + 1;
+      worst = Math.max(worst, Math.abs(sum / cnt) / (sigma * Math.sqrt(tau / cnt)));
+    }
+    if (!best || worst < best.deviation) best = { deviation: worst, m, v: r.coef[2] };
+  }
+  return best;
 }
 
 export interface PickInput {
@@ -207,10 +244,20 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   // end of the search range a shorter run is accepted.
   const Nshort = Math.max(st.threshold.consecutive, sm.windowPoints);
   const Nlong = Math.max(Nshort, Math.round(st.threshold.sustain_mV / 1000 / step), Math.round(3 * res_V / step));
-  const walk = (dd: Float64Array, start: number, t: number) => ({
-    c: thresholdEdgeUp(bias, dd, start, hi, t, Nlong) ?? thresholdEdgeUp(bias, dd, start, hi, t, Nshort),
-    v: thresholdEdgeDown(bias, dd, start, lo, t, Nlong) ?? thresholdEdgeDown(bias, dd, start, lo, t, Nshort),
-  });
+  // Near the end of the range a shorter run counts only if it lasts to the end.
+  const walk = (dd: Float64Array, start: number, t: number) => {
+    let c = thresholdEdgeUp(bias, dd, start, hi, t, Nlong);
+    if (!c) {
+      const short = thresholdEdgeUp(bias, dd, start, hi, t, Nshort);
+      if (short && short.index + Nlong - 1 > hi && dd.subarray(short.index, hi + 1).every((x) => x > t)) c = short;
+    }
+    let v = thresholdEdgeDown(bias, dd, start, lo, t, Nlong);
+    if (!v) {
+      const short = thresholdEdgeDown(bias, dd, start, lo, t, Nshort);
+      if (short && short.index - Nlong + 1 < lo && dd.subarray(lo, short.index + 1).every((x) => x > t)) v = short;
+    }
+    return { c, v };
+  };
   // 1. Edges against a flat floor; 2. the gap between them is the quiet region: fit the baseline
   // there, read the edges against it, and repeat until they stay put (edges/baseline.ts).
   const d = new Float64Array(n);
@@ -239,9 +286,12 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
       d[i] = s[i] - base[i];
     }
     const next = walk(d, bl.iMin, st.threshold.k * bl.sigmaSmoothed);
+    (globalThis as any).__trace?.push({ round, e: [e.v?.edge, e.c?.edge], region: [bias[from], bias[to]], deg: bl.degree, coef: Array.from(bl.coef), iMin: bias[bl.iMin], sigS: bl.sigmaSmoothed, next: [next.v?.edge, next.c?.edge] });
     const same = next.v?.index === e.v?.index && next.c?.index === e.c?.index;
+    // An edge lost against the new baseline means that baseline does not hold beyond its region
+    // (a polynomial extrapolated): keep the edges that had one.
+    if (same || ((!next.v || !next.c) && e.v && e.c)) break;
     e = next;
-    if (same) break;
   }
   bl = bl!;
   const yd = new Float64Array(n);
@@ -256,6 +306,8 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     const side = !main.c && !main.v ? "either side" : !main.c ? "the conduction-band side" : "the valence-band side";
     return empty(`no band edge on ${side} within the bias range (no gap)`, baseInfo);
   }
+  const vShape = vShapeTest(bias, y, main.v.index, main.c.index, Math.max(4, Math.round(st.fit.minBandWindow_mV / 1000 / step)), bl.sigma, bl.tau);
+  const isV = vShape !== null && vShape.deviation < st.closed.vShapeMaxDeviation;
   const kLo = edgesAt(Math.max(1, st.threshold.k - 1));
   const kHi = edgesAt(st.threshold.k + 1);
   const sens = (a: number | undefined, b: number | undefined, fallback: number) => (a !== undefined && b !== undefined ? Math.abs(b - a) / 2 : fallback);
@@ -275,7 +327,12 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   let gapSigmaProfile = 0;
   if (st.fit.enabled) {
     const kern = broadeningKernel(T, vrms);
-    const f = fitEdges({ bias, y: yd, kernel: kern, vbGuess: vb, cbGuess: cb, sigma: bl.sigma, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
+    // A V-shaped spectrum (one continuous V, no floor between onsets) is fitted as two onsets close to
+    // its minimum, on the raw data (the baseline took in part of the V).
+    const g = Math.max(res_V, 2 * step);
+    const f = isV
+      ? fitEdges({ bias, y, kernel: kern, vbGuess: vShape.m - g, cbGuess: vShape.m + g, sigma: bl.sigma, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi })
+      : fitEdges({ bias, y: yd, kernel: kern, vbGuess: vb, cbGuess: cb, sigma: bl.sigma, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
     if (f && Number.isFinite(f.vb) && Number.isFinite(f.cb) && f.cb >= f.vb) {
       vb = f.vb;
       cb = f.cb;
@@ -309,7 +366,8 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     uncertainty_eV: uncertainty,
     vbSigma_V: vbSigma,
     cbSigma_V: cbSigma,
-    closed: gap < res_V || consistentWithZero,
+    // "Closed" needs evidence: a V-shaped minimum, and a gap below the resolution or consistent with zero.
+    closed: isV && (gap < res_V || consistentWithZero),
     resolution_meV: res_mV,
     ...baseInfo,
     method,
