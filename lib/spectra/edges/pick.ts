@@ -66,10 +66,12 @@ export interface GapPick {
  * Is the spectrum one continuous V (a closed or nearly closed gap, Dirac-like) rather than a floor
  * between two onsets? Fit a + b·V + v·|V − m| (m scanned) over the threshold gap and a band window on
  * each side; a V explains a V-shaped spectrum to the noise, while a gap's onsets (steps above the V)
- * leave large residuals. Judged on three windows (each band window and the middle third of the gap):
+ * leave large residuals. Both arms must rise. Judged on three windows (each band window and the middle third of the gap):
  * the largest mean residual in units of its standard error (n_eff = n/τ); with the best m and slope.
  */
-function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number, ext: number, sigma: number, tau: number): { deviation: number; m: number; v: number } | null {
+function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number, iMin: number, minExt: number, sigma: number, tau: number): { deviation: number; m: number; v: number } | null {
+  // Band windows as wide as the gap: a V seen only inside a wider gap (in-gap states) is not one.
+  const ext = Math.max(minExt, ic - iv);
   const i0 = Math.max(0, iv - ext);
   const i1 = Math.min(bias.length - 1, ic + ext);
   const n = i1 - i0 + 1;
@@ -77,22 +79,34 @@ function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number,
   const yy = y.subarray(i0, i1 + 1);
   const one = new Float64Array(n).fill(1);
   const lin = Float64Array.from({ length: n }, (_, i) => bias[i0 + i] - bias[i0]);
+  const vcol = new Float64Array(n);
+  // Each band window and the middle third of the gap, in three chunks each: a V must explain every
+  // chunk (a mean residual over a long window could hide a misfit of the wrong shape).
+  const third = Math.floor((ic - iv) / 3);
+  const chunks: [number, number][] = [];
+  for (const [a, b] of [[0, iv - i0], [ic - i0, n - 1], [iv - i0 + third, ic - i0 - third]]) {
+    if (b < a) continue;
+    const len = b - a + 1;
+    const parts = len >= 12 ? 3 : 1;
+    for (let k = 0; k < parts; k++) chunks.push([a + Math.floor((k * len) / parts), a + Math.floor(((k + 1) * len) / parts) - 1]);
+  }
+  // The vertex lies at the spectrum's minimum, within a sixth of the threshold gap.
+  const span = Math.max(1, Math.round((ic - iv) / 6));
+  const mFrom = bias[Math.max(iv, iMin - span)];
+  const mTo = bias[Math.min(ic, iMin + span)];
   let best: { deviation: number; m: number; v: number } | null = null;
-  for (let t = 0; t <= 20; t++) {
-    const m = bias[iv] + ((bias[ic] - bias[iv]) * t) / 20;
-    const vcol = Float64Array.from({ length: n }, (_, i) => Math.abs(bias[i0 + i] - m));
+  for (let t = 0; t <= 12; t++) {
+    const m = mFrom + ((mTo - mFrom) * t) / 12;
+    for (let i = 0; i < n; i++) vcol[i] = Math.abs(bias[i0 + i] - m);
     const r = linearLeastSquares([one, lin, vcol], yy);
-    if (!r || !(r.coef[2] > 0)) continue;
-    // Judge on the band windows only (where a gap's steps are), each window's mean residual in units
-    // of its standard error (n_eff = n/τ points).
+    // Both arms must rise (slopes v ± b within a factor of 4): one flat arm is a weak onset, not a V.
+    if (!r || !(r.coef[2] > 0) || Math.abs(r.coef[1]) > 0.6 * r.coef[2]) continue;
     let worst = 0;
-    const third = Math.floor((ic - iv) / 3);
-    for (const [a, b] of [[0, iv - i0], [ic - i0, n - 1], [iv - i0 + third, ic - i0 - third]]) {
-      if (b < a) continue;
+    for (const [a, b] of chunks) {
       let sum = 0;
       for (let i = a; i <= b; i++) sum += yy[i] - (r.coef[0] + r.coef[1] * lin[i] + r.coef[2] * vcol[i]);
       const cnt = b - a + 1;
-      worst = Math.max(worst, Math.abs(sum / cnt) / (sigma * Math.sqrt(tau / cnt)));
+      worst = Math.max(worst, Math.abs(sum / cnt) / (sigma * Math.sqrt(Math.max(1, tau) / cnt)));
     }
     if (!best || worst < best.deviation) best = { deviation: worst, m, v: r.coef[2] };
   }
@@ -306,7 +320,8 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     const side = !main.c && !main.v ? "either side" : !main.c ? "the conduction-band side" : "the valence-band side";
     return empty(`no band edge on ${side} within the bias range (no gap)`, baseInfo);
   }
-  const vShape = vShapeTest(bias, y, main.v.index, main.c.index, Math.max(4, Math.round(st.fit.minBandWindow_mV / 1000 / step)), bl.sigma, bl.tau);
+  const vShape = vShapeTest(bias, y, main.v.index, main.c.index, bl.iMin, Math.max(4, Math.round(st.fit.minBandWindow_mV / 1000 / step)), bl.sigma, bl.tau);
+  (globalThis as any).__vs = vShape;
   const isV = vShape !== null && vShape.deviation < st.closed.vShapeMaxDeviation;
   const kLo = edgesAt(Math.max(1, st.threshold.k - 1));
   const kHi = edgesAt(st.threshold.k + 1);
