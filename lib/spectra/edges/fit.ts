@@ -294,3 +294,60 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
   if (gapSigmaProfile === null) gapSigmaProfile = (16 * dg) / 1.959963984540054;
   return { vb, cb, vbSigma: curvatureSigma(fVs, vb, h, sigma), cbSigma: curvatureSigma(fCs, cb, h, sigma), mode: "joint", closedDeltaChi2, gapSigmaProfile, warnings };
 }
+
+/**
+ * Profile of one edge over a wide range: χ² of the one-onset model (floor, step, rise and curvature,
+ * broadened by the kernel) on a fixed window, as the edge moves from `near` (towards the gap) to
+ * `far` (into the band), 25 positions. Returns the range of positions whose χ², with the noise
+ * variance σ²·τ of correlated noise, lies within `deltaChi2` of the best (3.84 for 95%), widened by
+ * one grid step on each side. A strong onset gives a narrow range around the fitted edge; a weak one a
+ * wide range, which is the honest uncertainty of its edge (the curvature at the minimum is not).
+ * `twoMinima`: the 95% set is not one interval (two places fit, separated by a worse one).
+ */
+export function edgeProfileRange(
+  inp: Pick<EdgeFitInput, "bias" | "y" | "kernel" | "lo" | "hi">,
+  side: Side,
+  near: number,
+  far: number,
+  windowFar: number,
+  sigma: number,
+  tau: number,
+  deltaChi2 = 3.841458820694124,
+): { from: number; to: number; best: number; twoMinima: boolean } | null {
+  const { bias, y, kernel, lo, hi } = inp;
+  const [i0, i1] = side === "cb" ? indexRange(bias, near, windowFar, lo, hi) : indexRange(bias, windowFar, near, lo, hi);
+  const nw = i1 - i0 + 1;
+  if (nw < 8 || !(sigma > 0)) return null;
+  const yy = y.subarray(i0, i1 + 1);
+  const ones = new Float64Array(nw).fill(1);
+  const buf = [new Float64Array(nw), new Float64Array(nw), new Float64Array(nw)];
+  const cols = [ones, ...buf];
+  const chiAt = (e: number) => {
+    onsetColumns(bias, i0, i1, e, side, kernel, true, buf);
+    return rssOf(cols, yy, [1]) / (sigma * sigma * Math.max(1, tau));
+  };
+  // A coarse scan over the whole range, then a fine one over the coarse 95% set.
+  const scan = (a: number, b: number, G: number) => {
+    const pos = Array.from({ length: G }, (_, g) => a + ((b - a) * g) / (G - 1));
+    const chi = pos.map(chiAt);
+    let best = 0;
+    for (let g = 1; g < G; g++) if (chi[g] < chi[best]) best = g;
+    let lo2 = best;
+    let hi2 = best;
+    for (let g = 0; g < G; g++)
+      if (chi[g] - chi[best] <= deltaChi2) {
+        lo2 = Math.min(lo2, g);
+        hi2 = Math.max(hi2, g);
+      }
+    // Separate minima inside the set: the data allow two edges (an in-gap feature, or a second onset).
+    let separate = false;
+    for (let g = lo2 + 1; g < hi2; g++) if (chi[g] - chi[best] > deltaChi2) separate = true;
+    const d = (b - a) / (G - 1);
+    return { from: pos[lo2] - d, to: pos[hi2] + d, best: pos[best], bestChi: chi[best], separate };
+  };
+  const coarse = scan(near, far, 25);
+  const fine = scan(Math.max(Math.min(near, far), Math.min(coarse.from, coarse.to)), Math.min(Math.max(near, far), Math.max(coarse.from, coarse.to)), 25);
+  const from = Math.min(fine.from, fine.to);
+  const to = Math.max(fine.from, fine.to);
+  return { from, to, best: fine.bestChi <= coarse.bestChi ? fine.best : coarse.best, twoMinima: coarse.separate || fine.separate };
+}

@@ -26,7 +26,7 @@ import { linearLeastSquares, madSigma, quantile } from "../stats";
 import { oddWindow } from "../smooth/apply";
 import { savgolFilter } from "../smooth/savgol";
 import { type Baseline, baselineAt, fitBaselineOn, trimOnsets } from "./baseline";
-import { fitEdges } from "./fit";
+import { edgeProfileRange, fitEdges } from "./fit";
 import { noiseFloor } from "./noise";
 import { logOnset, thresholdEdgeDown, thresholdEdgeUp } from "./threshold";
 import type { SpectrumMeta } from "../import/types";
@@ -340,6 +340,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   let method: GapPick["method"] = "threshold";
   let consistentWithZero = false;
   let gapSigmaProfile = 0;
+  let f_warnings: string[] = [];
   if (st.fit.enabled) {
     const kern = broadeningKernel(T, vrms);
     // A V-shaped spectrum (one continuous V, no floor between onsets) is fitted as two onsets close to
@@ -361,13 +362,56 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
       consistentWithZero = f.closedDeltaChi2 !== null && f.closedDeltaChi2 < 5.991464547107979;
       gapSigmaProfile = f.gapSigmaProfile ?? 0;
       warnings.push(...f.warnings);
+      f_warnings = f.warnings;
     } else {
       warnings.push("broadening-aware fit failed; threshold edges reported");
     }
   }
+  const mV = (v: number) => `${(v * 1000).toFixed(0)} mV`;
+  const sideName = { vb: "valence-band", cb: "conduction-band" } as const;
+  if (method === "fit-separate") {
+    // How well does the data fix each edge? The profile of the one-onset model from the other edge to
+    // the band: a weak onset gives a wide range, the honest uncertainty of its edge.
+    const kern = broadeningKernel(T, vrms);
+    const inner = 2 * res_V + 2 * step;
+    const pv = edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "vb", cb - inner, vb - W / 2, vb - W, bl.sigma, bl.tau);
+    const pc = edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "cb", vb + inner, cb + W / 2, cb + W, bl.sigma, bl.tau);
+    for (const [side, pr] of [["vb", pv], ["cb", pc]] as const) {
+      if (!pr) continue;
+      const half = (pr.to - pr.from) / 2;
+      const sig = half / 1.959963984540054;
+      const edge = side === "vb" ? vb : cb;
+      if (side === "vb") vbSigma = Math.max(vbSigma, sig);
+      else cbSigma = Math.max(cbSigma, sig);
+      if (pr.twoMinima)
+        flags.push({
+          code: "unreliable-edge",
+          message: `Two places fit the ${sideName[side]} edge about equally well, between ${mV(pr.from)} and ${mV(pr.to)}: an in-gap feature or a second onset; ${mV(edge)} is the best fit.`,
+          at_V: [pr.from, pr.to],
+        });
+      else if (half > Math.max(3 * res_V, 0.015, 4 * step)) {
+        flags.push({
+          code: "noisy",
+          message: `The ${sideName[side]} onset is weak against the noise: its edge could lie anywhere from ${mV(pr.from)} to ${mV(pr.to)} (95%); ${mV(edge)} is the best fit.`,
+          at_V: [pr.from, pr.to],
+        });
+      }
+    }
+    if (f_warnings.some((w) => w.includes("search limit")))
+      flags.push({ code: "unreliable-edge", message: "The edge fit reached the end of its search range: the onset does not look like a band edge there." });
+  }
+  // The in-gap floor: say so when it slopes or curves enough to matter for the threshold.
+  if (bl.degree > 0) {
+    const change = Math.abs(baselineAt(bl, cb) - baselineAt(bl, vb));
+    const stepV = d[Math.max(lo, main.v.index - span)];
+    const stepC = d[Math.min(hi, main.c.index + span)];
+    if (change > Math.max(5 * sigS, 0.1 * Math.min(stepV, stepC)))
+      flags.push({ code: "sloped-background", message: `The in-gap floor is not flat (a ${bl.degree === 1 ? "linear" : "quadratic"} baseline changes by ${(change / Math.max(sigS, 1e-300)).toFixed(0)}σ across the gap); the edges were read against it.` });
+  }
   const gap = Math.max(0, cb - vb);
   let uncertainty = Math.max(Math.hypot(vbSigma, cbSigma), gapSigmaProfile);
-  if (consistentWithZero) {
+  const closed = isV && (gap < res_V || consistentWithZero);
+  if (consistentWithZero && isV) {
     // A zero gap fits as well (Δχ² < 5.99): widen the error bar so that its 95% range reaches zero.
     uncertainty = Math.max(uncertainty, gap / 1.959963984540054);
     warnings.push("gap consistent with zero at 95% (closed within resolution)");
@@ -382,7 +426,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     vbSigma_V: vbSigma,
     cbSigma_V: cbSigma,
     // "Closed" needs evidence: a V-shaped minimum, and a gap below the resolution or consistent with zero.
-    closed: isV && (gap < res_V || consistentWithZero),
+    closed,
     resolution_meV: res_mV,
     ...baseInfo,
     method,
