@@ -24,6 +24,8 @@ export interface EdgeFitInput {
   cbGuess: number;
   /** Noise σ of the raw data. */
   sigma: number;
+  /** Integrated autocorrelation time of the noise (1 = white); χ² differences are divided by it. */
+  tau?: number;
   resolution_V: number;
   step_V: number;
   bandWindow_V: number;
@@ -162,6 +164,7 @@ function indexRange(bias: Float64Array, from: number, to: number, lo: number, hi
 
 export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
   const { bias, y, kernel, vbGuess, cbGuess, sigma, resolution_V: res, step_V: step, bandWindow_V: W, lo, hi } = inp;
+  const tau = Math.max(1, inp.tau ?? 1);
   const warnings: string[] = [];
   const tol = Math.min(step, res) / 50;
   // Thermal tails (∝ e^(−x/k_BT)) can push the threshold edge into the gap by several k_BT; lock-in
@@ -260,7 +263,7 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
   // (Two steps at one point are collinear with the floor: keep one, of either sign.)
   const f0 = (m: number) => rssOf([ones, onsetColumns(bias, i0, i1, m, "vb", kernel, false)[1], ...onsetColumns(bias, i0, i1, m, "cb", kernel, false)], yy, []);
   const z = goldenMinimize(f0, vb - dv, cb + dv, tol);
-  const closedDeltaChi2 = Math.max(0, (z.fx - rssMin) / (sigma * sigma));
+  const closedDeltaChi2 = Math.max(0, (z.fx - rssMin) / (sigma * sigma * tau));
   // Gap profile: χ²(g) minimised over the midgap m, edges at m ∓ g/2.
   const gHat = cb - vb;
   const profile = (g: number) => {
@@ -272,11 +275,11 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
       tol,
     ).fx;
   };
-  const limit = rssMin + 3.841458820694124 * sigma * sigma;
+  const limit = rssMin + 3.841458820694124 * sigma * sigma * tau;
   let gapSigmaProfile: number | null = null;
   const dg = Math.max(res / 4, step / 2);
   let gLo = gHat;
-  for (let k = 1; k <= 16; k++) {
+  for (let k = 1; k <= 24; k++) {
     const g = gHat + k * dg;
     if (profile(g) > limit) {
       let a = gLo;
@@ -291,7 +294,7 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
     }
     gLo = g;
   }
-  if (gapSigmaProfile === null) gapSigmaProfile = (16 * dg) / 1.959963984540054;
+  if (gapSigmaProfile === null) gapSigmaProfile = (24 * dg) / 1.959963984540054;
   return { vb, cb, vbSigma: curvatureSigma(fVs, vb, h, sigma), cbSigma: curvatureSigma(fCs, cb, h, sigma), mode: "joint", closedDeltaChi2, gapSigmaProfile, warnings };
 }
 

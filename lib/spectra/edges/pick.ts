@@ -25,7 +25,7 @@ import { smoothSpectrum } from "../smooth/apply";
 import { linearLeastSquares, madSigma, quantile } from "../stats";
 import { oddWindow } from "../smooth/apply";
 import { savgolFilter } from "../smooth/savgol";
-import { type Baseline, baselineAt, fitBaselineOn, trimOnsets } from "./baseline";
+import { type Baseline, autocorrelationTime, baselineAt, fitBaselineOn, trimOnsets } from "./baseline";
 import { edgeProfileRange, fitEdges } from "./fit";
 import { noiseFloor } from "./noise";
 import { logOnset, thresholdEdgeDown, thresholdEdgeUp } from "./threshold";
@@ -69,7 +69,7 @@ export interface GapPick {
  * leave large residuals. Both arms must rise. Judged on three windows (each band window and the middle third of the gap):
  * the largest mean residual in units of its standard error (n_eff = n/τ); with the best m and slope.
  */
-function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number, iMin: number, minExt: number, sigma: number, tau: number): { deviation: number; m: number; v: number } | null {
+function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number, iMin: number, minExt: number, sigma: number, tau: number): { deviation: number; m: number; v: number; sigma: number; tau: number } | null {
   // Band windows as wide as the gap: a V seen only inside a wider gap (in-gap states) is not one.
   const ext = Math.max(minExt, ic - iv);
   const i0 = Math.max(0, iv - ext);
@@ -94,7 +94,7 @@ function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number,
   const span = Math.max(1, Math.round((ic - iv) / 6));
   const mFrom = bias[Math.max(iv, iMin - span)];
   const mTo = bias[Math.min(ic, iMin + span)];
-  let best: { deviation: number; m: number; v: number } | null = null;
+  let best: { deviation: number; m: number; v: number; coef: Float64Array } | null = null;
   for (let t = 0; t <= 12; t++) {
     const m = mFrom + ((mTo - mFrom) * t) / 12;
     for (let i = 0; i < n; i++) vcol[i] = Math.abs(bias[i0 + i] - m);
@@ -108,9 +108,14 @@ function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number,
       const cnt = b - a + 1;
       worst = Math.max(worst, Math.abs(sum / cnt) / (sigma * Math.sqrt(Math.max(1, tau) / cnt)));
     }
-    if (!best || worst < best.deviation) best = { deviation: worst, m, v: r.coef[2] };
+    if (!best || worst < best.deviation) best = { deviation: worst, m, v: r.coef[2], coef: r.coef };
   }
-  return best;
+  if (!best) return null;
+  // The noise about the V itself (the baseline's σ of a V-shaped spectrum holds the V's misfit).
+  const res = new Float64Array(n);
+  for (let i = 0; i < n; i++) res[i] = yy[i] - (best.coef[0] + best.coef[1] * lin[i] + best.coef[2] * Math.abs(bias[i0 + i] - best.m));
+  const ac = autocorrelationTime(res);
+  return { deviation: best.deviation, m: best.m, v: best.v, sigma: madSigma(res), tau: ac.tau };
 }
 
 export interface PickInput {
@@ -347,8 +352,8 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     // its minimum, on the raw data (the baseline took in part of the V).
     const g = Math.max(res_V, 2 * step);
     const f = isV
-      ? fitEdges({ bias, y, kernel: kern, vbGuess: vShape.m - g, cbGuess: vShape.m + g, sigma: bl.sigma, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi })
-      : fitEdges({ bias, y: yd, kernel: kern, vbGuess: vb, cbGuess: cb, sigma: bl.sigma, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
+      ? fitEdges({ bias, y, kernel: kern, vbGuess: vShape.m - g, cbGuess: vShape.m + g, sigma: vShape.sigma, tau: vShape.tau, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi })
+      : fitEdges({ bias, y: yd, kernel: kern, vbGuess: vb, cbGuess: cb, sigma: bl.sigma, tau: bl.tau, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
     if (f && Number.isFinite(f.vb) && Number.isFinite(f.cb) && f.cb >= f.vb) {
       vb = f.vb;
       cb = f.cb;
@@ -409,13 +414,20 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
       flags.push({ code: "sloped-background", message: `The in-gap floor is not flat (a ${bl.degree === 1 ? "linear" : "quadratic"} baseline changes by ${(change / Math.max(sigS, 1e-300)).toFixed(0)}σ across the gap); the edges were read against it.` });
   }
   const gap = Math.max(0, cb - vb);
-  let uncertainty = Math.max(Math.hypot(vbSigma, cbSigma), gapSigmaProfile);
-  const closed = isV && (gap < res_V || consistentWithZero);
+  // Jointly fitted edges are strongly correlated: the gap's own profile is its uncertainty (the edges'
+  // separate σ add in quadrature only for separate fits).
+  let uncertainty = method === "fit-joint" ? Math.max(gapSigmaProfile, Math.hypot(sampling / 4, 0.05 * res_V)) : Math.max(Math.hypot(vbSigma, cbSigma), gapSigmaProfile);
   if (consistentWithZero && isV) {
     // A zero gap fits as well (Δχ² < 5.99): widen the error bar so that its 95% range reaches zero.
     uncertainty = Math.max(uncertainty, gap / 1.959963984540054);
-    warnings.push("gap consistent with zero at 95% (closed within resolution)");
   }
+  // Closed only where the data pin the gap down: its 95% upper bound within five resolutions (20 mV).
+  const bound = gap + 1.959963984540054 * uncertainty;
+  const pinned = bound <= Math.max(5 * res_V, 0.02);
+  const closed = isV && (gap < res_V || consistentWithZero) && pinned;
+  if (closed) warnings.push("gap consistent with zero at 95% (closed within resolution)");
+  else if (isV && !pinned)
+    flags.push({ code: "unreliable-edge", message: `A V-shaped minimum without a flat floor, but the data do not pin the gap down: anywhere from 0 to ${mV(bound)} (95%).` });
   return {
     status: "ok",
     vbEdge_V: vb,
