@@ -10,6 +10,7 @@
  *    spectrum of each: BANDCROSS_BENCH_BASELINE=<git revision> (default: the picker before the
  *    background-aware edges, BASELINE_REV below; "none" skips it). The revision's lib/spectra is
  *    unpacked into .bench-baseline/ with `git archive`, so it runs on this checkout's node_modules.
+ *    Times are CPU time of this process per spectrum (steadier than wall time when the machine is busy).
  */
 import { execFileSync } from "node:child_process";
 import { existsSync, mkdirSync } from "node:fs";
@@ -34,14 +35,20 @@ interface Outcome {
   flags: string[];
 }
 
+/** CPU milliseconds (user + system) of this process since `from`: steadier than wall time on a busy machine. */
+const cpuMs = (from: NodeJS.CpuUsage) => {
+  const d = process.cpuUsage(from);
+  return (d.user + d.system) / 1000;
+};
+
 function runPicker(p: Picker, suite: SuiteEntry[]): { outcomes: Outcome[]; ms: number } {
-  const t = performance.now();
+  const t = process.cpuUsage();
   const outcomes = suite.map((entry) => {
     const r = p.pickGap(entry.spectrum);
     const flags = ((r as { flags?: { code: string }[] }).flags ?? []).map((f) => f.code);
     return { entry, gap: r.status === "ok" ? r.gap_eV : null, u: r.uncertainty_eV, closed: r.closed, flags };
   });
-  return { outcomes, ms: (performance.now() - t) / suite.length };
+  return { outcomes, ms: cpuMs(t) / suite.length };
 }
 
 const f1 = (x: number) => (Number.isFinite(x) ? x.toFixed(1) : "—");
@@ -133,12 +140,12 @@ function flagCounts(outs: Outcome[]) {
 
 function oldSuite(p: Picker): { median: number; p90: number; ms: number } {
   const spectra = heldOutSpectra();
-  const t = performance.now();
+  const t = process.cpuUsage();
   const err = spectra.map((s) => {
     const r = p.pickGap(s);
     return r.gap_eV === null ? Infinity : Math.abs(r.gap_eV - s.truth.gap_eV) * 1000;
   });
-  return { median: current.quantile(err, 0.5), p90: current.quantile(err, 0.9), ms: (performance.now() - t) / spectra.length };
+  return { median: current.quantile(err, 0.5), p90: current.quantile(err, 0.9), ms: cpuMs(t) / spectra.length };
 }
 
 async function baselinePicker(): Promise<{ rev: string; picker: Picker } | null> {
@@ -158,7 +165,7 @@ export async function run(): Promise<void> {
   line(`realistic suite: ${suite.length} spectra in ${Object.keys(SUITE_CATEGORIES).length} categories (seed ${BENCH_SEED})`);
   const base = await baselinePicker();
   // Warm both pickers once so neither pays the other's JIT start-up in its timing.
-  for (const p of [current, base?.picker].filter(Boolean) as Picker[]) runPicker(p, suite.slice(0, 20));
+  for (const p of [current, base?.picker].filter(Boolean) as Picker[]) runPicker(p, suite.slice(0, 40));
   const now = runPicker(current, suite);
   table(`\nthis revision (${now.ms.toFixed(2)} ms per spectrum):`, now.outcomes);
   flagCounts(now.outcomes);

@@ -20,11 +20,9 @@
  * Bias is the sample bias: positive bias probes empty states, so the conduction band is at V > 0 side.
  */
 import { broadeningKernel, energyResolution_mV } from "../resolution";
-import { type ExtractionSettings, resolveExtractionSettings, type DeepPartial } from "../settings";
+import { DEFAULT_EXTRACTION_SETTINGS, type ExtractionSettings, resolveExtractionSettings, type DeepPartial } from "../settings";
 import { smoothSpectrum } from "../smooth/apply";
 import { linearLeastSquares, madSigma, quantile } from "../stats";
-import { oddWindow } from "../smooth/apply";
-import { savgolFilter } from "../smooth/savgol";
 import { type Baseline, autocorrelationTime, baselineAt, fitBaselineOn, trimOnsets } from "./baseline";
 import { edgeProfileRange, fitEdges } from "./fit";
 import { noiseFloor } from "./noise";
@@ -69,16 +67,40 @@ export interface GapPick {
  * leave large residuals. Both arms must rise. Judged on three windows (each band window and the middle third of the gap):
  * the largest mean residual in units of its standard error (n_eff = n/τ); with the best m and slope.
  */
+/** x minus its centred moving average over `w` points (shorter at the ends), by running sums. */
+function minusMovingAverage(x: Float64Array, w: number): Float64Array {
+  const n = x.length;
+  const h = Math.max(1, Math.floor(Math.min(w, n) / 2));
+  const cum = new Float64Array(n + 1);
+  for (let i = 0; i < n; i++) cum[i + 1] = cum[i] + x[i];
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const a = Math.max(0, i - h);
+    const b = Math.min(n, i + h + 1);
+    out[i] = x[i] - (cum[b] - cum[a]) / (b - a);
+  }
+  return out;
+}
+
 function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number, iMin: number, minExt: number, sigma: number, tau: number): { deviation: number; m: number; v: number; sigma: number; tau: number } | null {
   // Band windows as wide as the gap: a V seen only inside a wider gap (in-gap states) is not one.
   const ext = Math.max(minExt, ic - iv);
-  const i0 = Math.max(0, iv - ext);
-  const i1 = Math.min(bias.length - 1, ic + ext);
-  const n = i1 - i0 + 1;
-  if (n < 12 || !(sigma > 0)) return null;
-  const yy = y.subarray(i0, i1 + 1);
+  const j0 = Math.max(0, iv - ext);
+  const j1 = Math.min(bias.length - 1, ic + ext);
+  if (j1 - j0 + 1 < 12 || !(sigma > 0)) return null;
+  // A long window is read every k-th point (standard errors still count every point, which makes the
+  // test stricter, never looser).
+  const k = Math.max(1, Math.ceil((j1 - j0 + 1) / 240));
+  const n = Math.floor((j1 - j0) / k) + 1;
+  const bs = Float64Array.from({ length: n }, (_, i) => bias[j0 + i * k]);
+  const yy = Float64Array.from({ length: n }, (_, i) => y[j0 + i * k]);
+  const i0 = 0;
+  iv = Math.round((iv - j0) / k);
+  ic = Math.round((ic - j0) / k);
+  iMin = Math.round((iMin - j0) / k);
+  bias = bs;
   const one = new Float64Array(n).fill(1);
-  const lin = Float64Array.from({ length: n }, (_, i) => bias[i0 + i] - bias[i0]);
+  const lin = Float64Array.from({ length: n }, (_, i) => bias[i] - bias[0]);
   const vcol = new Float64Array(n);
   // Each band window and the middle third of the gap, in three chunks each: a V must explain every
   // chunk (a mean residual over a long window could hide a misfit of the wrong shape).
@@ -95,8 +117,8 @@ function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number,
   const mFrom = bias[Math.max(iv, iMin - span)];
   const mTo = bias[Math.min(ic, iMin + span)];
   let best: { deviation: number; m: number; v: number; coef: Float64Array } | null = null;
-  for (let t = 0; t <= 12; t++) {
-    const m = mFrom + ((mTo - mFrom) * t) / 12;
+  for (let t = 0; t <= 8; t++) {
+    const m = mFrom + ((mTo - mFrom) * t) / 8;
     for (let i = 0; i < n; i++) vcol[i] = Math.abs(bias[i0 + i] - m);
     const r = linearLeastSquares([one, lin, vcol], yy);
     // Both arms must rise (slopes v ± b within a factor of 4): one flat arm is a weak onset, not a V.
@@ -106,7 +128,7 @@ function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number,
       let sum = 0;
       for (let i = a; i <= b; i++) sum += yy[i] - (r.coef[0] + r.coef[1] * lin[i] + r.coef[2] * vcol[i]);
       const cnt = b - a + 1;
-      worst = Math.max(worst, Math.abs(sum / cnt) / (sigma * Math.sqrt(Math.max(1, tau) / cnt)));
+      worst = Math.max(worst, Math.abs(sum / cnt) / (sigma * Math.sqrt(Math.max(1, tau) / (cnt * k))));
     }
     if (!best || worst < best.deviation) best = { deviation: worst, m, v: r.coef[2], coef: r.coef };
   }
@@ -169,7 +191,8 @@ export function despike(y: Float64Array): { y: Float64Array; replaced: number; i
  * @throws RangeError for mismatched lengths, fewer than 10 points or non-finite values
  */
 export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSettings> | ExtractionSettings): GapPick {
-  const st = resolveExtractionSettings(settings as DeepPartial<ExtractionSettings>);
+  // The defaults are valid as they are: validating them again for every spectrum costs more than a fit.
+  const st = settings === undefined ? DEFAULT_EXTRACTION_SETTINGS : resolveExtractionSettings(settings as DeepPartial<ExtractionSettings>);
   const n = input.bias_V.length;
   if (n !== input.didv.length) throw new RangeError("bias and dI/dV must have the same length");
   if (n < 10) throw new RangeError(`a spectrum needs at least 10 points, got ${n}`);
@@ -254,10 +277,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     return empty("metallic spectrum: no quiet region near zero (no gap)", { noiseFloor: nf.floor, noiseSigma: nf.sigma, threshold: nf.floor + st.threshold.k * nf.sigmaSmoothed });
   // Noise at the smoothing scale, correlated noise included: the smoothed curve about a much wider
   // smoothing of itself (band edges are a few points there, which the MAD ignores).
-  const wide = oddWindow(6 * sm.windowPoints * step, step, 7, hi - lo + 1);
-  const sW = savgolFilter(s.subarray(lo, hi + 1), wide, 2);
-  const dW = new Float64Array(sW.length);
-  for (let i = 0; i < sW.length; i++) dW[i] = s[lo + i] - sW[i];
+  const dW = minusMovingAverage(s.subarray(lo, hi + 1), 6 * sm.windowPoints + 1);
   const sigmaWide = Math.max(madSigma(dW), nf.sigmaSmoothed);
   // A band edge is a sustained rise: a run shorter than this can be a slow noise excursion. Near the
   // end of the search range a shorter run is accepted.
