@@ -366,8 +366,8 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   let consistentWithZero = false;
   let gapSigmaProfile = 0;
   let f_warnings: string[] = [];
+  const kern = broadeningKernel(T, vrms);
   if (st.fit.enabled) {
-    const kern = broadeningKernel(T, vrms);
     // A V-shaped spectrum (one continuous V, no floor between onsets) is fitted as two onsets close to
     // its minimum, on the raw data (the baseline took in part of the V).
     const g = Math.max(res_V, 2 * step);
@@ -397,7 +397,6 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   if (method === "fit-separate") {
     // How well does the data fix each edge? The profile of the one-onset model from the other edge to
     // the band: a weak onset gives a wide range, the honest uncertainty of its edge.
-    const kern = broadeningKernel(T, vrms);
     const inner = 2 * res_V + 2 * step;
     const pv = edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "vb", cb - inner, vb - W / 2, vb - W, bl.sigma, bl.tau);
     const pc = edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "cb", vb + inner, cb + W / 2, cb + W, bl.sigma, bl.tau);
