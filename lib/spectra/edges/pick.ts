@@ -184,6 +184,30 @@ export function despike(y: Float64Array): { y: Float64Array; replaced: number; i
 }
 
 /**
+ * Saturation: at least 3 points exactly at the spectrum's maximum (or minimum), 2 of them adjacent —
+ * a real signal never repeats its extreme value to the last digit.
+ */
+export function clippedRange(bias: Float64Array, y: Float64Array): { from: number; to: number; count: number; top: boolean } | null {
+  for (const top of [true, false]) {
+    let ext = y[0];
+    for (let i = 1; i < y.length; i++) if (top ? y[i] > ext : y[i] < ext) ext = y[i];
+    let count = 0;
+    let adjacent = false;
+    let from = Infinity;
+    let to = -Infinity;
+    for (let i = 0; i < y.length; i++)
+      if (y[i] === ext) {
+        count++;
+        if (i > 0 && y[i - 1] === ext) adjacent = true;
+        from = Math.min(from, bias[i]);
+        to = Math.max(to, bias[i]);
+      }
+    if (count >= 3 && adjacent) return { from, to, count, top };
+  }
+  return null;
+}
+
+/**
  * Pick the band edges of one spectrum.
  * @param input bias (V, sample bias), dI/dV (any units), metadata (temperature_K and
  *   lockin_modulation_mV_rms set the resolution; missing values use the settings' assumptions)
@@ -214,6 +238,8 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   }
   const { y, replaced, indices: spikeAt } = despike(yPol);
   const flags: QualityFlag[] = [];
+  const clip = clippedRange(bias, yPol);
+  if (clip) flags.push({ code: "clipped", message: `The signal sits at its ${clip.top ? "maximum" : "minimum"} over ${clip.count} points between ${(clip.from * 1000).toFixed(0)} and ${(clip.to * 1000).toFixed(0)} mV (saturation: lock-in sensitivity or amplifier range?).`, at_V: [clip.from, clip.to] });
   if (replaced > 0) {
     warnings.push(`${replaced} single-point spike${replaced > 1 ? "s" : ""} replaced by the mean of the neighbours`);
     const at_V = spikeAt.map((i) => bias[i]);
