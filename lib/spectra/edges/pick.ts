@@ -386,14 +386,12 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   const baseInfo = { noiseFloor: base[bl.iMin], noiseSigma: sigmaFit, threshold: thr };
   const edgesAt = (k: number) => walk(d, bl.iMin, k * sigS);
   const main = e;
-  (globalThis as any).__pickDebug = { baseline: Array.from(base), thrline: Array.from(base, (b) => b + st.threshold.k * sigS), bl };
   if (!main.c || !main.v) {
     const side = !main.c && !main.v ? "either side" : !main.c ? "the conduction-band side" : "the valence-band side";
     return empty(`no band edge on ${side} within the bias range (no gap)`, baseInfo);
   }
   const kern = broadeningKernel(T, vrms);
   const vShape = vShapeTest(bias, y, main.v.index, main.c.index, bl.iMin, Math.max(4, Math.round(st.fit.minBandWindow_mV / 1000 / step)), sigmaFit, bl.tau, kern);
-  (globalThis as any).__vs = vShape;
   const isV = vShape !== null && vShape.deviation < st.closed.vShapeMaxDeviation;
   const kLo = edgesAt(Math.max(1, st.threshold.k - 1));
   const kHi = edgesAt(st.threshold.k + 1);
