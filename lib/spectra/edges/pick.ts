@@ -156,6 +156,8 @@ function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number,
 /** Δχ² of the zero-gap model below which a zero gap is not excluded: simulated 95% and 99% points (see pickGap). */
 export const ZERO_GAP_DCHI2_95 = 7.0;
 export const ZERO_GAP_DCHI2_99 = 9.8;
+/** An onset this many noise levels (σ_smoothed·√τ) above the baseline half a band window out is strong. */
+const STRONG_ONSET = 15;
 
 export interface PickInput {
   bias_V: ArrayLike<number>;
@@ -391,7 +393,12 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     return empty(`no band edge on ${side} within the bias range (no gap)`, baseInfo);
   }
   const kern = broadeningKernel(T, vrms);
-  const vShape = vShapeTest(bias, y, main.v.index, main.c.index, bl.iMin, Math.max(4, Math.round(st.fit.minBandWindow_mV / 1000 / step)), sigmaFit, bl.tau, kern);
+  // A floor that stays low over most of the threshold gap is not a V (in a V, (smoothed − baseline)
+  // rises across the whole gap): skip the test then.
+  let low = 0;
+  for (let i = main.v.index; i <= main.c.index; i++) if (d[i] < 0.5 * st.threshold.k * sigS) low++;
+  const flatFloor = low > 0.8 * (main.c.index - main.v.index + 1) && main.c.edge - main.v.edge > 8 * res_V;
+  const vShape = flatFloor ? null : vShapeTest(bias, y, main.v.index, main.c.index, bl.iMin, Math.max(4, Math.round(st.fit.minBandWindow_mV / 1000 / step)), sigmaFit, bl.tau, kern);
   const isV = vShape !== null && vShape.deviation < st.closed.vShapeMaxDeviation;
   const kLo = edgesAt(Math.max(1, st.threshold.k - 1));
   const kHi = edgesAt(st.threshold.k + 1);
@@ -454,9 +461,13 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   if (method === "fit-separate") {
     // How well does the data fix each edge? The profile of the one-onset model from the other edge to
     // the band: a weak onset gives a wide range, the honest uncertainty of its edge.
+    // An onset that rises far above the noise within half a band window is fixed by the curvature
+    // already (its profile is as narrow); only weaker ones are profiled.
     const inner = 2 * res_V + 2 * step;
-    const pv = edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "vb", cb - inner, vb - W / 2, vb - W, sigmaFit, bl.tau);
-    const pc = edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "cb", vb + inner, cb + W / 2, cb + W, sigmaFit, bl.tau);
+    const half = Math.max(1, Math.round(W / 2 / step));
+    const strong = (i: number) => i >= lo && i <= hi && d[i] > STRONG_ONSET * sigS * Math.sqrt(bl.tau);
+    const pv = strong(main.v.index - half) ? null : edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "vb", cb - inner, vb - W / 2, vb - W, sigmaFit, bl.tau);
+    const pc = strong(main.c.index + half) ? null : edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "cb", vb + inner, cb + W / 2, cb + W, sigmaFit, bl.tau);
     for (const [side, pr] of [["vb", pv], ["cb", pc]] as const) {
       if (!pr) continue;
       const half = (pr.to - pr.from) / 2;
