@@ -94,7 +94,8 @@ function ReadOnlyVersions({ data }: { data: Versions }) {
         rows={[
           ["Smoothing", METHOD_LABEL[method] ?? String(method)],
           ...smoothing,
-          ["Threshold", `floor + ${shown(s.threshold?.k, "", "—")}·σ, ${shown(s.threshold?.consecutive, "", "—")} consecutive points`],
+          ["Threshold", `baseline + ${shown(s.threshold?.k, "", "—")}·σ, ${shown(s.threshold?.consecutive, "", "—")} consecutive points, a rise sustained over ${shown(s.threshold?.sustain_mV, "mV", "—")}`],
+          ["In-gap baseline", s.baseline?.maxDegree === 0 ? "flat" : `robust polynomial, degree up to ${shown(s.baseline?.maxDegree, "", "—")} where the data show a slope or curve`],
           ["Search", s.search?.minBias_V == null && s.search?.maxBias_V == null ? "whole spectrum" : `${shown(s.search?.minBias_V, "V", "start")} to ${shown(s.search?.maxBias_V, "V", "end")}`],
           ["Edge refinement", s.fit?.enabled ? "broadening-aware fit (thermal and lock-in kernels)" : "threshold only"],
         ]}
@@ -139,7 +140,8 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
         await api(lab, "PUT", `/samples/${sampleId}/extraction-settings`, {
           settings: {
             smoothing: { method: f.get("method"), window_mV: num(f.get("window_mV")), order: num(f.get("order")), gaussianSigma_mV: num(f.get("gaussianSigma_mV")), fftCutoff_mV: num(f.get("fftCutoff_mV")) },
-            threshold: { k: num(f.get("k")), consecutive: num(f.get("consecutive")) },
+            threshold: { k: num(f.get("k")), consecutive: num(f.get("consecutive")), sustain_mV: num(f.get("sustain_mV")) },
+            baseline: { maxDegree: num(f.get("maxDegree")) },
             search: { minBias_V: num(f.get("minBias_V")), maxBias_V: num(f.get("maxBias_V")) },
             fit: { enabled: f.get("fit") === "on" },
           },
@@ -204,6 +206,12 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
           </Field>
           <Field label="Consecutive points" name="consecutive" error={fe("threshold.consecutive")}>
             <Input name="consecutive" defaultValue={s.threshold?.consecutive} className="num" />
+          </Field>
+          <Field label="Sustained rise" name="sustain_mV" unit="mV" hint="a band edge stays above the threshold this long" error={fe("threshold.sustain_mV")}>
+            <Input name="sustain_mV" defaultValue={s.threshold?.sustain_mV} className="num" />
+          </Field>
+          <Field label="Baseline degree" name="maxDegree" hint="highest: 0 flat, 1 sloped, 2 curved" error={fe("baseline.maxDegree")}>
+            <Input name="maxDegree" defaultValue={s.baseline?.maxDegree} className="num" />
           </Field>
           <Field label="Search from" name="minBias_V" unit="V" hint="blank: whole spectrum" error={fe("search.minBias_V")}>
             <Input name="minBias_V" defaultValue={s.search?.minBias_V ?? ""} className="num" />
