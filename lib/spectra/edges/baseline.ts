@@ -109,7 +109,7 @@ export function autocorrelationTime(x: ArrayLike<number>): { tau: number; rho1: 
  * trial lowers χ² (σ² × τ per point, for correlated noise) by more than `minDeltaChi2`, the region ends
  * at that edge. Returns the new range (unchanged when no end holds an onset).
  */
-function trimOnsets(bias: Float64Array, y: Float64Array, from: number, to: number, degree: number, center: number, sigma: number, tau: number, minDeltaChi2: number): { from: number; to: number } {
+export function trimOnsets(bias: Float64Array, y: Float64Array, from: number, to: number, degree: number, center: number, sigma: number, tau: number, minDeltaChi2: number): { from: number; to: number } {
   const npts = to - from + 1;
   if (npts < 16 || !(sigma > 0)) return { from, to };
   const scale = Math.max(Math.abs(bias[from] - center), Math.abs(bias[to] - center), 1e-9);
@@ -223,4 +223,3 @@ export function fitBaselineOn(
 /** χ² a baseline degree must earn (a 3σ-like level for one parameter, with room for non-Gaussian noise). */
 const DEGREE_PENALTY = 12;
 
-export { trimOnsets };

@@ -1,23 +1,25 @@
 /**
- * Band-edge extraction from one dI/dV spectrum ("gap pick").
+ * Band-edge extraction from one dI/dV spectrum ("gap pick"). The promise: every number returned is
+ * right within twice its uncertainty, or carries a quality flag saying why it may not be (flags.ts).
+ * Method, sources and defaults in full: lib/spectra/README.md ("Gap picking").
  *
- * 0. Isolated single-point spikes are replaced (despike, with a warning).
+ * 0. Sign (lock-in phase), single-point spikes replaced (`glitch` flag), saturation (`clipped` flag).
  * 1. Resolution from the metadata (resolution.ts): thermal ⊕ lock-in FWHM.
  * 2. Smoothing (settings.smoothing; window follows the resolution by default).
- * 3. Robust floor and σ in the quiet region (noise.ts).
- * 4. Threshold edges: the smoothed signal leaves floor + k·σ_smoothed for N consecutive points,
- *    interpolated (threshold.ts); the threshold-sensitivity (k ± 1) is kept for the uncertainty.
- * 5. Log-scale cross-check (onset line in ln(dI/dV − floor) meets the noise level).
- * 6. Broadening-aware fit of each edge to the raw data (fit.ts), recovering the unbroadened edges.
- * 7. Uncertainty per edge: fit (or threshold-sensitivity) error ⊕ sampling step/√12 ⊕ a model term
- *    (0.05 × resolution after the fit, 0.5 × resolution for threshold edges). For jointly fitted edges
- *    the gap's uncertainty is at least its profile-likelihood σ (fit.ts).
+ * 3. A flat floor and the noise at the smoothing scale for a first look (noise.ts), then the in-gap
+ *    baseline and the edges together (baseline.ts): a robust low-order polynomial fitted to the gap
+ *    between the current edges, σ and τ (correlation) from its residuals, edges read against it as
+ *    sustained rises above k·σ_smoothed, iterated until the edges stay put.
+ * 4. V test: a spectrum that is one continuous V (no floor between onsets) is read as a closed or
+ *    nearly closed gap, fitted from its vertex.
+ * 5. Broadening-aware fit of each edge (fit.ts), recovering the unbroadened edges; weak onsets get the
+ *    honest width of their χ² profile as uncertainty (and a `noisy` flag), ambiguous ones an
+ *    `unreliable-edge` flag; standard errors carry √τ for correlated noise.
+ * 6. `closed` ("closed within resolution") only with evidence: a V, a gap below the resolution or
+ *    consistent with zero (simulated Δχ² points), and a 95% bound within five resolutions.
  * A spectrum whose floor is a large fraction of its signal (metallic) or that has no edge on one side
- * is "no-gap". A gap is flagged `closed` ("closed within resolution") when it is below the resolution
- * or when, for close edges fitted jointly, a zero gap fits the data as well (Δχ² below the 95% point
- * of χ² with 2 degrees of freedom, 5.99); then the
- * uncertainty is widened so that the 95% range reaches zero.
- * Bias is the sample bias: positive bias probes empty states, so the conduction band is at V > 0 side.
+ * is "no-gap". Bias is the sample bias: positive bias probes empty states, so the conduction band is
+ * on the V > 0 side.
  */
 import { type BroadeningKernel, broadeningKernel, convolvedOnset, energyResolution_mV } from "../resolution";
 import { DEFAULT_EXTRACTION_SETTINGS, type ExtractionSettings, resolveExtractionSettings, type DeepPartial } from "../settings";
