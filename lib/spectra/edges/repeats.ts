@@ -15,6 +15,7 @@
  */
 import type { GapPick } from "./pick";
 import type { QualityFlag } from "./flags";
+import type { SpectrumMeta } from "../import/types";
 
 export interface RepeatInput {
   bias_V: ArrayLike<number>;
@@ -103,4 +104,32 @@ export function compareRepeats(repeats: RepeatInput[]): QualityFlag[][] {
     });
   }
   return out;
+}
+
+/**
+ * Which spectra of one file are repeats at one point: those that share a position (x_nm, y_nm within
+ * 1 pm) and a setpoint (bias and current within 0.1%), or — with no positions — every spectrum of a
+ * file whose metadata says `repeats` (the file's own word for it). Groups of two or more, as indices.
+ * A grid or a line (different positions) has none.
+ */
+export function repeatGroups(metas: Pick<SpectrumMeta, "x_nm" | "y_nm" | "setpoint_bias_V" | "setpoint_current_A" | "extra">[]): number[][] {
+  const close = (a: number | undefined, b: number | undefined, rel: number, abs: number) =>
+    a === undefined || b === undefined ? a === b : Math.abs(a - b) <= Math.max(abs, rel * Math.max(Math.abs(a), Math.abs(b)));
+  const same = (a: (typeof metas)[number], b: (typeof metas)[number]) =>
+    close(a.x_nm, b.x_nm, 0, 1e-3) && close(a.y_nm, b.y_nm, 0, 1e-3) && close(a.setpoint_bias_V, b.setpoint_bias_V, 1e-3, 0) && close(a.setpoint_current_A, b.setpoint_current_A, 1e-3, 0);
+  const groups: number[][] = [];
+  const positioned = metas.every((m) => m.x_nm !== undefined && m.y_nm !== undefined);
+  const declared = metas.length > 1 && metas.every((m) => m.extra?.repeats !== undefined);
+  if (!positioned && !declared) return groups;
+  const taken = new Array<boolean>(metas.length).fill(false);
+  for (let i = 0; i < metas.length; i++) {
+    if (taken[i]) continue;
+    const g = [i];
+    for (let j = i + 1; j < metas.length; j++) if (!taken[j] && same(metas[i], metas[j])) g.push(j);
+    if (g.length > 1) {
+      for (const j of g) taken[j] = true;
+      groups.push(g);
+    }
+  }
+  return groups;
 }

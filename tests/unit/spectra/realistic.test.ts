@@ -7,7 +7,7 @@
  * its stated uncertainty, or carries a quality flag saying why it may not be.
  */
 import { describe, expect, it } from "vitest";
-import { compareRepeats, makeNoise, makeRepeats, makeSpectrum, pickGap, quantile, type GapPick } from "@/lib/spectra";
+import { compareRepeats, makeNoise, makeRepeats, makeSpectrum, pickGap, quantile, repeatGroups, type GapPick } from "@/lib/spectra";
 import { autocorrelationTime } from "@/lib/spectra/edges/baseline";
 import { makeSuite, type SuiteCategory, type SuiteEntry } from "@/lib/spectra/suite";
 
@@ -139,5 +139,15 @@ describe("repeats at one point", () => {
     const flags = check(makeRepeats(base, 4, { after: 2, edgeShift_V: 0.03, amplitudeFactor: 1.3 }));
     expect(flags.every((f) => f.length === 1 && f[0].code === "tip-change")).toBe(true);
     expect(flags[0][0].message).toMatch(/repeat 3, repeat 4/);
+  });
+  it("repeats are found by a shared position and setpoint, or a file's 'repeats' line; a grid or a line has none", () => {
+    const at = (x: number, y: number, i = 1e-10) => ({ x_nm: x, y_nm: y, setpoint_bias_V: 0.5, setpoint_current_A: i, extra: {} });
+    expect(repeatGroups([at(0, 0), at(0, 0), at(1, 0), at(0, 0)])).toEqual([[0, 1, 3]]);
+    expect(repeatGroups([at(0, 0), at(1, 0), at(2, 0)])).toEqual([]);
+    expect(repeatGroups([at(0, 0), at(0, 0, 2e-10)])).toEqual([]);
+    const plain = { setpoint_bias_V: 0.5, setpoint_current_A: 1e-10, extra: {} };
+    expect(repeatGroups([plain, plain])).toEqual([]);
+    const declared = { ...plain, extra: { repeats: "3" } };
+    expect(repeatGroups([declared, declared, declared])).toEqual([[0, 1, 2]]);
   });
 });
