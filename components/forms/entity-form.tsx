@@ -7,7 +7,7 @@ import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { Field, Input, Select, Textarea } from "@/components/ui/field";
 import type { ActionState } from "@/lib/actions/types";
-import { fieldErrorsOf, inviteInput, labDefaultsInput, sampleInput, sessionInput, tipInput, tokenInput } from "@/lib/schemas/lab";
+import { fieldErrorsOf, flaggedInFitInput, inviteInput, labDefaultsInput, sampleInput, sessionInput, tipInput, tokenInput } from "@/lib/schemas/lab";
 
 /** The schemas a form may validate with in the browser: the same ones the server applies. */
 const SCHEMAS = {
@@ -16,6 +16,7 @@ const SCHEMAS = {
   session: sessionInput,
   invite: inviteInput,
   labDefaults: labDefaultsInput,
+  flaggedInFit: flaggedInFitInput,
   token: tokenInput,
 } satisfies Record<string, z.ZodType>;
 
