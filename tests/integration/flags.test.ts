@@ -16,7 +16,7 @@ import { createTip } from "@/lib/services/tips/tips";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { makeSweep, spectrumToCsv, type QualityFlag } from "@/lib/spectra";
 import { parseCsv } from "../support/csv";
-import { makeLab, rejection, type LabFixture } from "../support/fixtures";
+import { makeLab, rejection, withSpikeAtZero, type LabFixture } from "../support/fixtures";
 import { bytesOf, startWorkerProcess, stopWorkerProcess, uploadFile } from "../support/pipeline";
 
 /**
@@ -36,14 +36,6 @@ let worker: ChildProcess | undefined;
 /** Spectrum ids by index in the sweep. */
 const ids: string[] = [];
 const GLITCHED = [2, 5, 8];
-
-function withSpikeAtZero<T extends { bias_V: Float64Array; didv: Float64Array }>(s: T): T {
-  const didv = Float64Array.from(s.didv);
-  let k = 0;
-  for (let j = 0; j < s.bias_V.length; j++) if (Math.abs(s.bias_V[j]) < Math.abs(s.bias_V[k])) k = j;
-  didv[k] += 3;
-  return { ...s, didv };
-}
 
 const pickOf = async (i: number) => (await db().select().from(gapPicks).where(eq(gapPicks.spectrumId, ids[i])))[0];
 const codes = (flags: readonly QualityFlag[]) => flags.map((f) => f.code);
