@@ -23,6 +23,9 @@ import { broadeningKernel, energyResolution_mV } from "../resolution";
 import { type ExtractionSettings, resolveExtractionSettings, type DeepPartial } from "../settings";
 import { smoothSpectrum } from "../smooth/apply";
 import { madSigma, quantile } from "../stats";
+import { oddWindow } from "../smooth/apply";
+import { savgolFilter } from "../smooth/savgol";
+import { type Baseline, baselineAt, fitBaselineOn, trimOnsets } from "./baseline";
 import { fitEdges } from "./fit";
 import { noiseFloor } from "./noise";
 import { logOnset, thresholdEdgeDown, thresholdEdgeUp } from "./threshold";
@@ -190,20 +193,68 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   // Keep the minimum search away from the filter's end effects.
   const margin = Math.min(3, Math.floor((hi - lo) / 4));
   const nf = noiseFloor(y, s, sm.gain, st.threshold.k, lo + margin, hi - margin);
-  const thr = nf.floor + st.threshold.k * nf.sigmaSmoothed;
-  const base = { noiseFloor: nf.floor, noiseSigma: nf.sigma, threshold: thr };
   const top = quantile(s.subarray(lo, hi + 1), 0.95);
-  if (!(top > nf.floor) || nf.floor > st.metallicFloorRatio * top) return empty("metallic spectrum: no quiet region near zero (no gap)", base);
-  // A run shorter than the smoothing window can be one noise excursion seen through the filter.
-  const N = Math.max(st.threshold.consecutive, sm.windowPoints);
-  const edgesAt = (k: number) => {
-    const t = nf.floor + k * nf.sigmaSmoothed;
-    return { c: thresholdEdgeUp(bias, s, nf.iMin, hi, t, N), v: thresholdEdgeDown(bias, s, nf.iMin, lo, t, N) };
-  };
-  const main = edgesAt(st.threshold.k);
+  if (!(top > nf.floor) || nf.floor > st.metallicFloorRatio * top)
+    return empty("metallic spectrum: no quiet region near zero (no gap)", { noiseFloor: nf.floor, noiseSigma: nf.sigma, threshold: nf.floor + st.threshold.k * nf.sigmaSmoothed });
+  // Noise at the smoothing scale, correlated noise included: the smoothed curve about a much wider
+  // smoothing of itself (band edges are a few points there, which the MAD ignores).
+  const wide = oddWindow(6 * sm.windowPoints * step, step, 7, hi - lo + 1);
+  const sW = savgolFilter(s.subarray(lo, hi + 1), wide, 2);
+  const dW = new Float64Array(sW.length);
+  for (let i = 0; i < sW.length; i++) dW[i] = s[lo + i] - sW[i];
+  const sigmaWide = Math.max(madSigma(dW), nf.sigmaSmoothed);
+  // A band edge is a sustained rise: a run shorter than this can be a slow noise excursion. Near the
+  // end of the search range a shorter run is accepted.
+  const Nshort = Math.max(st.threshold.consecutive, sm.windowPoints);
+  const Nlong = Math.max(Nshort, Math.round(st.threshold.sustain_mV / 1000 / step), Math.round(3 * res_V / step));
+  const walk = (dd: Float64Array, start: number, t: number) => ({
+    c: thresholdEdgeUp(bias, dd, start, hi, t, Nlong) ?? thresholdEdgeUp(bias, dd, start, hi, t, Nshort),
+    v: thresholdEdgeDown(bias, dd, start, lo, t, Nlong) ?? thresholdEdgeDown(bias, dd, start, lo, t, Nshort),
+  });
+  // 1. Edges against a flat floor; 2. the gap between them is the quiet region: fit the baseline
+  // there, read the edges against it, and repeat until they stay put (edges/baseline.ts).
+  const d = new Float64Array(n);
+  for (let i = 0; i < n; i++) d[i] = s[i] - nf.floor;
+  let e = walk(d, nf.iMin, st.threshold.k * sigmaWide);
+  const keep = Math.max(1, Math.ceil(res_V / step));
+  const base = new Float64Array(n);
+  let bl: Baseline | null = null;
+  for (let round = 0; round < 5; round++) {
+    let from = e.v ? e.v.index + keep : lo + margin;
+    let to = e.c ? e.c.index - keep : hi - margin;
+    if (to - from < 6) {
+      const mid = e.v && e.c ? (e.v.index + e.c.index) >> 1 : nf.iMin;
+      from = Math.max(lo, mid - 3);
+      to = Math.min(hi, mid + 3);
+    }
+    if (!e.v || !e.c) {
+      // A side without an edge may hold a weak band that the baseline would follow: look for its onset.
+      const tr = trimOnsets(bias, y, from, to, Math.min(st.baseline.maxDegree, 1), 0.5 * (bias[from] + bias[to]), nf.sigma, 1, 30);
+      from = tr.from;
+      to = tr.to;
+    }
+    bl = fitBaselineOn(bias, y, s, sm.gain, from, to, st.baseline.maxDegree, st.baseline.widthPerDegree_mV / 1000);
+    for (let i = 0; i < n; i++) {
+      base[i] = baselineAt(bl, bias[i]);
+      d[i] = s[i] - base[i];
+    }
+    const next = walk(d, bl.iMin, st.threshold.k * bl.sigmaSmoothed);
+    const same = next.v?.index === e.v?.index && next.c?.index === e.c?.index;
+    e = next;
+    if (same) break;
+  }
+  bl = bl!;
+  const yd = new Float64Array(n);
+  for (let i = 0; i < n; i++) yd[i] = y[i] - base[i];
+  const sigS = bl.sigmaSmoothed;
+  const thr = base[bl.iMin] + st.threshold.k * sigS;
+  const baseInfo = { noiseFloor: base[bl.iMin], noiseSigma: bl.sigma, threshold: thr };
+  const edgesAt = (k: number) => walk(d, bl.iMin, k * sigS);
+  const main = e;
+  (globalThis as any).__pickDebug = { baseline: Array.from(base), thrline: Array.from(base, (b) => b + st.threshold.k * sigS), bl };
   if (!main.c || !main.v) {
     const side = !main.c && !main.v ? "either side" : !main.c ? "the conduction-band side" : "the valence-band side";
-    return empty(`no band edge on ${side} within the bias range (no gap)`, base);
+    return empty(`no band edge on ${side} within the bias range (no gap)`, baseInfo);
   }
   const kLo = edgesAt(Math.max(1, st.threshold.k - 1));
   const kHi = edgesAt(st.threshold.k + 1);
@@ -212,8 +263,8 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   const cbSens = sens(kLo.c?.edge, kHi.c?.edge, res_V);
   const W = Math.max(st.fit.bandWindowPerResolution * res_V, st.fit.minBandWindow_mV / 1000, 8 * step);
   const span = Math.max(4, Math.round(W / step));
-  const logV = logOnset(bias, s, main.v.index, -1, span, nf.floor, nf.sigmaSmoothed, lo, hi);
-  const logC = logOnset(bias, s, main.c.index, 1, span, nf.floor, nf.sigmaSmoothed, lo, hi);
+  const logV = logOnset(bias, d, main.v.index, -1, span, 0, sigS, lo, hi);
+  const logC = logOnset(bias, d, main.c.index, 1, span, 0, sigS, lo, hi);
   let vb = main.v.edge;
   let cb = main.c.edge;
   const sampling = step / Math.sqrt(12);
@@ -224,13 +275,15 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   let gapSigmaProfile = 0;
   if (st.fit.enabled) {
     const kern = broadeningKernel(T, vrms);
-    const f = fitEdges({ bias, y, kernel: kern, vbGuess: vb, cbGuess: cb, sigma: nf.sigma, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
+    const f = fitEdges({ bias, y: yd, kernel: kern, vbGuess: vb, cbGuess: cb, sigma: bl.sigma, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
     if (f && Number.isFinite(f.vb) && Number.isFinite(f.cb) && f.cb >= f.vb) {
       vb = f.vb;
       cb = f.cb;
       const fs = (x: number) => (Number.isFinite(x) ? x : res_V);
-      vbSigma = Math.hypot(fs(f.vbSigma), sampling / 4, 0.05 * res_V);
-      cbSigma = Math.hypot(fs(f.cbSigma), sampling / 4, 0.05 * res_V);
+      // Correlated noise: the curvature σ assumes independent points; √τ restores the effective count.
+      const infl = Math.sqrt(bl.tau);
+      vbSigma = Math.hypot(infl * fs(f.vbSigma), sampling / 4, 0.05 * res_V);
+      cbSigma = Math.hypot(infl * fs(f.cbSigma), sampling / 4, 0.05 * res_V);
       method = f.mode === "joint" ? "fit-joint" : "fit-separate";
       // Zero-gap model has two parameters fewer (the gap and one step): χ²₂ 95% quantile 5.991.
       consistentWithZero = f.closedDeltaChi2 !== null && f.closedDeltaChi2 < 5.991464547107979;
@@ -258,7 +311,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     cbSigma_V: cbSigma,
     closed: gap < res_V || consistentWithZero,
     resolution_meV: res_mV,
-    ...base,
+    ...baseInfo,
     method,
     threshold_edges: { vbEdge_V: main.v.edge, cbEdge_V: main.c.edge },
     logCheck: { vbEdge_V: logV, cbEdge_V: logC },
