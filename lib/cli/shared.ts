@@ -10,6 +10,7 @@ import {
   type ExtractionSettings,
   type GapPick,
   type ParsedSpectrum,
+  type QualityFlag,
 } from "../spectra";
 import { CliUsageError } from "./io";
 
@@ -34,6 +35,8 @@ export interface Entry {
   message: string | null;
   warnings: string[];
   gap: GapJson | null;
+  /** Quality flags of the pick (lib/spectra/edges/flags.ts): code, plain-words message, where; empty when none. */
+  flags: QualityFlag[];
 }
 
 export interface Analysed {
@@ -132,7 +135,7 @@ export function expandPaths(paths: string[]): string[] {
 }
 
 function errorEntry(file: string, message: string): Analysed {
-  return { entry: { file, index: null, label: null, status: "error", message, warnings: [], gap: null }, spectrum: null, pick: null };
+  return { entry: { file, index: null, label: null, status: "error", message, warnings: [], gap: null, flags: [] }, spectrum: null, pick: null };
 }
 
 function gapJson(p: GapPick): GapJson {
@@ -185,6 +188,7 @@ export function analyseFiles(paths: string[], settings: ExtractionSettings): Ana
               message: null,
               warnings: [...f.warnings, ...s.warnings, ...p.warnings],
               gap: gapJson(p),
+              flags: p.flags,
             },
             spectrum: s,
             pick: p,
