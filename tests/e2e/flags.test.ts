@@ -157,6 +157,10 @@ describe("quality flags in the browser", () => {
     await page.selectOption('[data-testid="flagged-in-fit-form"] select[name="flaggedInFit"]', "exclude");
     await page.click('[data-testid="flagged-in-fit-form"] button[type="submit"]');
     await page.waitForSelector("text=Every sample is being refitted in the background");
+    // The form shows the saved choice, not the one it was opened with.
+    await expect.poll(() => page.inputValue('[data-testid="flagged-in-fit-form"] select[name="flaggedInFit"]')).toBe("exclude");
+    await page.locator('[data-testid="flagged-in-fit-form"]').scrollIntoViewIfNeeded();
+    await shot(page, "flags-lab-setting");
     const total = await flaggedCount();
     // The app's worker refits; the plot refreshes by itself every 10 s, a reload is quicker.
     await expect
