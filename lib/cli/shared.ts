@@ -10,7 +10,6 @@ import {
   type ExtractionSettings,
   type GapPick,
   type ParsedSpectrum,
-  type QualityFlag,
 } from "../spectra";
 import { CliUsageError } from "./io";
 
@@ -25,6 +24,8 @@ export interface GapJson {
   cbSigma_V: number | null;
   resolution_meV: number;
   method: string;
+  /** Quality flags: reasons the pick may not be trusted (code and plain-words message). */
+  flags: { code: string; message: string }[];
 }
 
 export interface Entry {
@@ -35,8 +36,6 @@ export interface Entry {
   message: string | null;
   warnings: string[];
   gap: GapJson | null;
-  /** Quality flags of the pick (lib/spectra/edges/flags.ts): code, plain-words message, where; empty when none. */
-  flags: QualityFlag[];
 }
 
 export interface Analysed {
@@ -135,7 +134,7 @@ export function expandPaths(paths: string[]): string[] {
 }
 
 function errorEntry(file: string, message: string): Analysed {
-  return { entry: { file, index: null, label: null, status: "error", message, warnings: [], gap: null, flags: [] }, spectrum: null, pick: null };
+  return { entry: { file, index: null, label: null, status: "error", message, warnings: [], gap: null }, spectrum: null, pick: null };
 }
 
 function gapJson(p: GapPick): GapJson {
@@ -150,6 +149,7 @@ function gapJson(p: GapPick): GapJson {
     cbSigma_V: p.cbSigma_V,
     resolution_meV: p.resolution_meV,
     method: p.method,
+    flags: p.flags.map((f) => ({ code: f.code, message: f.message })),
   };
 }
 
@@ -188,7 +188,6 @@ export function analyseFiles(paths: string[], settings: ExtractionSettings): Ana
               message: null,
               warnings: [...f.warnings, ...s.warnings, ...p.warnings],
               gap: gapJson(p),
-              flags: p.flags,
             },
             spectrum: s,
             pick: p,

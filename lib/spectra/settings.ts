@@ -64,6 +64,13 @@ export const extractionSettingsSchema = z.object({
     /** … but at least this many mV. */
     minBandWindow_mV: positive,
   }),
+  closed: z.object({
+    /**
+     * A spectrum is one continuous V (closed or nearly closed) when a + b·V + v·|V − m| explains its
+     * band windows and the middle of its gap to within this many standard errors (edges/pick.ts).
+     */
+    vShapeMaxDeviation: positive,
+  }),
   /** "No gap" when the floor exceeds this fraction of the 95th-percentile signal (metallic spectrum). */
   metallicFloorRatio: positive.max(1),
   /** Used when a spectrum's metadata has no temperature, K. */
@@ -83,10 +90,11 @@ export const DEFAULT_EXTRACTION_SETTINGS: ExtractionSettings = deepFreeze({
     windowPerResolution: 1.5,
     minWindowPoints: 5,
   },
-  threshold: { k: 3, consecutive: 3, sustain_mV: 20 },
+  threshold: { k: 3, consecutive: 3, sustain_mV: 40 },
   baseline: { maxDegree: 2, widthPerDegree_mV: 60 },
   search: { minBias_V: null, maxBias_V: null },
   fit: { enabled: true, bandWindowPerResolution: 4, minBandWindow_mV: 30 },
+  closed: { vShapeMaxDeviation: 1 },
   metallicFloorRatio: 0.2,
   assumedTemperature_K: 4.5,
   assumedLockinModulation_mV_rms: 0,

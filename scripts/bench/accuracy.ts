@@ -10,6 +10,7 @@
  *    spectrum of each: BANDCROSS_BENCH_BASELINE=<git revision> (default: the picker before the
  *    background-aware edges, BASELINE_REV below; "none" skips it). The revision's lib/spectra is
  *    unpacked into .bench-baseline/ with `git archive`, so it runs on this checkout's node_modules.
+ *    Times are CPU time of this process per spectrum (steadier than wall time when the machine is busy).
  */
 import { execFileSync } from "node:child_process";
 import { existsSync, mkdirSync } from "node:fs";
@@ -25,7 +26,7 @@ const BENCH_SEED = 15_417;
 const root = new URL("../../", import.meta.url).pathname;
 const line = (s = "") => process.stdout.write(s + "\n");
 
-type Picker = Pick<typeof current, "pickGap" | "quantile">;
+type Picker = Pick<typeof current, "pickGap" | "quantile"> & Partial<Pick<typeof current, "compareRepeats">>;
 interface Outcome {
   entry: SuiteEntry;
   gap: number | null;
@@ -34,14 +35,31 @@ interface Outcome {
   flags: string[];
 }
 
+/** CPU milliseconds (user + system) of this process since `from`: steadier than wall time on a busy machine. */
+const cpuMs = (from: NodeJS.CpuUsage) => {
+  const d = process.cpuUsage(from);
+  return (d.user + d.system) / 1000;
+};
+
 function runPicker(p: Picker, suite: SuiteEntry[]): { outcomes: Outcome[]; ms: number } {
-  const t = performance.now();
-  const outcomes = suite.map((entry) => {
-    const r = p.pickGap(entry.spectrum);
+  const t = process.cpuUsage();
+  const picks = suite.map((entry) => p.pickGap(entry.spectrum));
+  const ms = cpuMs(t) / suite.length;
+  const outcomes = suite.map((entry, i) => {
+    const r = picks[i];
     const flags = ((r as { flags?: { code: string }[] }).flags ?? []).map((f) => f.code);
     return { entry, gap: r.status === "ok" ? r.gap_eV : null, u: r.uncertainty_eV, closed: r.closed, flags };
   });
-  return { outcomes, ms: (performance.now() - t) / suite.length };
+  // Repeats at one point are compared with each other (pickers that can).
+  if ("compareRepeats" in p && typeof p.compareRepeats === "function") {
+    const groups = new Map<string, number[]>();
+    suite.forEach((e, i) => e.group && groups.set(e.group, [...(groups.get(e.group) ?? []), i]));
+    for (const idx of groups.values()) {
+      const flags = (p.compareRepeats as typeof current.compareRepeats)(idx.map((i) => ({ bias_V: suite[i].spectrum.bias_V, didv: suite[i].spectrum.didv, pick: picks[i] as current.GapPick })));
+      idx.forEach((i, k) => outcomes[i].flags.push(...flags[k].map((f) => f.code)));
+    }
+  }
+  return { outcomes, ms };
 }
 
 const f1 = (x: number) => (Number.isFinite(x) ? x.toFixed(1) : "—");
@@ -133,12 +151,12 @@ function flagCounts(outs: Outcome[]) {
 
 function oldSuite(p: Picker): { median: number; p90: number; ms: number } {
   const spectra = heldOutSpectra();
-  const t = performance.now();
+  const t = process.cpuUsage();
   const err = spectra.map((s) => {
     const r = p.pickGap(s);
     return r.gap_eV === null ? Infinity : Math.abs(r.gap_eV - s.truth.gap_eV) * 1000;
   });
-  return { median: current.quantile(err, 0.5), p90: current.quantile(err, 0.9), ms: (performance.now() - t) / spectra.length };
+  return { median: current.quantile(err, 0.5), p90: current.quantile(err, 0.9), ms: cpuMs(t) / spectra.length };
 }
 
 async function baselinePicker(): Promise<{ rev: string; picker: Picker } | null> {
@@ -158,7 +176,7 @@ export async function run(): Promise<void> {
   line(`realistic suite: ${suite.length} spectra in ${Object.keys(SUITE_CATEGORIES).length} categories (seed ${BENCH_SEED})`);
   const base = await baselinePicker();
   // Warm both pickers once so neither pays the other's JIT start-up in its timing.
-  for (const p of [current, base?.picker].filter(Boolean) as Picker[]) runPicker(p, suite.slice(0, 20));
+  for (const p of [current, base?.picker].filter(Boolean) as Picker[]) runPicker(p, suite.slice(0, 40));
   const now = runPicker(current, suite);
   table(`\nthis revision (${now.ms.toFixed(2)} ms per spectrum):`, now.outcomes);
   flagCounts(now.outcomes);

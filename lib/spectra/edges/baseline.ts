@@ -165,24 +165,51 @@ export function fitBaselineOn(
 ): Baseline {
   const npts = to - from + 1;
   const width = bias[to] - bias[from];
-  const degree = Math.max(0, Math.min(maxDegree, Math.floor(width / widthPerDegree_V), Math.floor(npts / 12)));
+  const allowed = Math.max(0, Math.min(maxDegree, Math.floor(width / widthPerDegree_V), Math.floor(npts / 12)));
   const center = 0.5 * (bias[from] + bias[to]);
-  const use = new Uint8Array(npts).fill(1);
-  let coef: Float64Array = new Float64Array([median(y.subarray(from, to + 1))]);
   const res = new Float64Array(npts);
-  let sigma = 0;
-  for (let it = 0; it < 3; it++) {
-    coef = polyFit(bias, y, from, to, degree, center, use) ?? coef;
-    for (let i = from; i <= to; i++) res[i - from] = y[i] - baselineAt({ coef, center }, bias[i]);
-    sigma = madSigma(res);
-    let changed = false;
-    for (let i = 0; i < npts; i++) {
-      const u = Math.abs(res[i]) <= 3 * sigma ? 1 : 0;
-      if (u !== use[i]) changed = true;
-      use[i] = u;
+  const robust = (degree: number) => {
+    const use = new Uint8Array(npts).fill(1);
+    let coef: Float64Array = new Float64Array([median(y.subarray(from, to + 1))]);
+    let sigma = 0;
+    let rss = 0;
+    for (let it = 0; it < 3; it++) {
+      coef = polyFit(bias, y, from, to, degree, center, use) ?? coef;
+      for (let i = from; i <= to; i++) res[i - from] = y[i] - baselineAt({ coef, center }, bias[i]);
+      sigma = madSigma(res);
+      let changed = false;
+      rss = 0;
+      for (let i = 0; i < npts; i++) {
+        const u = Math.abs(res[i]) <= 3 * sigma ? 1 : 0;
+        if (u) rss += res[i] * res[i];
+        if (u !== use[i]) changed = true;
+        use[i] = u;
+      }
+      if (!changed) break;
     }
-    if (!changed) break;
+    return { coef, sigma, rss };
+  };
+  // Degree by a penalised χ²: a higher degree must lower χ² (σ² per point, τ for correlation) by more
+  // than DEGREE_PENALTY, so a slope or curve is used only where the data show it; a polynomial fitted
+  // to noise would tilt the floor and move the edges when extrapolated.
+  let best = robust(0);
+  let degree = 0;
+  if (allowed > 0) {
+    const tau0 = autocorrelationTime(res).tau;
+    const sig2 = best.sigma * best.sigma * tau0;
+    let score = best.rss / sig2;
+    for (let d = 1; d <= allowed; d++) {
+      const r = robust(d);
+      const sc = r.rss / sig2 + DEGREE_PENALTY * d;
+      if (sc < score) {
+        score = sc;
+        best = r;
+        degree = d;
+      }
+    }
   }
+  const { coef, sigma } = best;
+  for (let i = from; i <= to; i++) res[i - from] = y[i] - baselineAt({ coef, center }, bias[i]);
   const rs = new Float64Array(npts);
   let iMin = from;
   for (let i = from; i <= to; i++) {
@@ -192,5 +219,8 @@ export function fitBaselineOn(
   const { tau, rho1 } = autocorrelationTime(res);
   return { coef, center, degree, sigma, sigmaSmoothed: Math.max(madSigma(rs), sigma * gain), tau, rho1, from, to, iMin };
 }
+
+/** χ² a baseline degree must earn (a 3σ-like level for one parameter, with room for non-Gaussian noise). */
+const DEGREE_PENALTY = 12;
 
 export { trimOnsets };

@@ -129,12 +129,12 @@ describe("bandcross analyze", () => {
     expect(r.stdout.split("\n")[0]).toMatch(/^file\s+#\s+status\s+VB edge \(mV\)\s+CB edge \(mV\)\s+gap \(meV\)/);
     expect(r.stdout).toMatch(/good\.csv\s+0\s+ok\s+-12\d\.\d\s+1[78]\d\.\d\s+30\d\.\d ± \d+\.\d/);
   });
-  it("gives each spectrum its quality flags (a list, empty for a rejected file)", () => {
+  it("gives each pick its quality flags (a rejected file has no pick)", () => {
     const out = JSON.parse(runs.flags.stdout);
     const [glitch, ragged] = out.spectra;
-    expect(glitch.flags.map((f: { code: string }) => f.code)).toContain("glitch");
-    expect(glitch.flags.find((f: { code: string }) => f.code === "glitch").message).toMatch(/at 0 mV/);
-    expect(ragged).toMatchObject({ status: "error", flags: [] });
+    expect(glitch.gap.flags.map((f: { code: string }) => f.code)).toContain("glitch");
+    expect(glitch.gap.flags.find((f: { code: string }) => f.code === "glitch").message).toMatch(/at 0 mV/);
+    expect(ragged).toMatchObject({ status: "error", gap: null });
   });
   it("an unknown option is a usage error with a message, exit 2, no stack trace", () => {
     expect(runs.unknown.code).toBe(2);
