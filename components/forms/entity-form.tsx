@@ -7,7 +7,7 @@ import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { Field, Input, Select, Textarea } from "@/components/ui/field";
 import type { ActionState } from "@/lib/actions/types";
-import { fieldErrorsOf, inviteInput, labDefaultsInput, sampleInput, sessionInput, tipInput, tokenInput } from "@/lib/schemas/lab";
+import { fieldErrorsOf, flaggedInFitInput, inviteInput, labDefaultsInput, sampleInput, sessionInput, tipInput, tokenInput } from "@/lib/schemas/lab";
 
 /** The schemas a form may validate with in the browser: the same ones the server applies. */
 const SCHEMAS = {
@@ -16,6 +16,7 @@ const SCHEMAS = {
   session: sessionInput,
   invite: inviteInput,
   labDefaults: labDefaultsInput,
+  flaggedInFit: flaggedInFitInput,
   token: tokenInput,
 } satisfies Record<string, z.ZodType>;
 
@@ -90,7 +91,10 @@ export function EntityForm({
             <div key={f.name} className={f.wide || f.type === "textarea" ? "sm:col-span-2" : ""}>
               <Field label={f.label} name={f.name} hint={f.hint} error={err} unit={f.unit}>
                 {f.type === "select" ? (
-                  <Select name={f.name} defaultValue={value} error={err}>
+                  // Keyed by the value it starts from: a select keeps its first default, so a saved
+                  // value coming back with the revalidated page would not show (nor survive the
+                  // form's reset after the action) without a fresh element.
+                  <Select key={value} name={f.name} defaultValue={value} error={err}>
                     {f.options?.map((o) => (
                       <option key={o.value} value={o.value}>
                         {o.label}

@@ -6,7 +6,7 @@ import { axis, baseLayout, COLORS, Plot } from "@/components/plots/plot";
 import { api } from "@/lib/api-client";
 import { fileStem, formatField } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
-import { errorBarPaths, gapErrorBarShape, WEBGL_FROM } from "./phase-figure";
+import { errorBarPaths, gapErrorBarShape, WEBGL_FROM, outOfFit } from "./phase-figure";
 import type { PhaseData } from "./phase-plot";
 
 /** Phase plots of several samples, or of the regions of one, overlaid on one field axis. */
@@ -23,7 +23,8 @@ export function ComparePlot({ lab, samples }: { lab: string; samples: { id: stri
       const groups = byRegion ? [...new Set(d.points.map((p) => p.region ?? "no region"))].map((r) => ({ name: `${d.sample.name} · ${r}`, pts: d.points.filter((p) => (p.region ?? "no region") === r) })) : [{ name: d.sample.name, pts: d.points }];
       for (const g of groups) {
         const color = COLORS[k++ % COLORS.length];
-        const pts = g.pts.filter((p) => !p.excluded);
+        // The points of each sample's fit: excluded by hand or for their flags (lab setting) stay out.
+        const pts = g.pts.filter((p) => !outOfFit(p));
         const x = pts.map((p) => p.field_V_per_nm);
         const y = pts.map((p) => p.gap_eV * 1000);
         const sy = pts.map((p) => (p.gapSigma_eV ?? 0) * 1000);

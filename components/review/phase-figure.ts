@@ -1,6 +1,7 @@
 import { COLORS } from "@/components/plots/plot";
 import { paddedRange } from "@/components/plots/ranges";
 import type { getPhase } from "@/lib/services/spectra/readSpectra";
+import { QUALITY_FLAG_LABELS } from "@/lib/spectra/edges/flags";
 
 /**
  * What the phase plot (Plotly) and its still preview (SVG) both draw from, kept in one place so
@@ -22,7 +23,25 @@ export const PHASE_LOOK = {
   ciStatistical: "rgba(185,81,42,0.16)",
   excluded: "#8a8478",
   fieldErrorBar: "rgba(110,106,95,0.35)",
+  /** The ring around a point whose pick carries a quality flag (ink, not a series colour). */
+  flagRing: "#1c2430",
 } as const;
+
+/** Out of the fit: excluded by hand, or left out by the lab's setting for flagged spectra. */
+export const outOfFit = (p: PhasePoint) => p.excluded || p.excludedByFlag;
+
+/** Counts for the key under the plot: each point once by how it enters the fit, and the flagged ones. */
+export function phaseCounts(points: readonly PhasePoint[]) {
+  const n = { auto: 0, corrected: 0, excluded: 0, excludedByFlag: 0, flagged: 0 };
+  for (const p of points) {
+    if (p.flags.length) n.flagged++;
+    if (p.excluded) n.excluded++;
+    else if (p.excludedByFlag) n.excludedByFlag++;
+    else if (p.source === "corrected") n.corrected++;
+    else n.auto++;
+  }
+  return n;
+}
 
 export const regionOf = (p: PhasePoint) => p.region ?? "all regions";
 
@@ -47,7 +66,7 @@ export function fieldModeRanges(data: PhaseData, showExcluded: boolean): PhaseRa
   const xs: number[] = [];
   const ys: number[] = [];
   for (const p of data.points) {
-    if (p.excluded && !showExcluded) continue;
+    if (outOfFit(p) && !showExcluded) continue;
     const sx = p.fieldSigma_V_per_nm ?? 0;
     const sy = (p.gapSigma_eV ?? 0) * 1000;
     xs.push(p.field_V_per_nm - sx, p.field_V_per_nm + sx);
@@ -79,6 +98,28 @@ export function errorBarPaths(points: readonly { x: number; y: number; sx?: numb
     if (sx && sx > 0) horizontal += `M${n(x - sx)},${n(y)}H${n(x + sx)}`;
   }
   return { vertical, horizontal };
+}
+
+/**
+ * One series of rings, one around each shown point whose pick carries a quality flag: drawn over
+ * the points (a ring hides nothing), in ink so it reads on every region's colour, and in one trace
+ * (WebGL from WEBGL_FROM points, like the points) whatever the number of flagged points. Clicking a
+ * ring opens that spectrum; hovering names the flags.
+ */
+export function flagRingTrace(points: readonly PhasePoint[], x: (p: PhasePoint) => number | null, type: "scatter" | "scattergl"): Record<string, unknown> | null {
+  const pts = points.filter((p) => p.flags.length > 0 && x(p) != null);
+  if (!pts.length) return null;
+  return {
+    type,
+    mode: "markers",
+    name: "⚑ flagged (quality flag)",
+    x: pts.map((p) => x(p)!),
+    y: pts.map((p) => p.gap_eV * 1000),
+    customdata: pts.map((p) => p.spectrumId),
+    text: pts.map((p) => p.flags.map((f) => QUALITY_FLAG_LABELS[f.code] ?? f.code).join(", ")),
+    marker: { symbol: "circle-open", size: 15, color: PHASE_LOOK.flagRing, line: { width: 1.5, color: PHASE_LOOK.flagRing } },
+    hovertemplate: "flagged: %{text}<extra></extra>",
+  };
 }
 
 /** From this many points the phase plot uses WebGL markers, and the field bars start hidden. */

@@ -16,16 +16,20 @@ type Column<T> = { values: T[] } | { dict: T[]; index: number[] };
 /** A column is given as a dictionary when it has few distinct values (regions, sources, flags). */
 const DICT_UP_TO = 64;
 
+/** Objects and arrays (quality flags) are the same value when their JSON is: most points share `[]`. */
+const keyOf = (v: unknown) => (typeof v === "object" && v !== null ? JSON.stringify(v) : v);
+
 function column<T>(values: T[]): Column<T> {
   const dict: T[] = [];
-  const at = new Map<T, number>();
+  const at = new Map<unknown, number>();
   const index: number[] = [];
   for (const v of values) {
-    let i = at.get(v);
+    const k = keyOf(v);
+    let i = at.get(k);
     if (i === undefined) {
       if (dict.length === DICT_UP_TO) return { values };
       i = dict.push(v) - 1;
-      at.set(v, i);
+      at.set(k, i);
     }
     index.push(i);
   }

@@ -4,7 +4,7 @@ import { useQuery } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useMemo, useRef, useState } from "react";
 import { axis, baseLayout, downloadFigure, Plot } from "@/components/plots/plot";
-import { errorBarPaths, fieldErrorBarShape, gapErrorBarShape, fieldModeRanges, PHASE_LOOK, PHASE_MARGIN, type PhaseData, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
+import { errorBarPaths, fieldErrorBarShape, flagRingTrace, gapErrorBarShape, fieldModeRanges, outOfFit, PHASE_LOOK, PHASE_MARGIN, phaseCounts, type PhaseData, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
 import { type PackedPhase, unpackPhase } from "./phase-pack";
 import { PhasePreview } from "./phase-preview";
 import { api } from "@/lib/api-client";
@@ -15,16 +15,11 @@ export type { PhaseData };
 
 /**
  * How to read the plot, under it: how many points are automatic picks, corrected by an analyst or
- * excluded, each with the marker shape it has on the plot, and what a click does.
+ * excluded, each with the marker shape it has on the plot, how many carry a quality flag (ringed)
+ * and how many the lab's setting left out of the fit for that, and what a click does.
  */
 function PhaseKey({ points }: { points: PhaseData["points"] }) {
-  let corrected = 0;
-  let excluded = 0;
-  for (const p of points) {
-    if (p.excluded) excluded++;
-    else if (p.source === "corrected") corrected++;
-  }
-  const auto = points.length - corrected - excluded;
+  const { auto, corrected, excluded, excludedByFlag, flagged } = phaseCounts(points);
   return (
     <dl className="flex flex-wrap gap-x-5 gap-y-1 border-t border-line pt-3 text-xs text-ink-soft" data-testid="phase-key">
       <div className="inline-flex items-center gap-1.5">
@@ -39,6 +34,18 @@ function PhaseKey({ points }: { points: PhaseData["points"] }) {
         <dt><span aria-hidden>✕</span> excluded (not in the fit)</dt>
         <dd className="num text-ink">{excluded}</dd>
       </div>
+      <div className="inline-flex items-center gap-1.5" data-testid="phase-key-flagged" title="A ring marks a pick with a quality flag: a reason it may not be trusted. Open the spectrum to read why.">
+        <dt>
+          <span aria-hidden className="inline-block h-3 w-3 translate-y-0.5 rounded-full border-[1.5px]" style={{ borderColor: PHASE_LOOK.flagRing }} /> ringed: flagged
+        </dt>
+        <dd className="num text-ink">{flagged}</dd>
+      </div>
+      {excludedByFlag ? (
+        <div className="inline-flex items-center gap-1.5" data-testid="phase-key-flagged-out">
+          <dt><span aria-hidden>○</span> flagged, left out of the fit (lab setting)</dt>
+          <dd className="num text-ink">{excludedByFlag}</dd>
+        </div>
+      ) : null}
       <p className="basis-full text-muted">Click a point to open its spectrum. The field axis is a model estimate: its assumptions are beside the plot.</p>
     </dl>
   );
@@ -92,9 +99,15 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
     let fieldBars = "";
     for (const { region, color } of regionColors(data.points)) {
       const groups: { name: string; pts: PhaseData["points"]; marker: Record<string, unknown> }[] = [
-        { name: `${region}`, pts: data.points.filter((p) => regionOf(p) === region && !p.excluded && p.source === "auto"), marker: { symbol: "circle", size: 7, color } },
+        { name: `${region}`, pts: data.points.filter((p) => regionOf(p) === region && !outOfFit(p) && p.source === "auto"), marker: { symbol: "circle", size: 7, color } },
         { name: `${region} · corrected`, pts: data.points.filter((p) => regionOf(p) === region && !p.excluded && p.source === "corrected"), marker: { symbol: "diamond", size: 9, color, line: { color: "#1c2430", width: 1 } } },
-        ...(showExcluded ? [{ name: `${region} · excluded`, pts: data.points.filter((p) => regionOf(p) === region && p.excluded), marker: { symbol: "x-open", size: 8, color: PHASE_LOOK.excluded } }] : []),
+        ...(showExcluded
+          ? [
+              { name: `${region} · excluded`, pts: data.points.filter((p) => regionOf(p) === region && p.excluded), marker: { symbol: "x-open", size: 8, color: PHASE_LOOK.excluded } },
+              // Open circles: automatic picks the lab's setting keeps out of the fit for their flags.
+              { name: `${region} · flagged, not in the fit`, pts: data.points.filter((p) => regionOf(p) === region && p.excludedByFlag), marker: { symbol: "circle-open", size: 8, color, line: { color, width: 1.5 } } },
+            ]
+          : []),
       ];
       for (const g of groups) {
         const pts = g.pts.filter((p) => x.of(p) != null);
@@ -125,6 +138,8 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
         });
       }
     }
+    const rings = flagRingTrace(showExcluded ? data.points : data.points.filter((p) => !outOfFit(p)), x.of, type);
+    if (rings) traces.push(rings);
     if (fieldBars) shapes.push(fieldErrorBarShape(fieldBars, data.points.length));
     if (mode === "field" && theory.on) {
       const lambda = Number(theory.lambda_meV) / 1000;

@@ -1,6 +1,6 @@
 import { PLOT_STYLE } from "@/components/plots/plot";
 import { niceTicks } from "@/components/plots/ranges";
-import { PHASE_LOOK, PHASE_MARGIN, type PhaseData, type PhasePoint, type PhaseRanges, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
+import { outOfFit, PHASE_LOOK, PHASE_MARGIN, type PhaseData, type PhasePoint, type PhaseRanges, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
 
 /** Plotly's plot area inside the phase plot: its margins, with a one-row legend below. */
 const AREA = { ...PHASE_MARGIN, b: PHASE_MARGIN.b + 51 };
@@ -10,14 +10,23 @@ const AREA = { ...PHASE_MARGIN, b: PHASE_MARGIN.b + 51 };
  * over the plot's place until the interactive plot has drawn: the points by region, the fitted curve
  * with its band and the critical field, on the same axes. Points are zero-length round-capped
  * strokes in a 1000 × 1000 box stretched over the plot area (`non-scaling-stroke` keeps them round).
+ * Rings (flagged picks) and open circles (left out of the fit for their flags) are the same
+ * strokes twice, the second narrower in the plot's background colour: one path per layer, never
+ * an element per point.
  */
 export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseData; showExcluded: boolean; ranges: PhaseRanges }) {
   const X = (v: number) => ((v - r.x[0]) / (r.x[1] - r.x[0])) * 1000;
   const Y = (v: number) => (1 - (v - r.y[0]) / (r.y[1] - r.y[0])) * 1000;
   const f = (v: number) => v.toFixed(1);
   const dotsOf = (pts: PhasePoint[]) => pts.map((p) => `M${f(X(p.field_V_per_nm))} ${f(Y(p.gap_eV * 1000))}h0`).join("");
-  const dots = regionColors(data.points).map(({ region, color }) => ({ region, color, d: dotsOf(data.points.filter((p) => regionOf(p) === region && !p.excluded)) }));
+  const dots = regionColors(data.points).map(({ region, color }) => ({
+    region,
+    color,
+    d: dotsOf(data.points.filter((p) => regionOf(p) === region && !outOfFit(p))),
+    open: showExcluded ? dotsOf(data.points.filter((p) => regionOf(p) === region && p.excludedByFlag)) : "",
+  }));
   const excluded = showExcluded ? dotsOf(data.points.filter((p) => p.excluded)) : "";
+  const rings = dotsOf(data.points.filter((p) => p.flags.length > 0 && (showExcluded || !outOfFit(p))));
   const c = data.crossing;
   const curve = "curve" in c && c.curve && c.state !== "none" ? c.curve : null;
   const path = (xs: number[], ys: number[]) => xs.map((x, i) => `${i ? "L" : "M"}${f(X(x))} ${f(Y(ys[i]))}`).join("");
@@ -30,7 +39,7 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
   const bars =
     data.points.length < WEBGL_FROM
       ? data.points
-          .filter((p) => showExcluded || !p.excluded)
+          .filter((p) => showExcluded || !outOfFit(p))
           .map((p) => {
             const [x, y] = [p.field_V_per_nm, p.gap_eV * 1000];
             const [sx, sy] = [p.fieldSigma_V_per_nm ?? 0, (p.gapSigma_eV ?? 0) * 1000];
@@ -67,7 +76,21 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
           {line ? <path d={line} fill="none" stroke={PHASE_LOOK.fit} strokeWidth={2} vectorEffect="non-scaling-stroke" /> : null}
           {ec != null ? <line x1={f(X(ec))} x2={f(X(ec))} y1={0} y2={1000} stroke={PHASE_LOOK.fit} strokeWidth={1.5} strokeDasharray="2 3" vectorEffect="non-scaling-stroke" /> : null}
           {excluded ? <path d={excluded} stroke={PHASE_LOOK.excluded} strokeWidth={6} strokeLinecap="round" vectorEffect="non-scaling-stroke" /> : null}
+          {rings ? (
+            <g data-testid="phase-preview-rings">
+              <path d={rings} stroke={PHASE_LOOK.flagRing} strokeWidth={15} strokeLinecap="round" vectorEffect="non-scaling-stroke" />
+              <path d={rings} stroke={PLOT_STYLE.plotBg} strokeWidth={12} strokeLinecap="round" vectorEffect="non-scaling-stroke" />
+            </g>
+          ) : null}
           {dots.map((g) => (g.d ? <path key={g.region} d={g.d} stroke={g.color} strokeWidth={7} strokeLinecap="round" vectorEffect="non-scaling-stroke" /> : null))}
+          {dots.map((g) =>
+            g.open ? (
+              <g key={`open-${g.region}`}>
+                <path d={g.open} stroke={g.color} strokeWidth={8} strokeLinecap="round" vectorEffect="non-scaling-stroke" />
+                <path d={g.open} stroke={PLOT_STYLE.plotBg} strokeWidth={5} strokeLinecap="round" vectorEffect="non-scaling-stroke" />
+              </g>
+            ) : null,
+          )}
         </svg>
       </div>
       {ec != null ? (
@@ -88,6 +111,12 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
             {g.region}
           </span>
         ))}
+        {rings ? (
+          <span className="inline-flex items-center gap-1.5">
+            <span className="inline-block h-3 w-3 rounded-full border-[1.5px]" style={{ borderColor: PHASE_LOOK.flagRing }} />
+            flagged
+          </span>
+        ) : null}
         <span className="rounded bg-white/80 px-2 py-0.5 text-xs text-muted">drawing the interactive plot…</span>
       </div>
     </div>

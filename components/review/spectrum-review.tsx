@@ -7,6 +7,7 @@ import { axis, baseLayout, Plot } from "@/components/plots/plot";
 import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
+import { FlagList } from "./quality-flags";
 import { api, ApiError } from "@/lib/api-client";
 import { fileStem, formatGap } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
@@ -22,7 +23,8 @@ const mv = (v: number | null | undefined) => (v == null ? "—" : `${(v * 1000).
  * The review screen of one spectrum: raw and smoothed dI/dV (linear or log), noise floor and
  * threshold, the energy resolution, and the two band edges as lines the analyst drags. Saving a
  * correction needs a reason and keeps the automatic pick and the history; a stale save gets the
- * conflict message and the edit stays on screen. Keys: ← → move, A accept and next, X exclude, U undo.
+ * conflict message and the edit stays on screen. The pick's quality flags sit under its numbers.
+ * Keys: ← → move, F next flagged, A accept and next, X exclude, U undo.
  */
 export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial: SpectrumData; canEdit: boolean }) {
   const qc = useQueryClient();
@@ -41,8 +43,8 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
 
   // Prefetch the neighbours so moving through a sample is instant.
   useEffect(() => {
-    for (const n of [data.neighbours.next, data.neighbours.prev]) if (n) void qc.prefetchQuery({ queryKey: queryKeys.spectrum(n), queryFn: () => fetchSpectrum(n), staleTime: 30_000 });
-  }, [data.neighbours.next, data.neighbours.prev, qc, fetchSpectrum]);
+    for (const n of [data.neighbours.next, data.neighbours.prev, data.neighbours.nextFlagged]) if (n) void qc.prefetchQuery({ queryKey: queryKeys.spectrum(n), queryFn: () => fetchSpectrum(n), staleTime: 30_000 });
+  }, [data.neighbours.next, data.neighbours.prev, data.neighbours.nextFlagged, qc, fetchSpectrum]);
 
   const go = useCallback(
     (target: string | null) => {
@@ -126,6 +128,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
       if (e.metaKey || e.ctrlKey || e.altKey) return;
       if (e.key === "ArrowRight" || e.key === "j") go(data.neighbours.next);
       else if (e.key === "ArrowLeft" || e.key === "k") go(data.neighbours.prev);
+      else if (e.key === "f" || e.key === "F") go(data.neighbours.nextFlagged);
       else if (canEdit && (e.key === "a" || e.key === "A")) go(data.neighbours.next);
       else if (canEdit && (e.key === "x" || e.key === "X")) void setExcluded(!pick?.excluded).then(() => go(data.neighbours.next));
       else if (canEdit && (e.key === "u" || e.key === "U")) void undo();
@@ -186,7 +189,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
 
   const m = data.metadata;
   return (
-    <div className="space-y-5" data-testid="spectrum-review" data-spectrum-id={id}>
+    <div className="space-y-5" data-testid="spectrum-review" data-spectrum-id={id} data-shown-id={data.id}>
       <div className="flex flex-wrap items-center justify-between gap-3">
         <div className="flex items-center gap-2 text-sm">
           <Button type="button" variant="secondary" disabled={!data.neighbours.prev} onClick={() => go(data.neighbours.prev)} aria-keyshortcuts="ArrowLeft">
@@ -197,6 +200,17 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
           </span>
           <Button type="button" variant="secondary" disabled={!data.neighbours.next} onClick={() => go(data.neighbours.next)} aria-keyshortcuts="ArrowRight">
             Next →
+          </Button>
+          <Button
+            type="button"
+            variant="secondary"
+            disabled={!data.neighbours.nextFlagged}
+            onClick={() => go(data.neighbours.nextFlagged)}
+            aria-keyshortcuts="F"
+            title={data.neighbours.flagged ? `${data.neighbours.flagged} flagged in this sample (key F)` : "No spectrum of this sample is flagged"}
+            data-testid="next-flagged"
+          >
+            Next flagged ⚑{data.neighbours.flagged ? <span className="num text-xs text-muted"> ({data.neighbours.flagged})</span> : null}
           </Button>
           {isFetching ? <span className="text-xs text-muted">loading…</span> : null}
         </div>
@@ -219,7 +233,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
             />
           </div>
           <p className="px-2 pt-1 text-xs text-muted">
-            {canEdit ? "Drag the copper lines to move the band edges, or type them on the right. " : ""}Keys: ← → move{canEdit ? ", A accept and next, X exclude / include, U undo" : ""}.
+            {canEdit ? "Drag the copper lines to move the band edges, or type them on the right. " : ""}Keys: ← → move, F next flagged{canEdit ? ", A accept and next, X exclude / include, U undo" : ""}.
           </p>
         </div>
         <div className="space-y-4">
@@ -228,7 +242,12 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
               <h2 className="text-sm font-semibold">Band edges</h2>
               {pick ? (
                 <span className="flex gap-1">
-                  {pick.excluded ? <Badge tone="danger">excluded</Badge> : null}
+                  {pick.flags.length ? (
+                    <Badge tone="copper" title="Quality flags: see below">
+                      <span aria-hidden>⚑</span> flagged
+                    </Badge>
+                  ) : null}
+                  {pick.excluded ? <Badge tone="danger">excluded</Badge> : pick.excludedByFlag ? <Badge tone="danger">not in the fit</Badge> : null}
                   {pick.source === "corrected" ? <Badge tone="copper">✎ corrected</Badge> : <Badge>auto · {pick.method}</Badge>}
                   <span className="num text-xs text-muted">v{pick.version}</span>
                 </span>
@@ -251,6 +270,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
                 automatic pick kept: {mv((pick.auto as { vbEdge_V?: number }).vbEdge_V)} to {mv((pick.auto as { cbEdge_V?: number }).cbEdge_V)}
               </p>
             ) : null}
+            {pick ? <FlagList flags={pick.flags} corrected={pick.source === "corrected"} excludedByFlag={pick.excludedByFlag} /> : null}
             {canEdit && pick ? (
               <div className="mt-4 space-y-2 border-t border-line pt-3">
                 <div className="grid grid-cols-2 gap-2">

@@ -3,6 +3,7 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import Link from "next/link";
 import { useState } from "react";
+import { FlagBadges } from "@/components/review/quality-flags";
 import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
@@ -10,6 +11,7 @@ import { api, ApiError } from "@/lib/api-client";
 import { formatGap } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
 import { readNumber } from "@/lib/schemas/number";
+import { QUALITY_FLAG_CODES, QUALITY_FLAG_LABELS, type QualityFlag } from "@/lib/spectra/edges/flags";
 
 type Row = {
   id: string;
@@ -28,6 +30,7 @@ type Row = {
   pickStatus: string | null;
   source: "auto" | "corrected" | null;
   excluded: boolean | null;
+  flags: QualityFlag[] | null;
 };
 type Page = { total: number; page: number; pageSize: number; rows: Row[]; regions: string[] };
 type Sort = "index" | "file" | "region" | "setpointCurrent" | "zOffset" | "gap" | "field";
@@ -93,14 +96,16 @@ export function SpectraTable({ lab, sessionId, sampleId, canEdit, tips }: { lab:
   const [dir, setDir] = useState<"asc" | "desc">("asc");
   const [q, setQ] = useState("");
   const [region, setRegion] = useState("");
+  /** "" all, "flagged", "unflagged", or a flag's code: filtered on the server, like the rest. */
+  const [flag, setFlag] = useState("");
   const [selected, setSelected] = useState<Set<string>>(new Set());
   const [bulk, setBulk] = useState<{ field: EditKey | "tipId"; value: string }>({ field: "region", value: "" });
   const [error, setError] = useState<string | null>(null);
   const pageSize = 50;
-  const params = { page, sort, dir, q, region };
+  const params = { page, sort, dir, q, region, flag };
   const { data, isLoading, isError, refetch } = useQuery({
     queryKey: queryKeys.sessionSpectra(sessionId, params),
-    queryFn: () => api<Page>(lab, "GET", `/sessions/${sessionId}/spectra?${new URLSearchParams({ page: String(page), pageSize: String(pageSize), sort, dir, ...(q ? { q } : {}), ...(region ? { region } : {}) })}`),
+    queryFn: () => api<Page>(lab, "GET", `/sessions/${sessionId}/spectra?${new URLSearchParams({ page: String(page), pageSize: String(pageSize), sort, dir, ...(q ? { q } : {}), ...(region ? { region } : {}), ...(flag ? { flag } : {}) })}`),
     placeholderData: keepPreviousData,
     refetchInterval: 5000,
   });
@@ -165,6 +170,16 @@ export function SpectraTable({ lab, sessionId, sampleId, canEdit, tips }: { lab:
             </option>
           ))}
         </select>
+        <select aria-label="Quality flags" data-testid="flag-filter" value={flag} onChange={(e) => { setFlag(e.target.value); setPage(1); }} className="rounded-md border border-line bg-white px-2 py-1.5 text-sm">
+          <option value="">Flagged or not</option>
+          <option value="flagged">Flagged</option>
+          <option value="unflagged">Not flagged</option>
+          {QUALITY_FLAG_CODES.map((c) => (
+            <option key={c} value={c}>
+              Flag: {QUALITY_FLAG_LABELS[c]}
+            </option>
+          ))}
+        </select>
         <span className="num ml-auto text-xs text-muted">{data ? `${data.total} spectra` : ""}</span>
       </div>
       {canEdit && selected.size > 0 ? (
@@ -199,7 +214,7 @@ export function SpectraTable({ lab, sessionId, sampleId, canEdit, tips }: { lab:
       ) : null}
       {error ? <Notice tone="danger">{error}</Notice> : null}
       <div className="overflow-x-auto rounded-lg border border-line bg-card">
-        <table className="w-full min-w-[880px] text-left text-sm">
+        <table className="w-full min-w-[980px] text-left text-sm">
           <thead className="bg-paper/70 text-xs uppercase tracking-wide text-muted">
             <tr>
               {canEdit ? (
@@ -215,20 +230,21 @@ export function SpectraTable({ lab, sessionId, sampleId, canEdit, tips }: { lab:
               {header("field", "Field", "V/nm")}
               {header("gap", "Gap")}
               <th scope="col" className="px-3 py-2 font-semibold">Pick</th>
+              <th scope="col" className="px-3 py-2 font-semibold">Flags</th>
             </tr>
           </thead>
           <tbody>
             {isLoading ? (
               Array.from({ length: 5 }, (_, i) => (
                 <tr key={i} className="border-b border-line/70">
-                  <td colSpan={9} className="px-3 py-3">
+                  <td colSpan={10} className="px-3 py-3">
                     <div className="h-3 w-2/3 animate-pulse rounded bg-line" />
                   </td>
                 </tr>
               ))
             ) : isError ? (
               <tr>
-                <td colSpan={9} className="px-3 py-6 text-center text-sm text-danger">
+                <td colSpan={10} className="px-3 py-6 text-center text-sm text-danger">
                   The spectra could not be loaded.{" "}
                   <button type="button" className="underline" onClick={() => refetch()}>
                     Retry
@@ -237,8 +253,8 @@ export function SpectraTable({ lab, sessionId, sampleId, canEdit, tips }: { lab:
               </tr>
             ) : rows.length === 0 ? (
               <tr>
-                <td colSpan={9} className="px-3 py-6 text-center text-sm text-muted">
-                  {q || region ? "No spectra match the filter." : "No spectra yet: drop files above."}
+                <td colSpan={10} className="px-3 py-6 text-center text-sm text-muted">
+                  {q || region || flag ? "No spectra match the filter." : "No spectra yet: drop files above."}
                 </td>
               </tr>
             ) : (
@@ -263,6 +279,9 @@ export function SpectraTable({ lab, sessionId, sampleId, canEdit, tips }: { lab:
                   <td className="num px-3 py-1.5">{r.pickStatus === "no-gap" ? "no gap" : formatGap(r.gap_eV, r.closed)}</td>
                   <td className="px-3 py-1.5">
                     {r.excluded ? <Badge tone="danger">excluded</Badge> : r.source === "corrected" ? <Badge tone="copper">✎ corrected</Badge> : <Badge>auto</Badge>}
+                  </td>
+                  <td className="px-3 py-1.5" data-testid="spectrum-flags">
+                    {r.flags?.length ? <FlagBadges flags={r.flags} /> : <span className="text-muted">—</span>}
                   </td>
                 </tr>
               ))

@@ -19,6 +19,10 @@ export const users = pgTable(
 export type User = typeof users.$inferSelect;
 export type NewUser = typeof users.$inferInsert;
 
+/** Whether spectra whose automatic pick carries a quality flag enter the critical-field fit. */
+export const flaggedInFit = pgEnum("flagged_in_fit", ["include", "exclude"]);
+export type FlaggedInFit = (typeof flaggedInFit.enumValues)[number];
+
 export const labs = pgTable(
   "labs",
   {
@@ -31,6 +35,8 @@ export const labs = pgTable(
     defaultTipWorkFunctionSigmaEv: doublePrecision("default_tip_work_function_sigma_ev").notNull().default(0.1),
     defaultSampleWorkFunctionEv: doublePrecision("default_sample_work_function_ev").notNull().default(4.5),
     defaultSampleWorkFunctionSigmaEv: doublePrecision("default_sample_work_function_sigma_ev").notNull().default(0.1),
+    /** Flagged automatic picks in the crossing fit: `include` (marked on the plot) or `exclude`; corrected picks always enter. */
+    flaggedInFit: flaggedInFit("flagged_in_fit").notNull().default("include"),
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex("labs_slug_unique").on(t.slug)],

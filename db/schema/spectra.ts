@@ -11,6 +11,7 @@ import {
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
+import type { QualityFlag } from "@/lib/spectra/edges/flags";
 import { labs, users } from "./auth";
 import { createdAt, float64Array, id, updatedAt } from "./columns";
 import { measurementSessions, samples, tips } from "./lab";
@@ -145,6 +146,12 @@ export const gapPicks = pgTable(
     settingsVersionId: uuid("settings_version_id").references(() => extractionSettingsVersions.id, { onDelete: "set null" }),
     /** The automatic pick as computed, kept when an analyst corrects it. */
     autoPick: jsonb("auto_pick").$type<Record<string, unknown>>().notNull(),
+    /**
+     * Quality flags of the automatic pick (lib/spectra/edges/flags.ts): reasons it may not be
+     * trusted, made with the same settings version. They describe the data, so a correction keeps
+     * them; a re-analysis replaces them with the new automatic pick's.
+     */
+    flags: jsonb("flags").$type<QualityFlag[]>().notNull().default([]),
     excluded: boolean("excluded").notNull().default(false),
     excludedReason: text("excluded_reason"),
     /** Optimistic-concurrency version, raised by every change. */

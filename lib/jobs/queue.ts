@@ -13,6 +13,8 @@ export const QUEUES = {
   processUpload: "process-upload",
   /** Re-run the automatic picks and fields of a sample after its settings or field model changed. */
   reanalyzeSample: "reanalyze-sample",
+  /** Refit a sample's crossing from its stored picks (a lab setting changed which picks enter the fit). */
+  refitSample: "refit-sample",
   /** E-mail one crossing event to its recipients (the in-app notifications exist already). */
   notifyEvent: "notify-event",
 } as const;
@@ -20,6 +22,7 @@ export const QUEUES = {
 export type ProcessUploadJob = { uploadId: string };
 export type ReanalyzeSampleJob = { sampleId: string; labId: string; reason: string };
 export type NotifyEventJob = { eventId: string };
+export type RefitSampleJob = { sampleId: string; labId: string; runId: string; reason: string };
 
 /** Seconds a job may stay active before it is presumed dead (worker killed) and retried. */
 export function jobExpireSeconds(): number {
@@ -51,6 +54,7 @@ export function boss(role: "worker" | "sender" = "sender"): Promise<PgBoss> {
     const common = { retryLimit: 4, retryDelay: 2, retryBackoff: true, expireInSeconds: jobExpireSeconds() };
     await b.createQueue(QUEUES.processUpload, { name: QUEUES.processUpload, ...common });
     await b.createQueue(QUEUES.reanalyzeSample, { name: QUEUES.reanalyzeSample, ...common });
+    await b.createQueue(QUEUES.refitSample, { name: QUEUES.refitSample, ...common });
     // A mail-service outage is retried for about half an hour (5 s doubling, 8 tries) without redoing any fit.
     await b.createQueue(QUEUES.notifyEvent, { name: QUEUES.notifyEvent, ...common, retryLimit: 8, retryDelay: 5 });
     return b;
@@ -73,6 +77,11 @@ export async function enqueueReanalyzeSample(job: ReanalyzeSampleJob): Promise<v
   // Every save queues its own run: a job already running has read the older version, so a
   // newer one must run after it (refits are serialised per sample, so runs never interleave badly).
   await b.send(QUEUES.reanalyzeSample, job);
+}
+
+export async function enqueueRefitSample(job: RefitSampleJob): Promise<void> {
+  const b = await boss();
+  await b.send(QUEUES.refitSample, job);
 }
 
 /**

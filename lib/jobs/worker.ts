@@ -6,9 +6,10 @@
 import type PgBoss from "pg-boss";
 import { closeDb, db } from "@/db/client";
 import { reanalyzeSample } from "@/lib/services/analysis/reanalyzeSample";
+import { runRefit } from "@/lib/services/analysis/refitSample";
 import { markUploadFailed, processUpload } from "@/lib/services/uploads/processUpload";
 import { deliverEvent } from "@/lib/services/alerts/deliverEvent";
-import { boss, QUEUES, stopBoss, type NotifyEventJob, type ProcessUploadJob, type ReanalyzeSampleJob } from "./queue";
+import { boss, QUEUES, stopBoss, type NotifyEventJob, type ProcessUploadJob, type ReanalyzeSampleJob, type RefitSampleJob } from "./queue";
 import { analysisRuns } from "@/db/schema";
 import { and, eq, inArray } from "drizzle-orm";
 
@@ -62,6 +63,11 @@ export async function startWorker(): Promise<() => Promise<void>> {
     // Every run still queued or running is covered by this one (it reads the newest versions).
     const out = await reanalyzeSample(db(), { sampleId: job.data.sampleId, runIds: runs.map((r) => r.id) });
     log(`${QUEUES.reanalyzeSample} ${job.data.sampleId}: ${out === "superseded" ? "superseded by a newer version" : "done"} in ${Date.now() - started} ms (${job.data.reason})`);
+  });
+  await b.work<RefitSampleJob>(QUEUES.refitSample, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
+    const started = Date.now();
+    await runRefit(db(), job.data);
+    log(`${QUEUES.refitSample} ${job.data.sampleId}: done in ${Date.now() - started} ms (${job.data.reason})`);
   });
   // Crossing alerts are decided inside every refit (refitSample → afterRefit); this queue only
   // e-mails them, so a mail-service outage is retried here without redoing any fit.

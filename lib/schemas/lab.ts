@@ -90,6 +90,11 @@ export const labDefaultsInput = z.object({
   defaultSampleWorkFunctionSigma_eV: workFunctionSigma,
 });
 
+/** The lab's setting for spectra whose automatic pick carries a quality flag, in the critical-field fit. */
+export const flaggedInFitInput = z.object({
+  flaggedInFit: z.enum(["include", "exclude"], { error: "Choose include or exclude." }),
+});
+
 export const tokenInput = z.object({
   name: z.string().trim().min(1, "Name the token, e.g. 'acquisition PC'.").max(80),
   userId: z

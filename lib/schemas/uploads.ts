@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { QUALITY_FLAG_CODES } from "@/lib/spectra/edges/flags";
 import { numberInput } from "./number";
 
 /** File names as the browser or the command line sends them: a base name, no folders or control characters. */
@@ -50,6 +51,8 @@ export const spectraQuery = z.object({
   dir: z.enum(["asc", "desc"]).default("asc"),
   q: z.string().trim().max(120).optional(),
   region: z.string().trim().max(80).optional(),
+  /** `flagged` (any quality flag), `unflagged`, or one flag's code. */
+  flag: z.enum(["flagged", "unflagged", ...QUALITY_FLAG_CODES], { error: `flag is one of flagged, unflagged, ${QUALITY_FLAG_CODES.join(", ")}` }).optional(),
 });
 export type SpectraQuery = z.infer<typeof spectraQuery>;
 

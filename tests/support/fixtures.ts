@@ -63,3 +63,15 @@ export async function rejection(p: Promise<unknown>): Promise<{ code?: string; s
   }
   throw new Error("expected the operation to be refused, but it succeeded");
 }
+
+/**
+ * A copy of a spectrum with a single-point spike of +3 (about half a synthetic spectrum's maximum)
+ * added at the bias closest to 0 V: the glitch the picker removes and flags (lib/spectra/edges).
+ */
+export function withSpikeAtZero<T extends { bias_V: Float64Array; didv: Float64Array }>(s: T): T {
+  const didv = Float64Array.from(s.didv);
+  let k = 0;
+  for (let j = 0; j < s.bias_V.length; j++) if (Math.abs(s.bias_V[j]) < Math.abs(s.bias_V[k])) k = j;
+  didv[k] += 3;
+  return { ...s, didv };
+}

@@ -22,7 +22,10 @@ export function fieldFor(model: FieldModel, meta: Pick<SpectrumMeta, "setpoint_b
   }
 }
 
-/** The stored columns of an automatic pick (the full pick, minus its arrays, is kept as `auto_pick`). */
+/**
+ * The stored columns of an automatic pick (the full pick, minus its arrays, is kept as `auto_pick`),
+ * its quality flags in a column of their own so that tables and the fit can filter on them.
+ */
 export function pickColumns(pick: GapPick, settingsVersionId: string) {
   const { smoothed: _arrays, ...rest } = pick;
   return {
@@ -37,6 +40,7 @@ export function pickColumns(pick: GapPick, settingsVersionId: string) {
     resolutionMev: pick.resolution_meV,
     method: pick.method,
     settingsVersionId,
+    flags: pick.flags,
     autoPick: rest as unknown as Record<string, unknown>,
   };
 }

@@ -12,8 +12,8 @@ const CHUNK = 250;
 /**
  * Re-runs a sample's analysis with its current versions: every spectrum's distance and field with
  * the current field model, and every automatic pick with the current extraction settings. Picks an
- * analyst corrected by hand keep their edges (their stored automatic pick is refreshed beside
- * them). Progress is written to analysis_runs as it goes, in chunks, each its own transaction.
+ * analyst corrected by hand keep their edges (their stored automatic pick and its quality flags,
+ * which describe the data, are refreshed beside them). Progress is written to analysis_runs as it goes, in chunks, each its own transaction.
  */
 export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; runIds?: string[] }): Promise<RefitResult | "superseded"> {
   const analysis = await loadSampleAnalysis(db, input.sampleId);
@@ -51,7 +51,7 @@ export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; run
         if (source === "auto") {
           await tx.update(gapPicks).set({ ...cols, version: sql`${gapPicks.version} + 1`, updatedAt: new Date() }).where(eq(gapPicks.id, pickId));
         } else {
-          await tx.update(gapPicks).set({ autoPick: cols.autoPick, updatedAt: new Date() }).where(eq(gapPicks.id, pickId));
+          await tx.update(gapPicks).set({ autoPick: cols.autoPick, flags: cols.flags, updatedAt: new Date() }).where(eq(gapPicks.id, pickId));
         }
       }
     });

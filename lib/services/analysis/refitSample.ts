@@ -1,7 +1,7 @@
 import "server-only";
-import { and, eq, isNotNull, sql } from "drizzle-orm";
+import { and, eq, inArray, isNotNull, or, sql, type SQL } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
-import { crossings, gapPicks, spectra, type Crossing } from "@/db/schema";
+import { analysisRuns, crossings, gapPicks, spectra, type Crossing, type FlaggedInFit } from "@/db/schema";
 import { fitSweep, type CrossingFit } from "@/lib/spectra";
 import { afterRefit } from "../alerts/afterRefit";
 import { currentCrossing } from "../alerts/recordEvent";
@@ -17,6 +17,8 @@ export interface RefitResult {
 /**
  * Refits a sample's gap versus field over its included spectra and stores the result as its
  * current crossing, then decides the crossing alerts for it (lib/services/alerts/afterRefit.ts).
+ * Spectra whose automatic pick carries a quality flag enter unless the lab's setting says
+ * `exclude` (`flaggedOutOfFit`); corrected picks always enter, an analyst has looked at them.
  */
 export async function refitSample(db: DbOrTx, sampleId: string): Promise<RefitResult> {
   const result = await db.transaction(async (tx) => {
@@ -30,13 +32,27 @@ export async function refitSample(db: DbOrTx, sampleId: string): Promise<RefitRe
   return result;
 }
 
+/**
+ * A queued refit (refit-sample job) with its progress run: running, then done with the sample's
+ * spectrum count. A re-analysis that took the run over meanwhile (it covers every open run of
+ * the sample, and ends in a refit itself) has marked it done already; that is left as it is.
+ */
+export async function runRefit(db: DbOrTx, job: { sampleId: string; runId: string }): Promise<RefitResult> {
+  const open = and(eq(analysisRuns.id, job.runId), inArray(analysisRuns.status, ["queued", "running"]));
+  const [{ n }] = await db.select({ n: sql<number>`count(*)::int` }).from(spectra).where(eq(spectra.sampleId, job.sampleId));
+  await db.update(analysisRuns).set({ status: "running", total: n, done: 0, updatedAt: new Date() }).where(open);
+  const result = await refitSample(db, job.sampleId);
+  await db.update(analysisRuns).set({ status: "done", done: n, updatedAt: new Date() }).where(open);
+  return result;
+}
+
 async function fitAndStore(db: DbOrTx, sampleId: string): Promise<RefitResult> {
   const analysis = await loadSampleAnalysis(db, sampleId);
   const rows = await db
     .select({ field: spectra.fieldVPerNm, fieldSigma: spectra.fieldSigmaVPerNm, gap: gapPicks.gapEv, gapSigma: gapPicks.uncertaintyEv })
     .from(spectra)
     .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
-    .where(and(eq(spectra.sampleId, sampleId), eq(gapPicks.excluded, false), eq(gapPicks.status, "ok"), isNotNull(spectra.fieldVPerNm), isNotNull(gapPicks.gapEv)));
+    .where(and(eq(spectra.sampleId, sampleId), eq(gapPicks.excluded, false), eq(gapPicks.status, "ok"), isNotNull(spectra.fieldVPerNm), isNotNull(gapPicks.gapEv), inFitByFlags(analysis.lab.flaggedInFit)));
   const fit = fitSweep(rows.map((r) => ({ field_V_per_nm: r.field!, fieldSigma_V_per_nm: r.fieldSigma, gap_eV: r.gap!, gapSigma_eV: r.gapSigma })));
   const previous = await currentCrossing(db, sampleId);
   const ci = fit.ci95Total_V_per_nm ?? fit.ci95_V_per_nm;
@@ -81,6 +97,16 @@ async function fitAndStore(db: DbOrTx, sampleId: string): Promise<RefitResult> {
     })
     .returning();
   return { previous: previous ?? null, current, fit };
+}
+
+/** The picks a lab's flagged-spectra setting lets into the fit: all, or the unflagged and the corrected. */
+export function inFitByFlags(setting: FlaggedInFit): SQL | undefined {
+  return setting === "exclude" ? or(eq(gapPicks.source, "corrected"), sql`jsonb_array_length(${gapPicks.flags}) = 0`) : undefined;
+}
+
+/** Whether a pick is left out of the fit by the lab's flagged-spectra setting alone (not excluded by hand). */
+export function flaggedOutOfFit(setting: FlaggedInFit, p: { source: "auto" | "corrected"; excluded: boolean; flags: readonly unknown[] }): boolean {
+  return setting === "exclude" && p.source === "auto" && !p.excluded && p.flags.length > 0;
 }
 
 function sameCrossing(prev: Crossing, fit: CrossingFit): boolean {

@@ -2,7 +2,7 @@ import "server-only";
 import { and, desc, eq, sql } from "drizzle-orm";
 import { analysisRuns, extractionSettingsVersions, fieldModelVersions } from "@/db/schema";
 import { assertCan } from "@/lib/auth/permissions";
-import { enqueueReanalyzeSample } from "@/lib/jobs/queue";
+import { enqueueReanalyzeSample, enqueueRefitSample } from "@/lib/jobs/queue";
 import { fieldModelInput } from "@/lib/schemas/uploads";
 import { extractionSettingsSchema, resolveExtractionSettings } from "@/lib/spectra";
 import { recordAudit } from "../audit";
@@ -15,6 +15,13 @@ import { getSample } from "../samples/getSample";
 export async function queueReanalysis(ctx: Ctx, sampleId: string, reason: string) {
   const [run] = await ctx.db.insert(analysisRuns).values({ labId: ctx.actor.labId, sampleId, reason, createdBy: ctx.actor.userId }).returning();
   await enqueueReanalyzeSample({ sampleId, labId: ctx.actor.labId, reason });
+  return run;
+}
+
+/** Queues a background refit of a sample from its stored picks, with a run to show its progress. */
+export async function queueRefit(ctx: Ctx, sampleId: string, reason: string) {
+  const [run] = await ctx.db.insert(analysisRuns).values({ labId: ctx.actor.labId, sampleId, reason, createdBy: ctx.actor.userId }).returning();
+  await enqueueRefitSample({ sampleId, labId: ctx.actor.labId, runId: run.id, reason });
   return run;
 }
 

@@ -6,11 +6,21 @@ import { fieldAssumptions, type ExtractionSettings } from "@/lib/spectra";
 import { loadSampleAnalysis } from "../analysis/sampleModel";
 import type { Ctx } from "../context";
 import { getSample } from "../samples/getSample";
-import { getPhase } from "../spectra/readSpectra";
+import { flaggedOutOfFit } from "../analysis/refitSample";
+import { getPhase, labFlaggedInFit } from "../spectra/readSpectra";
 import { fileStem } from "@/lib/format";
 import { csv } from "./csv";
 
-/** Every point of the phase plot with what made it: field model and settings versions, raw-file hash. */
+/** Quality-flag codes of a pick for one CSV cell, `;`-separated; empty when none. */
+export function flagCodes(flags: readonly { code: string }[] | null | undefined): string {
+  return (flags ?? []).map((f) => f.code).join(";");
+}
+
+/**
+ * Every point of the phase plot with what made it: field model and settings versions, raw-file
+ * hash, and the pick's quality flags (codes, their messages, and whether the lab's setting left
+ * the spectrum out of the fit for them).
+ */
 export async function phaseCsv({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }) {
   assertCan(ctx.actor, "lab:read");
   const sample = await getSample({ ctx, input: { id: input.sampleId } });
@@ -29,13 +39,16 @@ export async function phaseCsv({ ctx, input }: { ctx: Ctx; input: { sampleId: st
     "distance_nm", "distance_sigma_nm", "field_V_per_nm", "field_sigma_V_per_nm",
     "pick_status", "vb_edge_V", "cb_edge_V", "gap_eV", "gap_sigma_eV", "closed_within_resolution", "resolution_meV",
     "pick_source", "pick_method", "excluded", "excluded_reason", "extraction_settings_version", "field_model_version",
+    "flags", "flag_messages", "excluded_by_flag",
   ];
+  const setting = await labFlaggedInFit(ctx);
   const body = rows.map(({ s, p, sv, fv, tip }) => [
     s.id, s.sourceName, s.indexInFile, s.label, s.rawSha256, s.region, tip,
     s.setpointBiasV, s.setpointCurrentA, s.zOffsetPm, s.temperatureK, s.lockinModulationMvRms,
     s.distanceNm, s.distanceSigmaNm, s.fieldVPerNm, s.fieldSigmaVPerNm,
     p?.status, p?.vbEdgeV, p?.cbEdgeV, p?.gapEv, p?.uncertaintyEv, p?.closed, p?.resolutionMev,
     p?.source, p?.method, p?.excluded, p?.excludedReason, sv, fv,
+    flagCodes(p?.flags), p?.flags.map((f) => f.message).join("; "), p ? flaggedOutOfFit(setting, p) : null,
   ]);
   return { fileName: `${fileStem(sample.name)}-phase.csv`, text: csv(header, body) };
 }
@@ -93,9 +106,16 @@ export async function methodsText({ ctx, input }: { ctx: Ctx; input: { sampleId:
   const model = a.modelFor(null);
   const s = a.settings;
   const c = phase.crossing;
-  const n = phase.points.filter((p) => !p.excluded).length;
+  const n = phase.points.filter((p) => !p.excluded && !p.excludedByFlag).length;
   const corrected = phase.points.filter((p) => p.source === "corrected").length;
   const excluded = phase.points.filter((p) => p.excluded).length;
+  const flagged = phase.points.filter((p) => p.flags.length > 0).length;
+  const flaggedOut = phase.points.filter((p) => p.excludedByFlag).length;
+  const flagWords = !flagged
+    ? ""
+    : flaggedOut
+      ? ` ${flagged} automatic pick${flagged > 1 ? "s" : ""} carried a quality flag (a reason the pick may not be trusted); ${flaggedOut} of them, not corrected by hand, ${flaggedOut > 1 ? "were" : "was"} left out of the fit.`
+      : ` ${flagged} pick${flagged > 1 ? "s" : ""} carried a quality flag (a reason the pick may not be trusted) and ${flagged > 1 ? "were" : "was"} kept in the fit.`;
   const result =
     c.state === "crossed" && c.field_V_per_nm != null
       ? `The gap closes and reopens at an estimated critical field of ${c.field_V_per_nm.toFixed(3)} V/nm${c.ci95_V_per_nm ? ` (95% interval ${c.ci95_V_per_nm[0].toFixed(3)}–${c.ci95_V_per_nm[1].toFixed(3)} V/nm, including the work-function and contact-distance uncertainties)` : ""}, from a V-shaped fit of gap versus field weighted by both error bars and preferred over a monotonic line by the Bayesian information criterion.`
@@ -103,7 +123,7 @@ export async function methodsText({ ctx, input }: { ctx: Ctx; input: { sampleId:
         ? "The gap decreases with field but does not reopen within the measured range; no critical field is claimed."
         : "No field dependence of the gap could be established.";
   const text = [
-    `Band edges were extracted from ${n} dI/dV spectra of ${phase.sample.name} (${corrected} corrected by hand, ${excluded} excluded with a recorded reason) with Bandcross extraction settings version ${a.settingsVersion.version}.`,
+    `Band edges were extracted from ${n} dI/dV spectra of ${phase.sample.name} (${corrected} corrected by hand, ${excluded} excluded with a recorded reason) with Bandcross extraction settings version ${a.settingsVersion.version}.${flagWords}`,
     `Each spectrum was smoothed with ${smoothingWords(s)}. The in-gap baseline was a robust polynomial (degree up to ${s.baseline.maxDegree}, chosen by a penalised χ²) fitted to the gap between the edges, iterated with them, and the noise was estimated from the median absolute deviation of the residuals about it (σ ≈ 1.4826 MAD), with their autocorrelation taken into account; a band edge was placed where the smoothed signal exceeded the baseline by ${s.threshold.k}σ for at least ${s.threshold.consecutive} consecutive points in a rise sustained over ${s.threshold.sustain_mV} mV, interpolated between samples${s.fit.enabled ? ", and then refined by fitting an onset model convolved with the thermal (−∂f/∂E, FWHM 3.5 k_BT) and first-harmonic lock-in kernels, so that the reported edges are unbroadened" : ""}. A spectrum was reported as closed within resolution only where it was one V-shaped minimum without a flat floor and its gap was below the combined energy resolution √((3.5 k_BT)² + (2.45 V_rms)²) or consistent with zero. Edge uncertainties combine the fit's, inflated for correlated noise, with the profile of each edge's fit, and picks whose edges the data do not fix are marked with a quality flag.`,
     `Tip–sample distances were estimated as d = d_c + ln(G₀/G_set)/(2κ) + Δz with G₀ = 2e²/h, G_set = |I_set/V_set| and κ = √(2m_eφ)/ħ (field model version ${a.fieldVersion.version}: ${model.barrierHeight_eV == null ? "φ the mean of the tip and sample work functions" : `φ = ${model.barrierHeight_eV} eV, a measured apparent barrier height`}, d_c = ${model.contactDistance_nm} ± ${model.contactDistanceSigma_nm} nm), and the junction field as E = (Φ_tip − Φ_sample)/(e·d)${model.screening !== 1 ? `, divided by a screening factor of ${model.screening}` : ""}, with the sample work function ${model.sampleWorkFunction_eV} ± ${model.sampleWorkFunctionSigma_eV} eV and each session's tip work function. Field uncertainties were propagated from the work-function and contact-distance uncertainties. The field is a model estimate: ${fieldAssumptions(model).slice(0, 3).join("; ")}.`,
     result,

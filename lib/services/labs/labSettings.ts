@@ -1,8 +1,9 @@
 import "server-only";
 import { eq } from "drizzle-orm";
-import { labs } from "@/db/schema";
+import { labs, samples } from "@/db/schema";
 import { assertCan } from "@/lib/auth/permissions";
-import { labDefaultsInput } from "@/lib/schemas/lab";
+import { flaggedInFitInput, labDefaultsInput } from "@/lib/schemas/lab";
+import { queueRefit } from "../analysis/versions";
 import { recordAudit } from "../audit";
 import type { Ctx } from "../context";
 import { parseInput } from "../parse";
@@ -28,4 +29,23 @@ export async function updateLabDefaults({ ctx, input }: { ctx: Ctx; input: unkno
     .returning();
   await recordAudit(ctx, "lab.defaults", { type: "lab", id: row.id }, d);
   return row;
+}
+
+/**
+ * Whether spectra whose automatic pick carries a quality flag enter the critical-field fit
+ * (`include`, the default: they enter, marked on the plot) or not (`exclude`; corrected picks
+ * enter either way). A change refits every sample of the lab in the background.
+ */
+export async function setFlaggedInFit({ ctx, input }: { ctx: Ctx; input: unknown }) {
+  assertCan(ctx.actor, "lab:configure");
+  const { flaggedInFit } = parseInput(flaggedInFitInput, input);
+  const [before] = await ctx.db.select({ v: labs.flaggedInFit }).from(labs).where(eq(labs.id, ctx.actor.labId));
+  if (before?.v === flaggedInFit) return { flaggedInFit, changed: false, runIds: [] as string[] };
+  await ctx.db.update(labs).set({ flaggedInFit }).where(eq(labs.id, ctx.actor.labId));
+  await recordAudit(ctx, "lab.flagged-in-fit", { type: "lab", id: ctx.actor.labId }, { from: before?.v, to: flaggedInFit });
+  const reason = flaggedInFit === "exclude" ? "lab setting: flagged spectra left out of the fit" : "lab setting: flagged spectra in the fit";
+  const ids = await ctx.db.select({ id: samples.id }).from(samples).where(eq(samples.labId, ctx.actor.labId));
+  const runIds: string[] = [];
+  for (const s of ids) runIds.push((await queueRefit(ctx, s.id, reason)).id);
+  return { flaggedInFit, changed: true, runIds };
 }

@@ -12,7 +12,8 @@ import { getPhase } from "./readSpectra";
  * each other. Every request still checks the actor's access to the sample (getSample), then asks
  * the database for a fingerprint of everything the answer is made of: the spectra and picks of the
  * sample (count, newest update, sum of pick versions), its latest crossing (id, status,
- * confirmation) and the sample's name. Every write path sets `updated_at` (tagging, corrections,
+ * confirmation), the sample's name and the lab's setting for flagged spectra in the fit (which
+ * marks points left out by it). Every write path sets `updated_at` (tagging, corrections,
  * exclusions, re-analysis, new uploads) and every refit adds a crossing row, so a change gives a
  * new fingerprint and the next request rebuilds. The fingerprint is read before the answer is
  * built, so a cached answer is never older than its fingerprint.
@@ -33,9 +34,10 @@ async function fingerprint(ctx: Ctx, sampleId: string, sampleName: string): Prom
         where s.sample_id = ${sampleId}) as pts,
       (select concat_ws('/', c.id, c.status, c.confirmed_at)
          from crossings c where c.sample_id = ${sampleId} and c.region is null
-        order by c.created_at desc limit 1) as cr`);
-  const row = r.rows[0] as { pts: string | null; cr: string | null } | undefined;
-  return `${row?.pts ?? ""}|${row?.cr ?? ""}|${sampleName}`;
+        order by c.created_at desc limit 1) as cr,
+      (select l.flagged_in_fit from labs l where l.id = ${ctx.actor.labId}) as fl`);
+  const row = r.rows[0] as { pts: string | null; cr: string | null; fl: string | null } | undefined;
+  return `${row?.pts ?? ""}|${row?.cr ?? ""}|${row?.fl ?? ""}|${sampleName}`;
 }
 
 async function entryFor(ctx: Ctx, sampleId: string): Promise<Entry> {

@@ -1,9 +1,10 @@
 import "server-only";
 import { and, asc, desc, eq, ilike, isNull, or, sql, type SQL } from "drizzle-orm";
-import { crossings, extractionSettingsVersions, fieldModelVersions, gapPicks, measurementSessions, samples, spectra, tips, uploads } from "@/db/schema";
+import { crossings, extractionSettingsVersions, fieldModelVersions, gapPicks, labs, measurementSessions, samples, spectra, tips, uploads, type FlaggedInFit } from "@/db/schema";
 import { assertCan } from "@/lib/auth/permissions";
-import { pickGap, resolveExtractionSettings } from "@/lib/spectra";
+import { pickGap, resolveExtractionSettings, type QualityFlag } from "@/lib/spectra";
 import { metaOfRow } from "../analysis/analyzeSpectrum";
+import { flaggedOutOfFit } from "../analysis/refitSample";
 import type { SpectraQuery } from "@/lib/schemas/uploads";
 import type { Ctx } from "../context";
 import { notFound } from "../errors";
@@ -16,8 +17,9 @@ export async function getSpectrum({ ctx, input }: { ctx: Ctx; input: { id: strin
   if (!isUuid(input.id)) throw notFound("spectrum");
   const visible = await sampleVisibility(ctx);
   const [row] = await ctx.db
-    .select({ s: spectra, p: gapPicks, upload: { id: uploads.id, fileName: uploads.fileName }, sampleName: samples.name, sv: { id: extractionSettingsVersions.id, version: extractionSettingsVersions.version }, fv: { id: fieldModelVersions.id, version: fieldModelVersions.version }, tipLabel: tips.label })
+    .select({ s: spectra, p: gapPicks, upload: { id: uploads.id, fileName: uploads.fileName }, sampleName: samples.name, sv: { id: extractionSettingsVersions.id, version: extractionSettingsVersions.version }, fv: { id: fieldModelVersions.id, version: fieldModelVersions.version }, tipLabel: tips.label, flaggedInFit: labs.flaggedInFit })
     .from(spectra)
+    .innerJoin(labs, eq(labs.id, spectra.labId))
     .innerJoin(samples, eq(samples.id, spectra.sampleId))
     .innerJoin(uploads, eq(uploads.id, spectra.uploadId))
     .leftJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
@@ -68,6 +70,10 @@ export async function getSpectrum({ ctx, input }: { ctx: Ctx; input: { id: strin
           method: p.method,
           excluded: p.excluded,
           excludedReason: p.excludedReason,
+          /** Quality flags of the automatic pick (kept through a correction: they describe the data). */
+          flags: p.flags,
+          /** Left out of the crossing fit by the lab's flagged-spectra setting (not excluded by hand). */
+          excludedByFlag: flaggedOutOfFit(row.flaggedInFit, p),
           auto: p.autoPick,
           updatedAt: p.updatedAt.toISOString(),
         }
@@ -107,18 +113,30 @@ async function analysisOf(ctx: Ctx, s: typeof spectra.$inferSelect, settingsVers
   };
 }
 
-/** Position of a spectrum in its sample's review order (by field, then file), with its neighbours. */
+/**
+ * Position of a spectrum in its sample's review order (by field, then file), with its neighbours,
+ * and the next spectrum in that order whose pick carries a quality flag (from the start again
+ * after the last; null when no other is flagged), with how many are flagged.
+ */
 async function neighboursOf(ctx: Ctx, sampleId: string, id: string) {
   const rows = await ctx.db.execute(sql`
     with ordered as (
-      select id, row_number() over (order by field_v_per_nm asc nulls last, source_name, index_in_file) as pos,
-        lag(id) over (order by field_v_per_nm asc nulls last, source_name, index_in_file) as prev,
-        lead(id) over (order by field_v_per_nm asc nulls last, source_name, index_in_file) as next,
-        count(*) over () as total
-      from spectra where sample_id = ${sampleId} and lab_id = ${ctx.actor.labId}
-    ) select pos, prev, next, total from ordered where id = ${id}`);
-  const r = rows.rows[0] as { pos: string; prev: string | null; next: string | null; total: string } | undefined;
-  return r ? { position: Number(r.pos), total: Number(r.total), prev: r.prev, next: r.next } : { position: 1, total: 1, prev: null, next: null };
+      select s.id, row_number() over (order by s.field_v_per_nm asc nulls last, s.source_name, s.index_in_file) as pos,
+        lag(s.id) over (order by s.field_v_per_nm asc nulls last, s.source_name, s.index_in_file) as prev,
+        lead(s.id) over (order by s.field_v_per_nm asc nulls last, s.source_name, s.index_in_file) as next,
+        count(*) over () as total,
+        coalesce(jsonb_array_length(p.flags), 0) > 0 as flagged
+      from spectra s left join gap_picks p on p.spectrum_id = s.id
+      where s.sample_id = ${sampleId} and s.lab_id = ${ctx.actor.labId}
+    ), me as (select pos, prev, next, total from ordered where id = ${id})
+    select me.pos, me.prev, me.next, me.total,
+      (select o.id from ordered o where o.flagged and o.id <> ${id} order by (o.pos <= me.pos), o.pos limit 1) as next_flagged,
+      (select count(*) from ordered o where o.flagged) as flagged
+    from me`);
+  const r = rows.rows[0] as { pos: string; prev: string | null; next: string | null; total: string; next_flagged: string | null; flagged: string } | undefined;
+  return r
+    ? { position: Number(r.pos), total: Number(r.total), prev: r.prev, next: r.next, nextFlagged: r.next_flagged, flagged: Number(r.flagged) }
+    : { position: 1, total: 1, prev: null, next: null, nextFlagged: null, flagged: 0 };
 }
 
 export interface PhasePoint {
@@ -133,6 +151,10 @@ export interface PhasePoint {
   source: "auto" | "corrected";
   excluded: boolean;
   region: string | null;
+  /** Quality flags of the automatic pick; empty when nothing is in doubt. */
+  flags: QualityFlag[];
+  /** Left out of the crossing fit by the lab's flagged-spectra setting (`excluded` is by hand). */
+  excludedByFlag: boolean;
 }
 
 /** The phase plot's data: every spectrum with a gap and a field, and the sample's current crossing. */
@@ -152,11 +174,13 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
       source: gapPicks.source,
       excluded: gapPicks.excluded,
       region: spectra.region,
+      flags: gapPicks.flags,
     })
     .from(spectra)
     .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
     .where(and(eq(spectra.sampleId, sample.id), eq(gapPicks.status, "ok"), sql`${spectra.fieldVPerNm} is not null`, sql`${gapPicks.gapEv} is not null`))
     .orderBy(asc(spectra.fieldVPerNm));
+  const setting = await labFlaggedInFit(ctx);
   // Plot precision unless `precise` (the exports and the spectrum endpoint keep every digit): fields to 6
   // significant digits, gaps to 0.1 µeV — far below any uncertainty here, and a third less to send.
   const sig = input.precise ? (x: number) => x : sigDigits;
@@ -173,6 +197,8 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
     source: r.source,
     excluded: r.excluded,
     region: r.region,
+    flags: r.flags,
+    excludedByFlag: flaggedOutOfFit(setting, r),
   }));
   const [c] = await ctx.db
     .select()
@@ -206,6 +232,12 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
   };
 }
 
+/** The actor's lab's setting for flagged spectra in the critical-field fit. */
+export async function labFlaggedInFit(ctx: Ctx): Promise<FlaggedInFit> {
+  const [lab] = await ctx.db.select({ v: labs.flaggedInFit }).from(labs).where(eq(labs.id, ctx.actor.labId));
+  return lab?.v ?? "include";
+}
+
 const SORT_COLS = {
   index: [spectra.sourceName, spectra.indexInFile],
   file: [spectra.sourceName],
@@ -227,9 +259,10 @@ export async function listSessionSpectra({ ctx, input }: { ctx: Ctx; input: { se
   const filters: (SQL | undefined)[] = [eq(spectra.sessionId, session.id)];
   if (q.q) filters.push(or(ilike(spectra.sourceName, `%${q.q}%`), ilike(spectra.label, `%${q.q}%`), ilike(spectra.region, `%${q.q}%`)));
   if (q.region) filters.push(q.region === "(none)" ? isNull(spectra.region) : eq(spectra.region, q.region));
+  if (q.flag) filters.push(flagFilter(q.flag));
   const where = and(...filters);
   const order = SORT_COLS[q.sort].map((c) => (q.dir === "desc" ? sql`${c} desc nulls last` : sql`${c} asc nulls last`));
-  const [{ total }] = await ctx.db.select({ total: sql<number>`count(*)::int` }).from(spectra).where(where);
+  const [{ total }] = await ctx.db.select({ total: sql<number>`count(*)::int` }).from(spectra).leftJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id)).where(where);
   const rows = await ctx.db
     .select({
       id: spectra.id,
@@ -248,6 +281,7 @@ export async function listSessionSpectra({ ctx, input }: { ctx: Ctx; input: { se
       pickStatus: gapPicks.status,
       source: gapPicks.source,
       excluded: gapPicks.excluded,
+      flags: gapPicks.flags,
     })
     .from(spectra)
     .leftJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
@@ -259,6 +293,12 @@ export async function listSessionSpectra({ ctx, input }: { ctx: Ctx; input: { se
   return { total, page: q.page, pageSize: q.pageSize, rows, regions: regions.map((r) => r.region).filter((r): r is string => r != null).sort() };
 }
 
+/** The table's flag filter: any flag, none (spectra without a pick too), or one flag's code. */
+function flagFilter(flag: NonNullable<SpectraQuery["flag"]>): SQL {
+  if (flag === "flagged") return sql`jsonb_array_length(${gapPicks.flags}) > 0`;
+  if (flag === "unflagged") return sql`coalesce(jsonb_array_length(${gapPicks.flags}), 0) = 0`;
+  return sql`${gapPicks.flags} @> ${JSON.stringify([{ code: flag }])}::jsonb`;
+}
 
 /** x to n significant digits. */
 function sigDigits(x: number, n: number): number {

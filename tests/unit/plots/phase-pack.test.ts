@@ -15,6 +15,9 @@ function phase(n: number): PhaseData {
     source: i % 5 === 0 ? "corrected" : "auto",
     excluded: i % 23 === 0,
     region: i % 3 === 0 ? null : i % 3 === 1 ? "terrace A" : "step edge",
+    // A few flagged picks, each with a message of its own; most carry none.
+    flags: i % 29 === 0 ? [{ code: "glitch", message: `1 single-point spike replaced before picking, at ${i} mV`, at_V: [i / 1000] }] : [],
+    excludedByFlag: i % 58 === 0,
   }));
   return { sample: { id: "s1", name: "GX-12 bilayer" }, points, crossing: { state: "none" } } as unknown as PhaseData;
 }
@@ -26,6 +29,14 @@ describe("packPhase / unpackPhase", () => {
       const back = unpackPhase(JSON.parse(JSON.stringify(packPhase(d))));
       expect(back).toEqual(d);
     }
+  });
+
+  it("gives the many empty flag lists once, as one dictionary entry", () => {
+    const packed = packPhase(phase(70));
+    const flags = packed.columns.flags as { dict: unknown[]; index: number[] };
+    // Points 0, 29 and 58 are flagged (three messages), the other 67 share one `[]`.
+    expect(flags.dict).toHaveLength(4);
+    expect(flags.index.filter((i) => i === flags.index[1])).toHaveLength(67);
   });
 
   it("sends a 5,000-point sample in well under half the JSON of the objects", () => {

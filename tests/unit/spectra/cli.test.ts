@@ -55,6 +55,10 @@ beforeAll(async () => {
   raggedLines[29] += ",7"; // line 30 of the file
   writeFileSync(f("ragged.csv"), raggedLines.join("\n"));
   writeFileSync(f("blob.bin"), new Uint8Array([0, 1, 2, 3, 0, 0, 0xff, 0x10, 0, 0]));
+  // A single-point spike of +3 (about half the spectrum's maximum) at 0 V: a glitch the picker flags.
+  const spiked = { ...good, didv: Float64Array.from(good.didv) };
+  spiked.didv[good.bias_V.reduce((k, v, j) => (Math.abs(v) < Math.abs(good.bias_V[k]) ? j : k), 0)] += 3;
+  writeFileSync(f("glitch.csv"), toCsv(spiked));
   writeFileSync(f("run.zip"), zipSync({ "a.csv": new TextEncoder().encode(toCsv(good)), "../escape.csv": new TextEncoder().encode(toCsv(good)) }));
   const sw = makeSweep({ seed: 31, n: 16, criticalField_V_per_nm: truthEc, slopeRatio: 0.9 });
   const sweepFiles = sw.spectra.map((s, k) => {
@@ -83,6 +87,7 @@ beforeAll(async () => {
     ["unknown", ["analyze", f("good.csv"), "--frobnicate"]],
     ["folder", ["analyze", f("folder"), "--settings", f("threshold.json"), "--json"]],
     ["badSettings", ["analyze", f("good.csv"), "--settings", f("broken.json")]],
+    ["flags", ["analyze", f("glitch.csv"), f("ragged.csv"), "--json"]],
   ];
   const results = await Promise.all(jobs.map(([, a]) => cli(a)));
   jobs.forEach(([k], i) => (runs[k] = results[i]));
@@ -123,6 +128,13 @@ describe("bandcross analyze", () => {
     expect(r.code).toBe(0);
     expect(r.stdout.split("\n")[0]).toMatch(/^file\s+#\s+status\s+VB edge \(mV\)\s+CB edge \(mV\)\s+gap \(meV\)/);
     expect(r.stdout).toMatch(/good\.csv\s+0\s+ok\s+-12\d\.\d\s+1[78]\d\.\d\s+30\d\.\d ± \d+\.\d/);
+  });
+  it("gives each pick its quality flags (a rejected file has no pick)", () => {
+    const out = JSON.parse(runs.flags.stdout);
+    const [glitch, ragged] = out.spectra;
+    expect(glitch.gap.flags.map((f: { code: string }) => f.code)).toContain("glitch");
+    expect(glitch.gap.flags.find((f: { code: string }) => f.code === "glitch").message).toMatch(/at 0 mV/);
+    expect(ragged).toMatchObject({ status: "error", gap: null });
   });
   it("an unknown option is a usage error with a message, exit 2, no stack trace", () => {
     expect(runs.unknown.code).toBe(2);

@@ -4,7 +4,7 @@ import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import type { ActionState } from "@/lib/actions/types";
 import { runAction } from "@/lib/actions/validated";
-import { updateLabDefaults } from "@/lib/services/labs/labSettings";
+import { setFlaggedInFit, updateLabDefaults } from "@/lib/services/labs/labSettings";
 import { changeRole, inviteMember, removeMember, revokeInvitation } from "@/lib/services/members/members";
 import { setSampleAccess } from "@/lib/services/members/sampleAccess";
 import { createSample } from "@/lib/services/samples/createSample";
@@ -122,6 +122,14 @@ export async function revokeTokenAction(lab: string, tokenId: string, _s: Action
 export async function updateLabDefaultsAction(lab: string, _s: ActionState, fd: FormData): Promise<ActionState> {
   const state = await runAction(lab, fd, async (ctx) => {
     await updateLabDefaults({ ctx, input: form(fd) });
+  });
+  revalidatePath(`/labs/${lab}`, "layout");
+  return state;
+}
+
+export async function setFlaggedInFitAction(lab: string, _s: ActionState, fd: FormData): Promise<ActionState> {
+  const state = await runAction(lab, fd, async (ctx) => {
+    await setFlaggedInFit({ ctx, input: form(fd) });
   });
   revalidatePath(`/labs/${lab}`, "layout");
   return state;

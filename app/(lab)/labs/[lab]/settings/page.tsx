@@ -9,7 +9,7 @@ import { listMembers } from "@/lib/services/members/members";
 import { listSampleAccess } from "@/lib/services/members/sampleAccess";
 import { listSamples } from "@/lib/services/samples/listSamples";
 import { listTokens } from "@/lib/services/tokens/tokens";
-import { inviteAction, updateLabDefaultsAction } from "../actions";
+import { inviteAction, setFlaggedInFitAction, updateLabDefaultsAction } from "../actions";
 import { MembersPanel, TokensPanel } from "./panels";
 
 export const metadata: Metadata = { title: "Lab settings" };
@@ -22,7 +22,7 @@ export default async function SettingsPage({ params }: { params: Promise<{ lab: 
   const roleOptions = ROLES.map((r) => ({ value: r, label: ROLE_LABEL[r] }));
   return (
     <>
-      <PageHeader eyebrow={ctx.actor.labName} title="Lab settings" description="Members and their roles, API tokens for the acquisition PC, and the lab's default work functions." />
+      <PageHeader eyebrow={ctx.actor.labName} title="Lab settings" description="Members and their roles, API tokens for the acquisition PC, the lab's default work functions, and how flagged spectra enter the fit." />
       <div className="space-y-6">
         <Card title="Members">
           <MembersPanel
@@ -70,6 +70,32 @@ export default async function SettingsPage({ params }: { params: Promise<{ lab: 
               { name: "defaultTipWorkFunctionSigma_eV", label: "Its uncertainty (1σ)", unit: "eV", type: "number", defaultValue: String(labRow.defaultTipWorkFunctionSigmaEv) },
               { name: "defaultSampleWorkFunction_eV", label: "Sample work function", unit: "eV", type: "number", defaultValue: String(labRow.defaultSampleWorkFunctionEv) },
               { name: "defaultSampleWorkFunctionSigma_eV", label: "Its uncertainty (1σ)", unit: "eV", type: "number", defaultValue: String(labRow.defaultSampleWorkFunctionSigmaEv) },
+            ]}
+          />
+        </Card>
+        <Card title="Flagged spectra in the critical-field fit">
+          <p className="mb-4 text-sm text-ink-soft">
+            A quality flag says why an automatic pick may not be trusted (a glitch removed, a sloped background, a noisy onset…). Flagged spectra can enter the fit, marked on
+            the phase plot, or be left out of it. Picks an analyst corrected always enter. Changing this refits every sample of the lab in the background.
+          </p>
+          <EntityForm
+            action={setFlaggedInFitAction.bind(null, lab)}
+            schema="flaggedInFit"
+            submitLabel="Save"
+            testId="flagged-in-fit-form"
+            onSuccessMessage="Saved. Every sample is being refitted in the background."
+            fields={[
+              {
+                name: "flaggedInFit",
+                label: "Flagged spectra",
+                type: "select",
+                defaultValue: labRow.flaggedInFit,
+                options: [
+                  { value: "include", label: "Include them in the fit (marked on the plot)" },
+                  { value: "exclude", label: "Leave them out of the fit (unless corrected)" },
+                ],
+                wide: true,
+              },
             ]}
           />
         </Card>

@@ -34,7 +34,8 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
     tipsOfSample({ ctx, input: { sampleId: s.id } }),
   ]);
   const model = analysis.modelFor(usedTips[0] ?? null);
-  const included = phase.points.filter((p) => !p.excluded).length;
+  // In the fit: neither excluded by hand nor left out for its flags by the lab's setting.
+  const included = phase.points.filter((p) => !p.excluded && !p.excludedByFlag).length;
   // Rows of the wide layout's left column: the plot, the gap map if any, the settings.
   const rows = map.grids.length ? { grid: "xl:grid-rows-[auto_auto_1fr]", side: "xl:row-span-3" } : { grid: "xl:grid-rows-[auto_1fr]", side: "xl:row-span-2" };
   return (
