@@ -1,5 +1,5 @@
 import type { Spectrum } from "@/db/schema";
-import { estimateField, type FieldModel, type GapPick, type SpectrumMeta } from "@/lib/spectra";
+import { compareRepeats, estimateField, repeatGroups, type FieldModel, type GapPick, type QualityFlag, type SpectrumMeta } from "@/lib/spectra";
 
 export interface FieldValues {
   distanceNm: number | null;
@@ -55,4 +55,31 @@ export function metaOfRow(s: Pick<Spectrum, "setpointBiasV" | "setpointCurrentA"
     lockin_modulation_mV_rms: s.lockinModulationMvRms ?? undefined,
     temperature_K: s.temperatureK ?? sessionTemperatureK ?? undefined,
   };
+}
+
+/** One spectrum as the repeat check needs it: its file, metadata, arrays and automatic pick. */
+export interface RepeatCandidate {
+  /** Spectra are repeats only within one file (an upload's entry). */
+  file: string;
+  meta: Pick<SpectrumMeta, "x_nm" | "y_nm" | "setpoint_bias_V" | "setpoint_current_A" | "extra">;
+  bias_V: ArrayLike<number>;
+  didv: ArrayLike<number>;
+  pick: Pick<GapPick, "status" | "vbEdge_V" | "cbEdge_V" | "vbSigma_V" | "cbSigma_V" | "noiseSigma" | "signInverted">;
+}
+
+/**
+ * Tip-change and drift flags for repeats at one point (lib/spectra `repeatGroups`, `compareRepeats`):
+ * for each candidate, the flags to add (empty when it is no repeat or agrees with its repeats).
+ */
+export function repeatFlags(items: RepeatCandidate[]): QualityFlag[][] {
+  const out: QualityFlag[][] = items.map(() => []);
+  const byFile = new Map<string, number[]>();
+  items.forEach((it, i) => byFile.set(it.file, [...(byFile.get(it.file) ?? []), i]));
+  for (const idx of byFile.values())
+    for (const group of repeatGroups(idx.map((i) => items[i].meta))) {
+      const members = group.map((g) => idx[g]);
+      const flags = compareRepeats(members.map((i) => ({ bias_V: items[i].bias_V, didv: items[i].didv, pick: items[i].pick, label: `repeat ${members.indexOf(i) + 1}` })));
+      members.forEach((i, k) => out[i].push(...flags[k]));
+    }
+  return out;
 }

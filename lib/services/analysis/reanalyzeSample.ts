@@ -2,8 +2,8 @@ import "server-only";
 import { and, asc, eq, gt, inArray, sql } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { analysisRuns, gapPicks, measurementSessions, spectra, tips } from "@/db/schema";
-import { pickGap } from "@/lib/spectra";
-import { fieldFor, metaOfRow, pickColumns } from "./analyzeSpectrum";
+import { pickGap, repeatGroups as repeatGroupsOf, type QualityFlag } from "@/lib/spectra";
+import { fieldFor, metaOfRow, pickColumns, repeatFlags, type RepeatCandidate } from "./analyzeSpectrum";
 import { refitSample, type RefitResult } from "./refitSample";
 import { loadSampleAnalysis } from "./sampleModel";
 
@@ -59,7 +59,38 @@ export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; run
     after = rows[rows.length - 1].s.id;
     if (runs) await db.update(analysisRuns).set({ done, updatedAt: new Date() }).where(runs);
   }
+  await reflagRepeats(db, input.sampleId);
   const refit = await refitSample(db, input.sampleId);
   if (runs) await db.update(analysisRuns).set({ status: "done", done, updatedAt: new Date() }).where(runs);
   return refit;
+}
+
+/**
+ * Repeats at one point (within one file) are compared again after their picks were re-made: their
+ * flags become the automatic pick's own plus the tip-change or drift flags of the comparison. Only
+ * the metadata of the sample's spectra is read to find repeats; arrays only for those that are.
+ */
+async function reflagRepeats(db: DbOrTx, sampleId: string): Promise<void> {
+  const metas = await db
+    .select({ id: spectra.id, uploadId: spectra.uploadId, sourceName: spectra.sourceName, x: spectra.xNm, y: spectra.yNm, vset: spectra.setpointBiasV, iset: spectra.setpointCurrentA, extra: spectra.meta })
+    .from(spectra)
+    .where(eq(spectra.sampleId, sampleId));
+  const meta = (m: (typeof metas)[number]) => ({ x_nm: m.x ?? undefined, y_nm: m.y ?? undefined, setpoint_bias_V: m.vset ?? undefined, setpoint_current_A: m.iset ?? undefined, extra: m.extra });
+  const byFile = new Map<string, (typeof metas)[number][]>();
+  for (const m of metas) byFile.set(`${m.uploadId}/${m.sourceName}`, [...(byFile.get(`${m.uploadId}/${m.sourceName}`) ?? []), m]);
+  const ids = [...byFile.values()].flatMap((rows) => repeatGroupsOf(rows.map(meta)).flatMap((g) => g.map((i) => rows[i].id)));
+  if (ids.length === 0) return;
+  const rows = await db
+    .select({ id: spectra.id, uploadId: spectra.uploadId, sourceName: spectra.sourceName, x: spectra.xNm, y: spectra.yNm, vset: spectra.setpointBiasV, iset: spectra.setpointCurrentA, extra: spectra.meta, biasV: spectra.biasV, didv: spectra.didv, pickId: gapPicks.id, autoPick: gapPicks.autoPick })
+    .from(spectra)
+    .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
+    .where(inArray(spectra.id, ids));
+  const items: RepeatCandidate[] = rows.map((r) => ({ file: `${r.uploadId}/${r.sourceName}`, meta: meta(r), bias_V: r.biasV, didv: r.didv, pick: r.autoPick as unknown as RepeatCandidate["pick"] }));
+  const added = repeatFlags(items);
+  await db.transaction(async (tx) => {
+    for (let i = 0; i < rows.length; i++) {
+      const own = ((rows[i].autoPick as { flags?: unknown[] }).flags ?? []) as QualityFlag[];
+      await tx.update(gapPicks).set({ flags: [...own, ...added[i]], updatedAt: new Date() }).where(eq(gapPicks.id, rows[i].pickId));
+    }
+  });
 }

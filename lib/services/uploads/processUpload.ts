@@ -5,7 +5,7 @@ import { gapPicks, measurementSessions, spectra, tips, uploads } from "@/db/sche
 import { sha256Hex } from "@/lib/auth/secrets";
 import { importSpectra, pickGap, type ParsedSpectrum } from "@/lib/spectra";
 import { getObjectBytes } from "@/lib/storage/s3";
-import { fieldFor, pickColumns } from "../analysis/analyzeSpectrum";
+import { fieldFor, pickColumns, repeatFlags } from "../analysis/analyzeSpectrum";
 import { refitSample, type RefitResult } from "../analysis/refitSample";
 import { loadSampleAnalysis } from "../analysis/sampleModel";
 
@@ -67,6 +67,8 @@ export async function processUpload(db: DbOrTx, uploadId: string, hooks: { after
     const spectrumWarnings = [...s.warnings, ...pick.warnings, ...(field.warning ? [field.warning] : [])];
     return { s, meta, pick, field, spectrumWarnings };
   });
+  // Repeats at one point in a file are compared: a tip change or drift between them is flagged.
+  repeatFlags(prepared.map((p) => ({ file: p.s.file, meta: p.meta, bias_V: p.s.bias_V, didv: p.s.didv, pick: p.pick }))).forEach((f, i) => prepared[i].pick.flags.push(...f));
   const noSetpoint = prepared.filter((p) => p.field.fieldVPerNm == null).length;
   if (noSetpoint) warnings.push(`${noSetpoint} of ${prepared.length} spectra have no field estimate (no setpoint in the file): tag their setpoint to place them on the phase plot.`);
 
