@@ -1,9 +1,19 @@
+"use client";
+
 import { CrossingBadge } from "@/components/ui/badge";
 import type { PhaseData } from "./phase-plot";
+import { usePhaseOf } from "./sample-queries";
 
-/** The critical field as a reader should see it: value, interval, state, evidence, and whether an analyst confirmed it. */
-export function CrossingSummary({ crossing, nIncluded }: { crossing: PhaseData["crossing"]; nIncluded: number }) {
-  const c = crossing;
+type Summary = { crossing: PhaseData["crossing"]; nIncluded: number };
+const summaryOf = (d: PhaseData): Summary => ({ crossing: d.crossing, nIncluded: d.points.filter((p) => !p.excluded).length });
+
+/**
+ * The critical field as a reader should see it: value, interval, state, evidence, the versions the
+ * fit was made with, and whether an analyst confirmed it. It reads the phase plot's query, so the
+ * card and the plot always show the same fit.
+ */
+export function CrossingSummary({ lab, sampleId, initial }: { lab: string; sampleId: string; initial: Summary }) {
+  const { crossing: c, nIncluded } = usePhaseOf(lab, sampleId, summaryOf, initial);
   const comparison = "comparison" in c ? (c.comparison as { deltaBic?: number; preferred?: string } | null) : null;
   return (
     <div className="space-y-3" data-testid="crossing-summary">
@@ -49,6 +59,11 @@ export function CrossingSummary({ crossing, nIncluded }: { crossing: PhaseData["
         </p>
       ) : null}
       {"n" in c ? <p className="text-xs text-muted">{c.n} spectra in the fit · fitted {"fittedAt" in c && c.fittedAt ? `${c.fittedAt.slice(0, 16).replace("T", " ")} UTC` : ""}</p> : null}
+      {"settingsVersion" in c ? (
+        <p className="num text-xs text-muted" data-testid="crossing-versions">
+          fitted with extraction settings v{c.settingsVersion ?? "?"}, field model v{c.fieldModelVersion ?? "?"}
+        </p>
+      ) : null}
     </div>
   );
 }

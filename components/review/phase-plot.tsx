@@ -1,15 +1,13 @@
 "use client";
 
-import { useQuery } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useMemo, useRef, useState } from "react";
 import { axis, baseLayout, downloadFigure, Plot } from "@/components/plots/plot";
 import { errorBarPaths, fieldErrorBarShape, gapErrorBarShape, fieldModeRanges, PHASE_LOOK, PHASE_MARGIN, type PhaseData, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
 import { type PackedPhase, unpackPhase } from "./phase-pack";
 import { PhasePreview } from "./phase-preview";
-import { api } from "@/lib/api-client";
+import { usePhase } from "./sample-queries";
 import { fileStem } from "@/lib/format";
-import { queryKeys } from "@/lib/query-keys";
 
 export type { PhaseData };
 
@@ -64,12 +62,7 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
   const [theory, setTheory] = useState({ on: false, lambda_meV: "43", ell_A: "0.33" });
   const graph = useRef<HTMLElement | null>(null);
   const initial = useMemo(() => unpackPhase(packed), [packed]);
-  const { data = initial, isFetching, isError, refetch } = useQuery({
-    queryKey: queryKeys.phase(sampleId),
-    queryFn: () => api<PhaseData>(lab, "GET", `/samples/${sampleId}/phase`),
-    initialData: initial,
-    refetchInterval: 10_000,
-  });
+  const { data = initial, isFetching, isError, refetch } = usePhase(lab, sampleId, initial);
   const filename = fileStem(`${data.sample.name} phase`);
   const download = (format: "png" | "svg") => {
     if (graph.current) void downloadFigure(graph.current, { format, filename, width: 1200, height: 800 });

@@ -182,7 +182,7 @@ export const analysisRuns = pgTable(
     labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
     sampleId: uuid("sample_id").notNull().references(() => samples.id, { onDelete: "cascade" }),
     reason: text("reason").notNull(),
-    /** queued | running | done | failed */
+    /** queued | running (spectra) | fitting (the refit after them) | done | failed */
     status: text("status").notNull().default("queued"),
     total: integer("total").notNull().default(0),
     done: integer("done").notNull().default(0),

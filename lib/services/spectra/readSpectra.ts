@@ -174,12 +174,15 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
     excluded: r.excluded,
     region: r.region,
   }));
-  const [c] = await ctx.db
-    .select()
+  const [row] = await ctx.db
+    .select({ c: crossings, settingsVersion: extractionSettingsVersions.version, fieldModelVersion: fieldModelVersions.version })
     .from(crossings)
+    .leftJoin(extractionSettingsVersions, eq(extractionSettingsVersions.id, crossings.settingsVersionId))
+    .leftJoin(fieldModelVersions, eq(fieldModelVersions.id, crossings.fieldModelVersionId))
     .where(and(eq(crossings.sampleId, sample.id), isNull(crossings.region)))
     .orderBy(desc(crossings.createdAt))
     .limit(1);
+  const c = row?.c;
   return {
     sample: { id: sample.id, name: sample.name },
     points,
@@ -200,6 +203,9 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
           curve: c.curve,
           settingsVersionId: c.settingsVersionId,
           fieldModelVersionId: c.fieldModelVersionId,
+          /** The version numbers the fit was made with, as the sample page names them. */
+          settingsVersion: row.settingsVersion,
+          fieldModelVersion: row.fieldModelVersion,
           fittedAt: c.createdAt.toISOString(),
         }
       : { state: "none" as const, found: false, field_V_per_nm: null, ci95_V_per_nm: null },
