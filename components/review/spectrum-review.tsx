@@ -7,6 +7,7 @@ import { axis, baseLayout, Plot } from "@/components/plots/plot";
 import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
+import { EdgeBox } from "./edge-box";
 import { api, ApiError } from "@/lib/api-client";
 import { fileStem, formatGap } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
@@ -63,6 +64,8 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
 
   const vb = draft?.vb ?? pick?.vbEdge_V ?? null;
   const cb = draft?.cb ?? pick?.cbEdge_V ?? null;
+  const bias = data.arrays.bias_V;
+  const biasRange: [number, number] = [bias[0], bias[bias.length - 1]];
 
   async function saveCorrection(version = pick?.version) {
     if (!pick || vb == null || cb == null || version == null) return;
@@ -253,15 +256,10 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
             ) : null}
             {canEdit && pick ? (
               <div className="mt-4 space-y-2 border-t border-line pt-3">
-                <div className="grid grid-cols-2 gap-2">
-                  <label className="text-xs text-muted">
-                    valence (mV)
-                    <input className="num mt-0.5 w-full rounded border border-line px-2 py-1 text-sm" aria-label="Valence-band edge in mV" value={vb != null ? (vb * 1000).toFixed(1) : ""} onChange={(e) => cb != null && setDraft({ vb: Number(e.target.value) / 1000, cb })} data-testid="vb-input" />
-                  </label>
-                  <label className="text-xs text-muted">
-                    conduction (mV)
-                    <input className="num mt-0.5 w-full rounded border border-line px-2 py-1 text-sm" aria-label="Conduction-band edge in mV" value={cb != null ? (cb * 1000).toFixed(1) : ""} onChange={(e) => vb != null && setDraft({ vb, cb: Number(e.target.value) / 1000 })} data-testid="cb-input" />
-                  </label>
+                <div className="grid grid-cols-2 items-start gap-2">
+                  {/* Keyed by spectrum: text typed for one spectrum never shows on the next. */}
+                  <EdgeBox key={`vb-${id}`} label="valence" edge="vb" value={vb} range={biasRange} below={cb} onCommit={(v) => cb != null && setDraft({ vb: v, cb })} />
+                  <EdgeBox key={`cb-${id}`} label="conduction" edge="cb" value={cb} range={biasRange} above={vb} onCommit={(v) => vb != null && setDraft({ vb, cb: v })} />
                 </div>
                 <input ref={reasonRef} className="w-full rounded border border-line px-2 py-1.5 text-sm" placeholder="Reason (required), e.g. onset hidden by a tip state" value={reason} onChange={(e) => setReason(e.target.value)} aria-label="Reason" data-testid="reason-input" />
                 <div className="flex flex-wrap gap-2">

@@ -1,0 +1,88 @@
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { closeDb } from "@/db/client";
+import { stopBoss } from "@/lib/jobs/queue";
+import { APP_URL, launch, shot, signedIn as signedInAs } from "../support/browser";
+import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
+import { sweepSample } from "../support/pipeline";
+
+/** The review page's band-edge boxes, in chromium against the built app. */
+let browser: Browser;
+let lab: LabFixture;
+let sampleId: string;
+let ids: string[];
+
+beforeAll(async () => {
+  browser = await launch();
+  lab = await makeLab("Review edges");
+  // Every spectrum of this sweep has both edges.
+  ({ sampleId, ids } = await sweepSample(lab.ctx("owner"), { name: "GX-50", n: 10, seed: 17 }));
+}, 90_000);
+
+afterAll(async () => {
+  await browser?.close();
+  await stopBoss();
+  await closeDb();
+});
+
+const signedIn = (email: string, more?: { hasTouch?: boolean; isMobile?: boolean }) => signedInAs(browser, email, TEST_PASSWORD, lab.lab.slug, { width: 1400, height: 900 }, more);
+const mvOf = async (page: Page, testid: string) => parseFloat((await page.textContent(`[data-testid="${testid}"]`))!);
+
+async function openReview(page: Page, id: string) {
+  await page.goto(`${APP_URL}/labs/${lab.lab.slug}/spectra/${id}`);
+  await page.waitForSelector('[data-testid="spectrum-review"] .js-plotly-plot .shapelayer path');
+}
+
+describe("band-edge boxes", () => {
+  it("are free text while typing, read a decimal comma on Enter, refuse text and values outside the bias range in words, and never give the plot NaN", async () => {
+    const { context, page } = await signedIn(lab.people.analyst.email);
+    const problems: string[] = [];
+    page.on("console", (m) => {
+      if (m.type() === "error" || /NaN/.test(m.text())) problems.push(m.text());
+    });
+    page.on("pageerror", (e) => problems.push(e.message));
+    await openReview(page, ids[2]);
+    const box = '[data-testid="vb-input"]';
+    const vb0 = await mvOf(page, "vb-edge");
+    await page.click(box);
+    await page.keyboard.press("Control+A");
+    await page.keyboard.press("Backspace");
+    expect(await page.inputValue(box)).toBe("");
+    await page.keyboard.type("6");
+    expect(await page.inputValue(box)).toBe("6");
+    await page.keyboard.type(".");
+    expect(await page.inputValue(box)).toBe("6.");
+    await page.keyboard.press("Backspace");
+    await page.keyboard.press("Backspace");
+    await page.keyboard.type("-");
+    expect(await page.inputValue(box)).toBe("-");
+    await shot(page, "review-typing-edge");
+    // Nothing is committed while typing: the edge on the page is still the pick's.
+    expect(await mvOf(page, "vb-edge")).toBe(vb0);
+
+    await page.keyboard.type("abc");
+    await page.keyboard.press("Enter");
+    expect(await page.textContent('[data-testid="vb-error"]')).toContain("not a number");
+    expect(await mvOf(page, "vb-edge")).toBe(vb0);
+    expect(await page.isDisabled('[data-testid="save-correction"]')).toBe(true);
+
+    await page.fill(box, "9999");
+    await page.keyboard.press("Enter");
+    expect(await page.textContent('[data-testid="vb-error"]')).toMatch(/outside this spectrum's bias range \(-?\d+ to \d+ mV\)/);
+    expect(await mvOf(page, "vb-edge")).toBe(vb0);
+
+    await page.fill(box, "-60,5");
+    await page.keyboard.press("Enter");
+    expect(await page.textContent('[data-testid="vb-edge"]')).toBe("-60.5 mV");
+    expect(await page.inputValue(box)).toBe("-60.5");
+    expect(await page.$('[data-testid="vb-error"]')).toBeNull();
+    // Committed on blur too.
+    await page.fill('[data-testid="cb-input"]', "70");
+    await page.click('[data-testid="reason-input"]');
+    expect(await page.textContent('[data-testid="cb-edge"]')).toBe("70.0 mV");
+    const paths = await page.$$eval(".js-plotly-plot .shapelayer path", (els) => els.map((e) => e.getAttribute("d") ?? ""));
+    expect(paths.some((d) => d.includes("NaN"))).toBe(false);
+    expect(problems.filter((p) => /NaN/.test(p))).toEqual([]);
+    await context.close();
+  });
+});
