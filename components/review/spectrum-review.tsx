@@ -32,7 +32,14 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
   const { data = initial, isFetching } = useQuery({ queryKey: queryKeys.spectrum(id), queryFn: () => fetchSpectrum(id), initialData: id === initial.id ? initial : undefined, staleTime: 30_000 });
   const { data: history = [] } = useQuery({ queryKey: [...queryKeys.spectrum(id), "history"], queryFn: async () => (await api<{ history: History }>(lab, "GET", `/spectra/${id}/pick`)).history });
   const [draft, setDraft] = useState<{ vb: number; cb: number } | null>(null);
+  // A reason belongs to one action on one spectrum: emptied when the spectrum changes and after
+  // a save; the last one used is only offered as a suggestion to click.
   const [reason, setReason] = useState("");
+  const [lastReason, setLastReason] = useState<string | null>(null);
+  const reasonUsed = (text: string) => {
+    if (text.trim()) setLastReason(text.trim());
+    setReason("");
+  };
   const [logY, setLogY] = useState(false);
   const [busy, setBusy] = useState(false);
   const [notice, setNotice] = useState<{ tone: "ok" | "danger" | "warn"; text: string } | null>(null);
@@ -50,6 +57,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
       if (!target) return;
       setId(target);
       setDraft(null);
+      setReason("");
       setConflict(null);
       setNotice(null);
       window.history.replaceState(null, "", `/labs/${lab}/spectra/${target}`);
@@ -79,6 +87,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
       await api(lab, "PATCH", `/spectra/${id}/pick`, { vbEdge_V: vb, cbEdge_V: cb, reason, version });
       setDraft(null);
       setConflict(null);
+      reasonUsed(reason);
       setNotice({ tone: "ok", text: "Correction saved; the phase plot and critical field were refitted." });
       await refresh();
     } catch (e) {
@@ -98,6 +107,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
     setBusy(true);
     try {
       await api(lab, "PUT", `/spectra/${id}/exclusion`, { excluded, reason: text, version: pick.version });
+      reasonUsed(why);
       setNotice({ tone: "ok", text: excluded ? "Excluded from the fit." : "Included in the fit again." });
       await refresh();
     } catch (e) {
@@ -262,6 +272,14 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
                   <EdgeBox key={`cb-${id}`} label="conduction" edge="cb" value={cb} range={biasRange} above={vb} onCommit={(v) => vb != null && setDraft({ vb, cb: v })} />
                 </div>
                 <input ref={reasonRef} className="w-full rounded border border-line px-2 py-1.5 text-sm" placeholder="Reason (required), e.g. onset hidden by a tip state" value={reason} onChange={(e) => setReason(e.target.value)} aria-label="Reason" data-testid="reason-input" />
+                {!reason && lastReason ? (
+                  <p className="text-xs text-muted" data-testid="reason-suggestion">
+                    Same reason as before?{" "}
+                    <button type="button" className="text-copper underline-offset-2 hover:underline" onClick={() => setReason(lastReason)}>
+                      “{lastReason}”
+                    </button>
+                  </p>
+                ) : null}
                 <div className="flex flex-wrap gap-2">
                   <Button type="button" onClick={() => saveCorrection()} disabled={busy || !draft} data-testid="save-correction">
                     Save correction

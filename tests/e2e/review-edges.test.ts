@@ -1,12 +1,14 @@
 import type { Browser, Page } from "playwright-core";
+import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { closeDb } from "@/db/client";
+import { closeDb, db } from "@/db/client";
+import { gapPicks } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
 import { APP_URL, launch, shot, signedIn as signedInAs } from "../support/browser";
 import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
 import { sweepSample } from "../support/pipeline";
 
-/** The review page's band-edge boxes, in chromium against the built app. */
+/** The review page's band-edge boxes and reason box, in chromium against the built app. */
 let browser: Browser;
 let lab: LabFixture;
 let sampleId: string;
@@ -83,6 +85,37 @@ describe("band-edge boxes", () => {
     const paths = await page.$$eval(".js-plotly-plot .shapelayer path", (els) => els.map((e) => e.getAttribute("d") ?? ""));
     expect(paths.some((d) => d.includes("NaN"))).toBe(false);
     expect(problems.filter((p) => /NaN/.test(p))).toEqual([]);
+    await context.close();
+  });
+});
+
+describe("the reason box", () => {
+  it("is empty for the next spectrum and after a save; the last reason is offered as a suggestion, never pre-filled", async () => {
+    const { context, page } = await signedIn(lab.people.analyst.email);
+    await openReview(page, ids[3]);
+    await page.fill('[data-testid="reason-input"]', "tip change at this point");
+    await page.click("text=Next →");
+    await page.waitForFunction((id) => document.querySelector('[data-testid="spectrum-review"]')?.getAttribute("data-spectrum-id") === id, ids[4]);
+    expect(await page.inputValue('[data-testid="reason-input"]')).toBe("");
+    // X excludes this spectrum with the default reason, not the text typed for the previous one.
+    await page.keyboard.press("x");
+    await page.waitForFunction((id) => document.querySelector('[data-testid="spectrum-review"]')?.getAttribute("data-spectrum-id") === id, ids[5]);
+    const [excluded] = await db().select().from(gapPicks).where(eq(gapPicks.spectrumId, ids[4]));
+    expect(excluded.excluded).toBe(true);
+    expect(excluded.excludedReason).toBe("excluded during review");
+
+    await page.fill('[data-testid="vb-input"]', "-55");
+    await page.keyboard.press("Enter");
+    await page.fill('[data-testid="reason-input"]', "onset hidden by a tip state");
+    await page.click('[data-testid="save-correction"]');
+    await page.waitForSelector("text=Correction saved");
+    expect(await page.inputValue('[data-testid="reason-input"]')).toBe("");
+    await page.click("text=Next →");
+    await page.waitForFunction((id) => document.querySelector('[data-testid="spectrum-review"]')?.getAttribute("data-spectrum-id") === id, ids[6]);
+    expect(await page.inputValue('[data-testid="reason-input"]')).toBe("");
+    // Offered, and used only when clicked.
+    await page.click('[data-testid="reason-suggestion"] >> text=onset hidden by a tip state');
+    expect(await page.inputValue('[data-testid="reason-input"]')).toBe("onset hidden by a tip state");
     await context.close();
   });
 });
