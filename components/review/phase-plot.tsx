@@ -13,14 +13,17 @@ export type { PhaseData };
 
 /**
  * How to read the plot, under it: how many points are automatic picks, corrected by an analyst or
- * excluded, each with the marker shape it has on the plot, and what a click does.
+ * excluded, each with the marker shape it has on the plot, how many automatic picks an analyst
+ * accepted as they are, and what a click does.
  */
 function PhaseKey({ points }: { points: PhaseData["points"] }) {
   let corrected = 0;
   let excluded = 0;
+  let accepted = 0;
   for (const p of points) {
     if (p.excluded) excluded++;
     else if (p.source === "corrected") corrected++;
+    else if (p.accepted) accepted++;
   }
   const auto = points.length - corrected - excluded;
   return (
@@ -36,6 +39,10 @@ function PhaseKey({ points }: { points: PhaseData["points"] }) {
       <div className="inline-flex items-center gap-1.5">
         <dt><span aria-hidden>✕</span> excluded (not in the fit)</dt>
         <dd className="num text-ink">{excluded}</dd>
+      </div>
+      <div className="inline-flex items-center gap-1.5">
+        <dt><span aria-hidden>✓</span> of the automatic picks, accepted by an analyst</dt>
+        <dd className="num text-ink" data-testid="phase-key-accepted">{accepted}</dd>
       </div>
       <p className="basis-full text-muted">Click a point to open its spectrum. The field axis is a model estimate: its assumptions are beside the plot.</p>
     </dl>

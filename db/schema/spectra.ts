@@ -164,7 +164,7 @@ export const pickHistory = pgTable(
     labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
     pickId: uuid("pick_id").notNull().references(() => gapPicks.id, { onDelete: "cascade" }),
     actorId: uuid("actor_id").references(() => users.id, { onDelete: "set null" }),
-    /** correct | exclude | include | undo | reset */
+    /** correct | exclude | include | undo | reset | accept (the pick as it is, at `after.version`) */
     action: text("action").notNull(),
     before: jsonb("before").$type<Record<string, unknown>>().notNull(),
     after: jsonb("after").$type<Record<string, unknown>>().notNull(),

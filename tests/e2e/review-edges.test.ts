@@ -1,14 +1,14 @@
 import type { Browser, Page } from "playwright-core";
-import { eq } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
-import { gapPicks } from "@/db/schema";
+import { gapPicks, pickHistory, spectra } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
 import { APP_URL, launch, shot, signedIn as signedInAs } from "../support/browser";
 import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
 import { sweepSample } from "../support/pipeline";
 
-/** The review page's band-edge boxes and reason box, in chromium against the built app. */
+/** The review page's band-edge boxes, reason box and keys, in chromium against the built app. */
 let browser: Browser;
 let lab: LabFixture;
 let sampleId: string;
@@ -116,6 +116,61 @@ describe("the reason box", () => {
     // Offered, and used only when clicked.
     await page.click('[data-testid="reason-suggestion"] >> text=onset hidden by a tip state');
     expect(await page.inputValue('[data-testid="reason-input"]')).toBe("onset hidden by a tip state");
+    await context.close();
+  });
+});
+
+describe("keyboard review", () => {
+  it("moves the selected edge in fine and coarse steps, switches edges, and A records an acceptance the history and the phase key count; the help names these keys", async () => {
+    const { context, page } = await signedIn(lab.people.analyst.email);
+    await openReview(page, ids[7]);
+    const help = (await page.textContent('[data-testid="review-keys"]'))!;
+    for (const words of [", .", "1 mV", "< >", "10 mV", "E", "valence", "conduction", "A accept"]) expect(help).toContain(words);
+    const review = '[data-testid="spectrum-review"]';
+    expect(await page.getAttribute(review, "data-selected-edge")).toBe("valence");
+    const vb0 = await mvOf(page, "vb-edge");
+    await page.keyboard.press(".");
+    await page.keyboard.press(".");
+    expect(await mvOf(page, "vb-edge")).toBeCloseTo(vb0 + 2, 5);
+    await page.keyboard.press(">");
+    expect(await mvOf(page, "vb-edge")).toBeCloseTo(vb0 + 12, 5);
+    await page.keyboard.press("e");
+    expect(await page.getAttribute(review, "data-selected-edge")).toBe("conduction");
+    const cb0 = await mvOf(page, "cb-edge");
+    await page.keyboard.press(",");
+    await page.keyboard.press("<");
+    expect(await mvOf(page, "cb-edge")).toBeCloseTo(cb0 - 11, 5);
+    expect(await mvOf(page, "vb-edge")).toBeCloseTo(vb0 + 12, 5);
+    await shot(page, "review-keys");
+    // A moved edge is not accepted by A: the analyst saves or discards it first.
+    await page.keyboard.press("a");
+    await page.waitForSelector("text=Save or discard the moved edge first");
+    await page.click("text=Discard");
+
+    const [pick] = await db().select().from(gapPicks).where(eq(gapPicks.spectrumId, ids[7]));
+    await page.keyboard.press("a");
+    await page.waitForFunction((id) => document.querySelector('[data-testid="spectrum-review"]')?.getAttribute("data-spectrum-id") === id, ids[8]);
+    const rows = await db().select().from(pickHistory).where(and(eq(pickHistory.pickId, pick.id), eq(pickHistory.action, "accept")));
+    expect(rows).toHaveLength(1);
+    expect(rows[0].actorId).toBe(lab.people.analyst.id);
+    expect(rows[0].after).toMatchObject({ version: pick.version });
+    await page.keyboard.press("ArrowLeft");
+    await page.waitForSelector(`[data-testid="pick-history"] >> text=accepted pick v${pick.version}`);
+
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
+    await page.waitForSelector('[data-testid="phase-key"]');
+    expect(await page.textContent('[data-testid="phase-key-accepted"]')).toBe("1");
+    await context.close();
+  });
+
+  it("on a touch screen the keyboard help is not shown", async () => {
+    const { context, page } = await signedIn(lab.people.analyst.email, { hasTouch: true, isMobile: true });
+    await openReview(page, ids[1]);
+    expect(await page.evaluate(() => matchMedia("(pointer: coarse)").matches || matchMedia("(hover: none)").matches)).toBe(true);
+    // The help is there for a keyboard, not shown on a touch screen.
+    expect(await page.locator('[data-testid="spectrum-review"] >> text=Keys:').count()).toBe(1);
+    expect(await page.isVisible('[data-testid="spectrum-review"] >> text=Keys:')).toBe(false);
+    expect(await page.isVisible('[data-testid="vb-input"]')).toBe(true);
     await context.close();
   });
 });

@@ -133,6 +133,8 @@ export interface PhasePoint {
   source: "auto" | "corrected";
   excluded: boolean;
   region: string | null;
+  /** An analyst accepted this version of the pick as it is (keyboard review's A). */
+  accepted: boolean;
 }
 
 /** The phase plot's data: every spectrum with a gap and a field, and the sample's current crossing. */
@@ -152,6 +154,8 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
       source: gapPicks.source,
       excluded: gapPicks.excluded,
       region: spectra.region,
+      // Accepted by an analyst as it is now: an acceptance of this very version in the history.
+      accepted: sql<boolean>`exists (select 1 from pick_history h where h.pick_id = ${gapPicks.id} and h.action = 'accept' and (h.after ->> 'version')::int = ${gapPicks.version})`,
     })
     .from(spectra)
     .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
@@ -173,6 +177,7 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
     source: r.source,
     excluded: r.excluded,
     region: r.region,
+    accepted: r.accepted,
   }));
   const [row] = await ctx.db
     .select({ c: crossings, settingsVersion: extractionSettingsVersions.version, fieldModelVersion: fieldModelVersions.version })

@@ -14,6 +14,7 @@ function phase(n: number): PhaseData {
     closed: i % 17 === 0,
     source: i % 5 === 0 ? "corrected" : "auto",
     excluded: i % 23 === 0,
+    accepted: i % 29 === 0,
     region: i % 3 === 0 ? null : i % 3 === 1 ? "terrace A" : "step edge",
   }));
   return { sample: { id: "s1", name: "GX-12 bilayer" }, points, crossing: { state: "none" } } as unknown as PhaseData;
