@@ -57,7 +57,7 @@ export function EdgeBox({
     <label className="text-xs text-muted">
       {label} (mV)
       <input
-        className={`num mt-0.5 w-full rounded border px-2 py-1 text-sm ${problem ? "border-danger" : "border-line"}`}
+        className={`num mt-0.5 w-full rounded border px-2 py-1 text-sm text-ink ${problem ? "border-danger" : "border-line"}`}
         aria-label={`${label[0].toUpperCase()}${label.slice(1)}-band edge in mV`}
         aria-invalid={problem ? true : undefined}
         inputMode="decimal"

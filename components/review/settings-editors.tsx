@@ -8,7 +8,7 @@ import { Field, Input, Select } from "@/components/ui/field";
 import { api, ApiError } from "@/lib/api-client";
 import { queryKeys } from "@/lib/query-keys";
 import { readNumber } from "@/lib/schemas/number";
-import { followRun, useSampleVersions, type SampleVersions } from "./sample-queries";
+import { followRun, RUN_ACTIVE, useSampleVersions, type SampleVersions } from "./sample-queries";
 
 type Versions = SampleVersions;
 
@@ -125,7 +125,9 @@ function ReadOnlyVersions({ data }: { data: Versions }) {
 export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: string; sampleId: string; canEdit: boolean; initial: Versions }) {
   const qc = useQueryClient();
   const data = useSampleVersions(lab, sampleId, initial);
-  const [msg, setMsg] = useState<{ tone: "ok" | "danger"; text: string; fields?: Record<string, string[]> } | null>(null);
+  const [msg, setMsg] = useState<{ tone: "ok" | "danger"; text: string; fields?: Record<string, string[]>; runId?: string } | null>(null);
+  // "Being re-analysed" holds only until that run has ended; then the progress line says it finished.
+  const shownMsg = msg && !(msg.runId && data.run?.id === msg.runId && !RUN_ACTIVE.has(data.run.status)) ? msg : null;
   const s = data.settings.settings;
   const m = data.fieldModel.model;
 
@@ -157,7 +159,7 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
         });
       }
       followRun(saved.runId);
-      setMsg({ tone: "ok", text: "Saved as a new version; the sample is being re-analysed." });
+      setMsg({ tone: "ok", text: "Saved as a new version; the sample is being re-analysed.", runId: saved.runId });
       await qc.invalidateQueries({ queryKey: queryKeys.sampleVersions(sampleId) });
     } catch (err) {
       const fields = err instanceof ApiError ? err.body?.error?.fields : undefined;
@@ -172,7 +174,7 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
   return (
     <div className="space-y-5" data-testid="settings-editors">
       <RunProgress run={data.run} />
-      {msg ? <Notice tone={msg.tone}>{msg.text}</Notice> : null}
+      {shownMsg ? <Notice tone={shownMsg.tone}>{shownMsg.text}</Notice> : null}
       <form key={data.settings.id} onSubmit={(e) => save("settings", e)} className="space-y-3" aria-label="Extraction settings">
         <h3 className="text-sm font-semibold">
           Extraction settings <span className="num font-normal text-muted">v{data.settings.version}</span>

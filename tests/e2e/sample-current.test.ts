@@ -108,6 +108,8 @@ describe("the sample page stays current", () => {
       cards = await readCards(page);
     }
     expect(cards).toEqual(expected);
+    // The save's "being re-analysed" has given way to the finished line.
+    expect(await page.textContent('[data-testid="settings-editors"]')).not.toContain("being re-analysed");
     expect(run.done).toBe(run.total);
     expect(await page.evaluate(() => (window as unknown as { sameDocument?: boolean }).sameDocument)).toBe(true);
     await shot(page, "sample-after-field-model");
