@@ -15,3 +15,8 @@ export function formatField(v: number | null | undefined, sigma?: number | null)
 export function fileStem(name: string, fallback = "bandcross"): string {
   return name.toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-+|-+$/g, "") || fallback;
 }
+
+/** A count with its noun in the right number: counted(1, "spectrum", "spectra") → "1 spectrum". */
+export function counted(n: number, one: string, many = `${one}s`): string {
+  return `${n} ${n === 1 ? one : many}`;
+}

@@ -31,6 +31,11 @@ export const uploads = pgTable(
     storageKey: text("storage_key").notNull(),
     status: uploadStatus("status").notNull().default("pending"),
     message: text("message"),
+    /**
+     * For a failed file: whether processing it again can help (the queue gave up on an error of
+     * the services); false when the file itself cannot be read, which a retry reads the same way.
+     */
+    retryable: boolean("retryable").notNull().default(false),
     spectraCount: integer("spectra_count").notNull().default(0),
     warnings: jsonb("warnings").$type<string[]>().notNull().default([]),
     attempts: integer("attempts").notNull().default(0),
