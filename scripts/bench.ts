@@ -14,6 +14,7 @@ type Part = () => Promise<{ run: () => Promise<void> }>;
 
 const parts: Record<string, Part> = {
   spectra: () => import("./bench/spectra"),
+  accuracy: () => import("./bench/accuracy"),
 };
 
 /** Parts that run inside the bench stack, in this order. */

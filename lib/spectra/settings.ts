@@ -41,6 +41,18 @@ export const extractionSettingsSchema = z.object({
     k: positive,
     /** … for this many consecutive points (at least the smoothing window's width in points). */
     consecutive: number().int().min(1).max(50),
+    /**
+     * A band edge is a sustained rise: the signal stays above the threshold for at least this many mV
+     * (and 3 resolutions), or to the end of the search range; shorter runs are slow noise.
+     */
+    sustain_mV: nonNegative,
+  }),
+  /** The in-gap baseline (edges/baseline.ts): a robust polynomial fitted to the quiet region. */
+  baseline: z.object({
+    /** Highest polynomial degree (0 = a flat floor). */
+    maxDegree: number().int().min(0).max(2),
+    /** The quiet region must span this many mV per degree above 0. */
+    widthPerDegree_mV: positive,
   }),
   /** Restrict the search for the gap to this bias range (V); null = whole spectrum. */
   search: z.object({ minBias_V: number().nullable(), maxBias_V: number().nullable() }),
@@ -51,6 +63,13 @@ export const extractionSettingsSchema = z.object({
     bandWindowPerResolution: positive,
     /** … but at least this many mV. */
     minBandWindow_mV: positive,
+  }),
+  closed: z.object({
+    /**
+     * A spectrum is one continuous V (closed or nearly closed) when a + b·V + v·|V − m| explains its
+     * band windows and the middle of its gap to within this many standard errors (edges/pick.ts).
+     */
+    vShapeMaxDeviation: positive,
   }),
   /** "No gap" when the floor exceeds this fraction of the 95th-percentile signal (metallic spectrum). */
   metallicFloorRatio: positive.max(1),
@@ -71,9 +90,11 @@ export const DEFAULT_EXTRACTION_SETTINGS: ExtractionSettings = deepFreeze({
     windowPerResolution: 1.5,
     minWindowPoints: 5,
   },
-  threshold: { k: 3, consecutive: 3 },
+  threshold: { k: 3, consecutive: 3, sustain_mV: 40 },
+  baseline: { maxDegree: 2, widthPerDegree_mV: 60 },
   search: { minBias_V: null, maxBias_V: null },
   fit: { enabled: true, bandWindowPerResolution: 4, minBandWindow_mV: 30 },
+  closed: { vShapeMaxDeviation: 1 },
   metallicFloorRatio: 0.2,
   assumedTemperature_K: 4.5,
   assumedLockinModulation_mV_rms: 0,

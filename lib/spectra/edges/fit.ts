@@ -24,6 +24,8 @@ export interface EdgeFitInput {
   cbGuess: number;
   /** Noise σ of the raw data. */
   sigma: number;
+  /** Integrated autocorrelation time of the noise (1 = white); χ² differences are divided by it. */
+  tau?: number;
   resolution_V: number;
   step_V: number;
   bandWindow_V: number;
@@ -162,6 +164,7 @@ function indexRange(bias: Float64Array, from: number, to: number, lo: number, hi
 
 export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
   const { bias, y, kernel, vbGuess, cbGuess, sigma, resolution_V: res, step_V: step, bandWindow_V: W, lo, hi } = inp;
+  const tau = Math.max(1, inp.tau ?? 1);
   const warnings: string[] = [];
   const tol = Math.min(step, res) / 50;
   // Thermal tails (∝ e^(−x/k_BT)) can push the threshold edge into the gap by several k_BT; lock-in
@@ -260,7 +263,7 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
   // (Two steps at one point are collinear with the floor: keep one, of either sign.)
   const f0 = (m: number) => rssOf([ones, onsetColumns(bias, i0, i1, m, "vb", kernel, false)[1], ...onsetColumns(bias, i0, i1, m, "cb", kernel, false)], yy, []);
   const z = goldenMinimize(f0, vb - dv, cb + dv, tol);
-  const closedDeltaChi2 = Math.max(0, (z.fx - rssMin) / (sigma * sigma));
+  const closedDeltaChi2 = Math.max(0, (z.fx - rssMin) / (sigma * sigma * tau));
   // Gap profile: χ²(g) minimised over the midgap m, edges at m ∓ g/2.
   const gHat = cb - vb;
   const profile = (g: number) => {
@@ -272,11 +275,11 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
       tol,
     ).fx;
   };
-  const limit = rssMin + 3.841458820694124 * sigma * sigma;
+  const limit = rssMin + 3.841458820694124 * sigma * sigma * tau;
   let gapSigmaProfile: number | null = null;
   const dg = Math.max(res / 4, step / 2);
   let gLo = gHat;
-  for (let k = 1; k <= 16; k++) {
+  for (let k = 1; k <= 24; k++) {
     const g = gHat + k * dg;
     if (profile(g) > limit) {
       let a = gLo;
@@ -291,6 +294,75 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
     }
     gLo = g;
   }
-  if (gapSigmaProfile === null) gapSigmaProfile = (16 * dg) / 1.959963984540054;
+  if (gapSigmaProfile === null) gapSigmaProfile = (24 * dg) / 1.959963984540054;
   return { vb, cb, vbSigma: curvatureSigma(fVs, vb, h, sigma), cbSigma: curvatureSigma(fCs, cb, h, sigma), mode: "joint", closedDeltaChi2, gapSigmaProfile, warnings };
+}
+
+/** Most points an edge profile reads (edgeProfileRange). */
+const PROFILE_POINTS = 160;
+
+/**
+ * Profile of one edge over a wide range: χ² of the one-onset model (floor, step, rise and curvature,
+ * broadened by the kernel) on a fixed window, as the edge moves from `near` (towards the gap) to
+ * `far` (into the band): 17 positions, then 11 over the coarse 95% set. Returns the range of positions whose χ², with the noise
+ * variance σ²·τ of correlated noise, lies within `deltaChi2` of the best (3.84 for 95%), widened by
+ * one grid step on each side. A strong onset gives a narrow range around the fitted edge; a weak one a
+ * wide range, which is the honest uncertainty of its edge (the curvature at the minimum is not).
+ * `twoMinima`: the 95% set is not one interval (two places fit, separated by a worse one).
+ */
+export function edgeProfileRange(
+  inp: Pick<EdgeFitInput, "bias" | "y" | "kernel" | "lo" | "hi">,
+  side: Side,
+  near: number,
+  far: number,
+  windowFar: number,
+  sigma: number,
+  tau: number,
+  deltaChi2 = 3.841458820694124,
+): { from: number; to: number; best: number; twoMinima: boolean } | null {
+  const { bias, y, kernel, lo, hi } = inp;
+  const [i0, i1] = side === "cb" ? indexRange(bias, near, windowFar, lo, hi) : indexRange(bias, windowFar, near, lo, hi);
+  const nw = i1 - i0 + 1;
+  if (nw < 8 || !(sigma > 0)) return null;
+  // A long window is read every k-th point, with χ² scaled by k (each point stands for k): the
+  // profile's shape is kept at a fraction of the cost on finely sampled spectra.
+  const k = Math.max(1, Math.ceil(nw / PROFILE_POINTS));
+  const m = Math.floor((nw - 1) / k) + 1;
+  const bs = new Float64Array(m);
+  const yy = new Float64Array(m);
+  for (let j = 0; j < m; j++) {
+    bs[j] = bias[i0 + j * k];
+    yy[j] = y[i0 + j * k];
+  }
+  const ones = new Float64Array(m).fill(1);
+  const buf = [new Float64Array(m), new Float64Array(m), new Float64Array(m)];
+  const cols = [ones, ...buf];
+  const chiAt = (e: number) => {
+    onsetColumns(bs, 0, m - 1, e, side, kernel, true, buf);
+    return (k * rssOf(cols, yy, [1])) / (sigma * sigma * Math.max(1, tau));
+  };
+  // A coarse scan over the whole range, then a fine one over the coarse 95% set.
+  const scan = (a: number, b: number, G: number) => {
+    const pos = Array.from({ length: G }, (_, g) => a + ((b - a) * g) / (G - 1));
+    const chi = pos.map(chiAt);
+    let best = 0;
+    for (let g = 1; g < G; g++) if (chi[g] < chi[best]) best = g;
+    let lo2 = best;
+    let hi2 = best;
+    for (let g = 0; g < G; g++)
+      if (chi[g] - chi[best] <= deltaChi2) {
+        lo2 = Math.min(lo2, g);
+        hi2 = Math.max(hi2, g);
+      }
+    // Separate minima inside the set: the data allow two edges (an in-gap feature, or a second onset).
+    let separate = false;
+    for (let g = lo2 + 1; g < hi2; g++) if (chi[g] - chi[best] > deltaChi2) separate = true;
+    const d = (b - a) / (G - 1);
+    return { from: pos[lo2] - d, to: pos[hi2] + d, best: pos[best], bestChi: chi[best], separate };
+  };
+  const coarse = scan(near, far, 17);
+  const fine = scan(Math.max(Math.min(near, far), Math.min(coarse.from, coarse.to)), Math.min(Math.max(near, far), Math.max(coarse.from, coarse.to)), 11);
+  const from = Math.min(fine.from, fine.to);
+  const to = Math.max(fine.from, fine.to);
+  return { from, to, best: fine.bestChi <= coarse.bestChi ? fine.best : coarse.best, twoMinima: coarse.separate || fine.separate };
 }

@@ -20,10 +20,11 @@
  * Bias is the sample bias: positive bias probes empty states, so the conduction band is at V > 0 side.
  */
 import { broadeningKernel, energyResolution_mV } from "../resolution";
-import { type ExtractionSettings, resolveExtractionSettings, type DeepPartial } from "../settings";
+import { DEFAULT_EXTRACTION_SETTINGS, type ExtractionSettings, resolveExtractionSettings, type DeepPartial } from "../settings";
 import { smoothSpectrum } from "../smooth/apply";
-import { madSigma, quantile } from "../stats";
-import { fitEdges } from "./fit";
+import { linearLeastSquares, madSigma, quantile } from "../stats";
+import { type Baseline, autocorrelationTime, baselineAt, fitBaselineOn, trimOnsets } from "./baseline";
+import { edgeProfileRange, fitEdges } from "./fit";
 import { noiseFloor } from "./noise";
 import { logOnset, thresholdEdgeDown, thresholdEdgeUp } from "./threshold";
 import type { SpectrumMeta } from "../import/types";
@@ -57,6 +58,86 @@ export interface GapPick {
   warnings: string[];
   /** Reasons the pick may not be trusted (flags.ts); empty when nothing is in doubt. */
   flags: QualityFlag[];
+}
+
+/**
+ * Is the spectrum one continuous V (a closed or nearly closed gap, Dirac-like) rather than a floor
+ * between two onsets? Fit a + b·V + v·|V − m| (m scanned) over the threshold gap and a band window on
+ * each side; a V explains a V-shaped spectrum to the noise, while a gap's onsets (steps above the V)
+ * leave large residuals. Both arms must rise. Judged on three windows (each band window and the middle third of the gap):
+ * the largest mean residual in units of its standard error (n_eff = n/τ); with the best m and slope.
+ */
+/** x minus its centred moving average over `w` points (shorter at the ends), by running sums. */
+function minusMovingAverage(x: Float64Array, w: number): Float64Array {
+  const n = x.length;
+  const h = Math.max(1, Math.floor(Math.min(w, n) / 2));
+  const cum = new Float64Array(n + 1);
+  for (let i = 0; i < n; i++) cum[i + 1] = cum[i] + x[i];
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const a = Math.max(0, i - h);
+    const b = Math.min(n, i + h + 1);
+    out[i] = x[i] - (cum[b] - cum[a]) / (b - a);
+  }
+  return out;
+}
+
+function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number, iMin: number, minExt: number, sigma: number, tau: number): { deviation: number; m: number; v: number; sigma: number; tau: number } | null {
+  // Band windows as wide as the gap: a V seen only inside a wider gap (in-gap states) is not one.
+  const ext = Math.max(minExt, ic - iv);
+  const j0 = Math.max(0, iv - ext);
+  const j1 = Math.min(bias.length - 1, ic + ext);
+  if (j1 - j0 + 1 < 12 || !(sigma > 0)) return null;
+  // A long window is read every k-th point (standard errors still count every point, which makes the
+  // test stricter, never looser).
+  const k = Math.max(1, Math.ceil((j1 - j0 + 1) / 240));
+  const n = Math.floor((j1 - j0) / k) + 1;
+  const bs = Float64Array.from({ length: n }, (_, i) => bias[j0 + i * k]);
+  const yy = Float64Array.from({ length: n }, (_, i) => y[j0 + i * k]);
+  const i0 = 0;
+  iv = Math.round((iv - j0) / k);
+  ic = Math.round((ic - j0) / k);
+  iMin = Math.round((iMin - j0) / k);
+  bias = bs;
+  const one = new Float64Array(n).fill(1);
+  const lin = Float64Array.from({ length: n }, (_, i) => bias[i] - bias[0]);
+  const vcol = new Float64Array(n);
+  // Each band window and the middle third of the gap, in three chunks each: a V must explain every
+  // chunk (a mean residual over a long window could hide a misfit of the wrong shape).
+  const third = Math.floor((ic - iv) / 3);
+  const chunks: [number, number][] = [];
+  for (const [a, b] of [[0, iv - i0], [ic - i0, n - 1], [iv - i0 + third, ic - i0 - third]]) {
+    if (b < a) continue;
+    const len = b - a + 1;
+    const parts = len >= 12 ? 3 : 1;
+    for (let k = 0; k < parts; k++) chunks.push([a + Math.floor((k * len) / parts), a + Math.floor(((k + 1) * len) / parts) - 1]);
+  }
+  // The vertex lies at the spectrum's minimum, within a sixth of the threshold gap.
+  const span = Math.max(1, Math.round((ic - iv) / 6));
+  const mFrom = bias[Math.max(iv, iMin - span)];
+  const mTo = bias[Math.min(ic, iMin + span)];
+  let best: { deviation: number; m: number; v: number; coef: Float64Array } | null = null;
+  for (let t = 0; t <= 8; t++) {
+    const m = mFrom + ((mTo - mFrom) * t) / 8;
+    for (let i = 0; i < n; i++) vcol[i] = Math.abs(bias[i0 + i] - m);
+    const r = linearLeastSquares([one, lin, vcol], yy);
+    // Both arms must rise (slopes v ± b within a factor of 4): one flat arm is a weak onset, not a V.
+    if (!r || !(r.coef[2] > 0) || Math.abs(r.coef[1]) > 0.6 * r.coef[2]) continue;
+    let worst = 0;
+    for (const [a, b] of chunks) {
+      let sum = 0;
+      for (let i = a; i <= b; i++) sum += yy[i] - (r.coef[0] + r.coef[1] * lin[i] + r.coef[2] * vcol[i]);
+      const cnt = b - a + 1;
+      worst = Math.max(worst, Math.abs(sum / cnt) / (sigma * Math.sqrt(Math.max(1, tau) / (cnt * k))));
+    }
+    if (!best || worst < best.deviation) best = { deviation: worst, m, v: r.coef[2], coef: r.coef };
+  }
+  if (!best) return null;
+  // The noise about the V itself (the baseline's σ of a V-shaped spectrum holds the V's misfit).
+  const res = new Float64Array(n);
+  for (let i = 0; i < n; i++) res[i] = yy[i] - (best.coef[0] + best.coef[1] * lin[i] + best.coef[2] * Math.abs(bias[i0 + i] - best.m));
+  const ac = autocorrelationTime(res);
+  return { deviation: best.deviation, m: best.m, v: best.v, sigma: madSigma(res), tau: ac.tau };
 }
 
 export interface PickInput {
@@ -110,7 +191,8 @@ export function despike(y: Float64Array): { y: Float64Array; replaced: number; i
  * @throws RangeError for mismatched lengths, fewer than 10 points or non-finite values
  */
 export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSettings> | ExtractionSettings): GapPick {
-  const st = resolveExtractionSettings(settings as DeepPartial<ExtractionSettings>);
+  // The defaults are valid as they are: validating them again for every spectrum costs more than a fit.
+  const st = settings === undefined ? DEFAULT_EXTRACTION_SETTINGS : resolveExtractionSettings(settings as DeepPartial<ExtractionSettings>);
   const n = input.bias_V.length;
   if (n !== input.didv.length) throw new RangeError("bias and dI/dV must have the same length");
   if (n < 10) throw new RangeError(`a spectrum needs at least 10 points, got ${n}`);
@@ -190,21 +272,82 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   // Keep the minimum search away from the filter's end effects.
   const margin = Math.min(3, Math.floor((hi - lo) / 4));
   const nf = noiseFloor(y, s, sm.gain, st.threshold.k, lo + margin, hi - margin);
-  const thr = nf.floor + st.threshold.k * nf.sigmaSmoothed;
-  const base = { noiseFloor: nf.floor, noiseSigma: nf.sigma, threshold: thr };
   const top = quantile(s.subarray(lo, hi + 1), 0.95);
-  if (!(top > nf.floor) || nf.floor > st.metallicFloorRatio * top) return empty("metallic spectrum: no quiet region near zero (no gap)", base);
-  // A run shorter than the smoothing window can be one noise excursion seen through the filter.
-  const N = Math.max(st.threshold.consecutive, sm.windowPoints);
-  const edgesAt = (k: number) => {
-    const t = nf.floor + k * nf.sigmaSmoothed;
-    return { c: thresholdEdgeUp(bias, s, nf.iMin, hi, t, N), v: thresholdEdgeDown(bias, s, nf.iMin, lo, t, N) };
+  if (!(top > nf.floor) || nf.floor > st.metallicFloorRatio * top)
+    return empty("metallic spectrum: no quiet region near zero (no gap)", { noiseFloor: nf.floor, noiseSigma: nf.sigma, threshold: nf.floor + st.threshold.k * nf.sigmaSmoothed });
+  // Noise at the smoothing scale, correlated noise included: the smoothed curve about a much wider
+  // smoothing of itself (band edges are a few points there, which the MAD ignores).
+  const dW = minusMovingAverage(s.subarray(lo, hi + 1), 6 * sm.windowPoints + 1);
+  const sigmaWide = Math.max(madSigma(dW), nf.sigmaSmoothed);
+  // A band edge is a sustained rise: a run shorter than this can be a slow noise excursion. Near the
+  // end of the search range a shorter run is accepted.
+  const Nshort = Math.max(st.threshold.consecutive, sm.windowPoints);
+  const Nlong = Math.max(Nshort, Math.round(st.threshold.sustain_mV / 1000 / step), Math.round(3 * res_V / step));
+  // Near the end of the range a shorter run counts only if it lasts to the end.
+  const walk = (dd: Float64Array, start: number, t: number) => {
+    let c = thresholdEdgeUp(bias, dd, start, hi, t, Nlong);
+    if (!c) {
+      const short = thresholdEdgeUp(bias, dd, start, hi, t, Nshort);
+      if (short && short.index + Nlong - 1 > hi && dd.subarray(short.index, hi + 1).every((x) => x > t)) c = short;
+    }
+    let v = thresholdEdgeDown(bias, dd, start, lo, t, Nlong);
+    if (!v) {
+      const short = thresholdEdgeDown(bias, dd, start, lo, t, Nshort);
+      if (short && short.index - Nlong + 1 < lo && dd.subarray(lo, short.index + 1).every((x) => x > t)) v = short;
+    }
+    return { c, v };
   };
-  const main = edgesAt(st.threshold.k);
+  // 1. Edges against a flat floor; 2. the gap between them is the quiet region: fit the baseline
+  // there, read the edges against it, and repeat until they stay put (edges/baseline.ts).
+  const d = new Float64Array(n);
+  for (let i = 0; i < n; i++) d[i] = s[i] - nf.floor;
+  let e = walk(d, nf.iMin, st.threshold.k * sigmaWide);
+  const keep = Math.max(1, Math.ceil(res_V / step));
+  const base = new Float64Array(n);
+  let bl: Baseline | null = null;
+  for (let round = 0; round < 5; round++) {
+    let from = e.v ? e.v.index + keep : lo + margin;
+    let to = e.c ? e.c.index - keep : hi - margin;
+    if (to - from < 6) {
+      const mid = e.v && e.c ? (e.v.index + e.c.index) >> 1 : nf.iMin;
+      from = Math.max(lo, mid - 3);
+      to = Math.min(hi, mid + 3);
+    }
+    if (!e.v || !e.c) {
+      // A side without an edge may hold a weak band that the baseline would follow: look for its onset.
+      const tr = trimOnsets(bias, y, from, to, Math.min(st.baseline.maxDegree, 1), 0.5 * (bias[from] + bias[to]), nf.sigma, 1, 30);
+      from = tr.from;
+      to = tr.to;
+    }
+    bl = fitBaselineOn(bias, y, s, sm.gain, from, to, st.baseline.maxDegree, st.baseline.widthPerDegree_mV / 1000);
+    for (let i = 0; i < n; i++) {
+      base[i] = baselineAt(bl, bias[i]);
+      d[i] = s[i] - base[i];
+    }
+    const next = walk(d, bl.iMin, st.threshold.k * bl.sigmaSmoothed);
+    (globalThis as any).__trace?.push({ round, e: [e.v?.edge, e.c?.edge], region: [bias[from], bias[to]], deg: bl.degree, coef: Array.from(bl.coef), iMin: bias[bl.iMin], sigS: bl.sigmaSmoothed, next: [next.v?.edge, next.c?.edge] });
+    const same = next.v?.index === e.v?.index && next.c?.index === e.c?.index;
+    // An edge lost against the new baseline means that baseline does not hold beyond its region
+    // (a polynomial extrapolated): keep the edges that had one.
+    if (same || ((!next.v || !next.c) && e.v && e.c)) break;
+    e = next;
+  }
+  bl = bl!;
+  const yd = new Float64Array(n);
+  for (let i = 0; i < n; i++) yd[i] = y[i] - base[i];
+  const sigS = bl.sigmaSmoothed;
+  const thr = base[bl.iMin] + st.threshold.k * sigS;
+  const baseInfo = { noiseFloor: base[bl.iMin], noiseSigma: bl.sigma, threshold: thr };
+  const edgesAt = (k: number) => walk(d, bl.iMin, k * sigS);
+  const main = e;
+  (globalThis as any).__pickDebug = { baseline: Array.from(base), thrline: Array.from(base, (b) => b + st.threshold.k * sigS), bl };
   if (!main.c || !main.v) {
     const side = !main.c && !main.v ? "either side" : !main.c ? "the conduction-band side" : "the valence-band side";
-    return empty(`no band edge on ${side} within the bias range (no gap)`, base);
+    return empty(`no band edge on ${side} within the bias range (no gap)`, baseInfo);
   }
+  const vShape = vShapeTest(bias, y, main.v.index, main.c.index, bl.iMin, Math.max(4, Math.round(st.fit.minBandWindow_mV / 1000 / step)), bl.sigma, bl.tau);
+  (globalThis as any).__vs = vShape;
+  const isV = vShape !== null && vShape.deviation < st.closed.vShapeMaxDeviation;
   const kLo = edgesAt(Math.max(1, st.threshold.k - 1));
   const kHi = edgesAt(st.threshold.k + 1);
   const sens = (a: number | undefined, b: number | undefined, fallback: number) => (a !== undefined && b !== undefined ? Math.abs(b - a) / 2 : fallback);
@@ -212,8 +355,8 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   const cbSens = sens(kLo.c?.edge, kHi.c?.edge, res_V);
   const W = Math.max(st.fit.bandWindowPerResolution * res_V, st.fit.minBandWindow_mV / 1000, 8 * step);
   const span = Math.max(4, Math.round(W / step));
-  const logV = logOnset(bias, s, main.v.index, -1, span, nf.floor, nf.sigmaSmoothed, lo, hi);
-  const logC = logOnset(bias, s, main.c.index, 1, span, nf.floor, nf.sigmaSmoothed, lo, hi);
+  const logV = logOnset(bias, d, main.v.index, -1, span, 0, sigS, lo, hi);
+  const logC = logOnset(bias, d, main.c.index, 1, span, 0, sigS, lo, hi);
   let vb = main.v.edge;
   let cb = main.c.edge;
   const sampling = step / Math.sqrt(12);
@@ -222,31 +365,89 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   let method: GapPick["method"] = "threshold";
   let consistentWithZero = false;
   let gapSigmaProfile = 0;
+  let f_warnings: string[] = [];
   if (st.fit.enabled) {
     const kern = broadeningKernel(T, vrms);
-    const f = fitEdges({ bias, y, kernel: kern, vbGuess: vb, cbGuess: cb, sigma: nf.sigma, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
+    // A V-shaped spectrum (one continuous V, no floor between onsets) is fitted as two onsets close to
+    // its minimum, on the raw data (the baseline took in part of the V).
+    const g = Math.max(res_V, 2 * step);
+    const f = isV
+      ? fitEdges({ bias, y, kernel: kern, vbGuess: vShape.m - g, cbGuess: vShape.m + g, sigma: vShape.sigma, tau: vShape.tau, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi })
+      : fitEdges({ bias, y: yd, kernel: kern, vbGuess: vb, cbGuess: cb, sigma: bl.sigma, tau: bl.tau, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
     if (f && Number.isFinite(f.vb) && Number.isFinite(f.cb) && f.cb >= f.vb) {
       vb = f.vb;
       cb = f.cb;
       const fs = (x: number) => (Number.isFinite(x) ? x : res_V);
-      vbSigma = Math.hypot(fs(f.vbSigma), sampling / 4, 0.05 * res_V);
-      cbSigma = Math.hypot(fs(f.cbSigma), sampling / 4, 0.05 * res_V);
+      // Correlated noise: the curvature σ assumes independent points; √τ restores the effective count.
+      const infl = Math.sqrt(bl.tau);
+      vbSigma = Math.hypot(infl * fs(f.vbSigma), sampling / 4, 0.05 * res_V);
+      cbSigma = Math.hypot(infl * fs(f.cbSigma), sampling / 4, 0.05 * res_V);
       method = f.mode === "joint" ? "fit-joint" : "fit-separate";
       // Zero-gap model has two parameters fewer (the gap and one step): χ²₂ 95% quantile 5.991.
       consistentWithZero = f.closedDeltaChi2 !== null && f.closedDeltaChi2 < 5.991464547107979;
       gapSigmaProfile = f.gapSigmaProfile ?? 0;
       warnings.push(...f.warnings);
+      f_warnings = f.warnings;
     } else {
       warnings.push("broadening-aware fit failed; threshold edges reported");
     }
   }
+  const mV = (v: number) => `${(v * 1000).toFixed(0)} mV`;
+  const sideName = { vb: "valence-band", cb: "conduction-band" } as const;
+  if (method === "fit-separate") {
+    // How well does the data fix each edge? The profile of the one-onset model from the other edge to
+    // the band: a weak onset gives a wide range, the honest uncertainty of its edge.
+    const kern = broadeningKernel(T, vrms);
+    const inner = 2 * res_V + 2 * step;
+    const pv = edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "vb", cb - inner, vb - W / 2, vb - W, bl.sigma, bl.tau);
+    const pc = edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "cb", vb + inner, cb + W / 2, cb + W, bl.sigma, bl.tau);
+    for (const [side, pr] of [["vb", pv], ["cb", pc]] as const) {
+      if (!pr) continue;
+      const half = (pr.to - pr.from) / 2;
+      const sig = half / 1.959963984540054;
+      const edge = side === "vb" ? vb : cb;
+      if (side === "vb") vbSigma = Math.max(vbSigma, sig);
+      else cbSigma = Math.max(cbSigma, sig);
+      if (pr.twoMinima)
+        flags.push({
+          code: "unreliable-edge",
+          message: `Two places fit the ${sideName[side]} edge about equally well, between ${mV(pr.from)} and ${mV(pr.to)}: an in-gap feature or a second onset; ${mV(edge)} is the best fit.`,
+          at_V: [pr.from, pr.to],
+        });
+      else if (half > Math.max(3 * res_V, 0.015, 4 * step)) {
+        flags.push({
+          code: "noisy",
+          message: `The ${sideName[side]} onset is weak against the noise: its edge could lie anywhere from ${mV(pr.from)} to ${mV(pr.to)} (95%); ${mV(edge)} is the best fit.`,
+          at_V: [pr.from, pr.to],
+        });
+      }
+    }
+    if (f_warnings.some((w) => w.includes("search limit")))
+      flags.push({ code: "unreliable-edge", message: "The edge fit reached the end of its search range: the onset does not look like a band edge there." });
+  }
+  // The in-gap floor: say so when it slopes or curves enough to matter for the threshold.
+  if (bl.degree > 0) {
+    const change = Math.abs(baselineAt(bl, cb) - baselineAt(bl, vb));
+    const stepV = d[Math.max(lo, main.v.index - span)];
+    const stepC = d[Math.min(hi, main.c.index + span)];
+    if (change > Math.max(5 * sigS, 0.1 * Math.min(stepV, stepC)))
+      flags.push({ code: "sloped-background", message: `The in-gap floor is not flat (a ${bl.degree === 1 ? "linear" : "quadratic"} baseline changes by ${(change / Math.max(sigS, 1e-300)).toFixed(0)}σ across the gap); the edges were read against it.` });
+  }
   const gap = Math.max(0, cb - vb);
-  let uncertainty = Math.max(Math.hypot(vbSigma, cbSigma), gapSigmaProfile);
-  if (consistentWithZero) {
+  // Jointly fitted edges are strongly correlated: the gap's own profile is its uncertainty (the edges'
+  // separate σ add in quadrature only for separate fits).
+  let uncertainty = method === "fit-joint" ? Math.max(gapSigmaProfile, Math.hypot(sampling / 4, 0.05 * res_V)) : Math.max(Math.hypot(vbSigma, cbSigma), gapSigmaProfile);
+  if (consistentWithZero && isV) {
     // A zero gap fits as well (Δχ² < 5.99): widen the error bar so that its 95% range reaches zero.
     uncertainty = Math.max(uncertainty, gap / 1.959963984540054);
-    warnings.push("gap consistent with zero at 95% (closed within resolution)");
   }
+  // Closed only where the data pin the gap down: its 95% upper bound within five resolutions (20 mV).
+  const bound = gap + 1.959963984540054 * uncertainty;
+  const pinned = bound <= Math.max(5 * res_V, 0.02);
+  const closed = isV && (gap < res_V || consistentWithZero) && pinned;
+  if (closed) warnings.push("gap consistent with zero at 95% (closed within resolution)");
+  else if (isV && !pinned)
+    flags.push({ code: "unreliable-edge", message: `A V-shaped minimum without a flat floor, but the data do not pin the gap down: anywhere from 0 to ${mV(bound)} (95%).` });
   return {
     status: "ok",
     vbEdge_V: vb,
@@ -256,9 +457,10 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     uncertainty_eV: uncertainty,
     vbSigma_V: vbSigma,
     cbSigma_V: cbSigma,
-    closed: gap < res_V || consistentWithZero,
+    // "Closed" needs evidence: a V-shaped minimum, and a gap below the resolution or consistent with zero.
+    closed,
     resolution_meV: res_mV,
-    ...base,
+    ...baseInfo,
     method,
     threshold_edges: { vbEdge_V: main.v.edge, cbEdge_V: main.c.edge },
     logCheck: { vbEdge_V: logV, cbEdge_V: logC },

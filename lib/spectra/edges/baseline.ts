@@ -1,0 +1,226 @@
+/**
+ * The in-gap baseline and the noise about it.
+ *
+ * Real dI/dV spectra have an in-gap floor that slopes or curves (the tip's density of states, the
+ * bias-dependent transmission, a setpoint effect, capacitive leakage into the lock-in), and noise that
+ * is correlated from point to point (the lock-in's time constant, 1/f noise of the junction, drift). A
+ * constant floor with a σ from first differences fails on both: the floor crosses a threshold early and
+ * the σ misses the slow noise. So:
+ *
+ * 1. The baseline is a robust polynomial of low degree (0–2, chosen by the quiet region's width and
+ *    the settings) fitted by least squares to the raw points of the quiet region, with points beyond
+ *    3σ of the fit left out and the fit repeated (iterative sigma clipping; common practice).
+ * 2. The quiet region is the run of points around the minimum of (smoothed − baseline) that stay below
+ *    baseline + level; it and the baseline are found together in a few passes.
+ * 3. σ of the raw data is 1.4826 × MAD of the residuals about the baseline; σ of the smoothed curve is
+ *    measured the same way on the smoothed residuals, so correlated noise (which smoothing removes less
+ *    well than white noise) is seen at the scale the threshold reads — never below the white-noise
+ *    prediction σ × gain.
+ * 4. The residuals' integrated autocorrelation time τ = 1 + 2 Σₖ ρₖ (summed while ρₖ > 0, up to a
+ *    window of 5τ; Sokal's automatic windowing, common practice) gives the effective sample size
+ *    n_eff = n / τ; for AR(1) noise τ = (1 + ρ)/(1 − ρ), the textbook variance inflation of a mean
+ *    (H. von Storch & F. W. Zwiers, Statistical Analysis in Climate Research, 1999; from memory).
+ *    Standard errors of quantities fitted to the raw data are multiplied by √τ.
+ */
+import { linearLeastSquares, madSigma, median, solveLinear } from "../stats";
+
+export interface Baseline {
+  /** Polynomial coefficients in powers of (V − center). */
+  coef: Float64Array;
+  center: number;
+  degree: number;
+  /** σ of the raw data about the baseline (quiet region). */
+  sigma: number;
+  /** σ of the smoothed curve about the baseline (quiet region), ≥ σ × gain. */
+  sigmaSmoothed: number;
+  /** Integrated autocorrelation time of the raw residuals (1 for white noise). */
+  tau: number;
+  /** Lag-1 autocorrelation of the raw residuals. */
+  rho1: number;
+  /** Inclusive index range of the quiet region. */
+  from: number;
+  to: number;
+  /** Index of the minimum of smoothed − baseline. */
+  iMin: number;
+}
+
+export function baselineAt(b: Pick<Baseline, "coef" | "center">, v: number): number {
+  const x = v - b.center;
+  let y = 0;
+  for (let k = b.coef.length - 1; k >= 0; k--) y = y * x + b.coef[k];
+  return y;
+}
+
+/** Least-squares polynomial of `degree` in (V − center) through the used points; null if singular. */
+function polyFit(bias: Float64Array, y: Float64Array, from: number, to: number, degree: number, center: number, use: Uint8Array): Float64Array | null {
+  const p = degree + 1;
+  const a = new Float64Array(p * p);
+  const r = new Float64Array(p);
+  const pw = new Float64Array(2 * p);
+  // Scale x to order one for conditioning.
+  const scale = Math.max(Math.abs(bias[from] - center), Math.abs(bias[to] - center), 1e-9);
+  for (let i = from; i <= to; i++) {
+    if (!use[i - from]) continue;
+    const x = (bias[i] - center) / scale;
+    pw[0] = 1;
+    for (let k = 1; k < 2 * p; k++) pw[k] = pw[k - 1] * x;
+    for (let j = 0; j < p; j++) {
+      r[j] += pw[j] * y[i];
+      for (let k = 0; k < p; k++) a[j * p + k] += pw[j + k];
+    }
+  }
+  const c = solveLinear(a, r, p);
+  if (!c) return null;
+  for (let k = 1; k < p; k++) c[k] /= Math.pow(scale, k);
+  return c;
+}
+
+/** Integrated autocorrelation time and lag-1 correlation of x (mean removed). */
+export function autocorrelationTime(x: ArrayLike<number>): { tau: number; rho1: number } {
+  const n = x.length;
+  if (n < 8) return { tau: 1, rho1: 0 };
+  let mean = 0;
+  for (let i = 0; i < n; i++) mean += x[i];
+  mean /= n;
+  let c0 = 0;
+  for (let i = 0; i < n; i++) c0 += (x[i] - mean) ** 2;
+  if (!(c0 > 0)) return { tau: 1, rho1: 0 };
+  const rho = (k: number) => {
+    let c = 0;
+    for (let i = 0; i + k < n; i++) c += (x[i] - mean) * (x[i + k] - mean);
+    return c / c0;
+  };
+  const rho1 = rho(1);
+  let tau = 1;
+  const maxLag = Math.floor(n / 4);
+  for (let k = 1; k <= maxLag; k++) {
+    const r = rho(k);
+    if (r <= 0) break;
+    tau += 2 * r;
+    if (k >= 5 * tau) break;
+  }
+  return { tau: Math.max(1, tau), rho1 };
+}
+
+/**
+ * A weak band onset at an end of the quiet region looks like a slow rise that a polynomial would
+ * follow. Test each end for an onset: the polynomial plus a step and a kink, H(x) and x·H(x) at a
+ * trial edge in the outer half of the region (16 trials), against the polynomial alone. If the best
+ * trial lowers χ² (σ² × τ per point, for correlated noise) by more than `minDeltaChi2`, the region ends
+ * at that edge. Returns the new range (unchanged when no end holds an onset).
+ */
+function trimOnsets(bias: Float64Array, y: Float64Array, from: number, to: number, degree: number, center: number, sigma: number, tau: number, minDeltaChi2: number): { from: number; to: number } {
+  const npts = to - from + 1;
+  if (npts < 16 || !(sigma > 0)) return { from, to };
+  const scale = Math.max(Math.abs(bias[from] - center), Math.abs(bias[to] - center), 1e-9);
+  const poly: Float64Array[] = [];
+  for (let k = 0; k <= degree; k++) poly.push(Float64Array.from({ length: npts }, (_, i) => ((bias[from + i] - center) / scale) ** k));
+  const yy = y.subarray(from, to + 1);
+  const rss0 = linearLeastSquares(poly, yy)?.rss;
+  if (rss0 === undefined) return { from, to };
+  const out = { from, to };
+  for (const dir of [1, -1] as const) {
+    let best = { rss: Infinity, idx: -1 };
+    for (let t = 0; t < 16; t++) {
+      // Trial edges from the middle of the region to 4 points before its end.
+      const frac = 0.5 + (0.5 * t) / 16;
+      const idx = dir === 1 ? from + Math.round(frac * (npts - 5)) : to - Math.round(frac * (npts - 5));
+      const e = bias[idx];
+      const step = new Float64Array(npts);
+      const kink = new Float64Array(npts);
+      for (let i = 0; i < npts; i++) {
+        const x = dir * (bias[from + i] - e);
+        step[i] = x > 0 ? 1 : 0;
+        kink[i] = x > 0 ? x / scale : 0;
+      }
+      const r = linearLeastSquares([...poly, step, kink], yy);
+      if (!r) continue;
+      // An onset rises away from the gap: a kink that bends down is not one.
+      if (r.coef[degree + 2] <= 0) continue;
+      if (r.rss < best.rss) best = { rss: r.rss, idx };
+    }
+    if (best.idx >= 0 && (rss0 - best.rss) / (sigma * sigma * tau) > minDeltaChi2) {
+      if (dir === 1) out.to = Math.max(out.from + 4, best.idx - 1);
+      else out.from = Math.min(out.to - 4, best.idx + 1);
+    }
+  }
+  return out;
+}
+
+/**
+ * The robust baseline of the raw data over one region (the gap between the current edge estimates):
+ * a polynomial of degree ≤ maxDegree (one degree per `widthPerDegree_V` of width and per 12 points),
+ * refitted without points beyond 3σ until stable (three rounds at most); σ, σ of the smoothed curve,
+ * τ and ρ₁ from the residuals.
+ */
+export function fitBaselineOn(
+  bias: Float64Array,
+  y: Float64Array,
+  s: Float64Array,
+  gain: number,
+  from: number,
+  to: number,
+  maxDegree: number,
+  widthPerDegree_V: number,
+): Baseline {
+  const npts = to - from + 1;
+  const width = bias[to] - bias[from];
+  const allowed = Math.max(0, Math.min(maxDegree, Math.floor(width / widthPerDegree_V), Math.floor(npts / 12)));
+  const center = 0.5 * (bias[from] + bias[to]);
+  const res = new Float64Array(npts);
+  const robust = (degree: number) => {
+    const use = new Uint8Array(npts).fill(1);
+    let coef: Float64Array = new Float64Array([median(y.subarray(from, to + 1))]);
+    let sigma = 0;
+    let rss = 0;
+    for (let it = 0; it < 3; it++) {
+      coef = polyFit(bias, y, from, to, degree, center, use) ?? coef;
+      for (let i = from; i <= to; i++) res[i - from] = y[i] - baselineAt({ coef, center }, bias[i]);
+      sigma = madSigma(res);
+      let changed = false;
+      rss = 0;
+      for (let i = 0; i < npts; i++) {
+        const u = Math.abs(res[i]) <= 3 * sigma ? 1 : 0;
+        if (u) rss += res[i] * res[i];
+        if (u !== use[i]) changed = true;
+        use[i] = u;
+      }
+      if (!changed) break;
+    }
+    return { coef, sigma, rss };
+  };
+  // Degree by a penalised χ²: a higher degree must lower χ² (σ² per point, τ for correlation) by more
+  // than DEGREE_PENALTY, so a slope or curve is used only where the data show it; a polynomial fitted
+  // to noise would tilt the floor and move the edges when extrapolated.
+  let best = robust(0);
+  let degree = 0;
+  if (allowed > 0) {
+    const tau0 = autocorrelationTime(res).tau;
+    const sig2 = best.sigma * best.sigma * tau0;
+    let score = best.rss / sig2;
+    for (let d = 1; d <= allowed; d++) {
+      const r = robust(d);
+      const sc = r.rss / sig2 + DEGREE_PENALTY * d;
+      if (sc < score) {
+        score = sc;
+        best = r;
+        degree = d;
+      }
+    }
+  }
+  const { coef, sigma } = best;
+  for (let i = from; i <= to; i++) res[i - from] = y[i] - baselineAt({ coef, center }, bias[i]);
+  const rs = new Float64Array(npts);
+  let iMin = from;
+  for (let i = from; i <= to; i++) {
+    rs[i - from] = s[i] - baselineAt({ coef, center }, bias[i]);
+    if (rs[i - from] < rs[iMin - from]) iMin = i;
+  }
+  const { tau, rho1 } = autocorrelationTime(res);
+  return { coef, center, degree, sigma, sigmaSmoothed: Math.max(madSigma(rs), sigma * gain), tau, rho1, from, to, iMin };
+}
+
+/** χ² a baseline degree must earn (a 3σ-like level for one parameter, with room for non-Gaussian noise). */
+const DEGREE_PENALTY = 12;
+
+export { trimOnsets };
