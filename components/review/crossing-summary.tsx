@@ -1,6 +1,7 @@
 "use client";
 
 import { CrossingBadge } from "@/components/ui/badge";
+import { deltaBicInWords } from "@/lib/format";
 import type { PhaseData } from "./phase-plot";
 import { usePhaseOf } from "./sample-queries";
 
@@ -55,7 +56,8 @@ export function CrossingSummary({ lab, sampleId, initial }: { lab: string; sampl
       ) : null}
       {comparison?.deltaBic != null ? (
         <p className="text-xs text-ink-soft">
-          model comparison: V-shape versus straight line, ΔBIC = <span className="num">{comparison.deltaBic > 100 ? "> 100" : comparison.deltaBic.toFixed(1)}</span> ({comparison.deltaBic >= 6 ? "strong" : comparison.deltaBic >= 2 ? "some" : "no"} preference for closing and reopening)
+          model comparison, V-shape versus straight line: <span data-testid="delta-bic">{deltaBicInWords(comparison.deltaBic)}</span>{" "}
+          <span className="text-muted">(the line&apos;s BIC minus the V&apos;s: above 0 favours the V, 6 or more strongly)</span>
         </p>
       ) : null}
       {"n" in c ? <p className="text-xs text-muted">{c.n} spectra in the fit · fitted {"fittedAt" in c && c.fittedAt ? `${c.fittedAt.slice(0, 16).replace("T", " ")} UTC` : ""}</p> : null}

@@ -9,7 +9,7 @@ import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { EdgeBox } from "./edge-box";
 import { api, ApiError } from "@/lib/api-client";
-import { fileStem, formatGap } from "@/lib/format";
+import { fileStem, formatGap, pickMethodInWords } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
 import type { getSpectrum } from "@/lib/services/spectra/readSpectra";
 
@@ -309,7 +309,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
               {pick ? (
                 <span className="flex gap-1">
                   {pick.excluded ? <Badge tone="danger">excluded</Badge> : null}
-                  {pick.source === "corrected" ? <Badge tone="copper">✎ corrected</Badge> : <Badge>auto · {pick.method}</Badge>}
+                  {pick.source === "corrected" ? <Badge tone="copper">✎ corrected</Badge> : <Badge title={`method: ${pick.method}`}>auto · {pickMethodInWords(pick.method)}</Badge>}
                   <span className="num text-xs text-muted">v{pick.version}</span>
                 </span>
               ) : null}

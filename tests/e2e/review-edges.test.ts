@@ -124,6 +124,10 @@ describe("keyboard review", () => {
   it("moves the selected edge in fine and coarse steps, switches edges, and A records an acceptance the history and the phase key count; the help names these keys", async () => {
     const { context, page } = await signedIn(lab.people.analyst.email);
     await openReview(page, ids[7]);
+    // The pick's method in words, not the picker's internal name.
+    const badge = (await page.textContent('section[aria-label="Band edges"]'))!;
+    expect(badge).toMatch(/auto · (each edge fitted|both edges fitted together)/);
+    expect(badge).not.toMatch(/fit-separate|fit-joint/);
     const help = (await page.textContent('[data-testid="review-keys"]'))!;
     for (const words of [", .", "1 mV", "< >", "10 mV", "E", "valence", "conduction", "A accept"]) expect(help).toContain(words);
     const review = '[data-testid="spectrum-review"]';

@@ -113,6 +113,8 @@ describe("the sample page stays current", () => {
     expect(run.done).toBe(run.total);
     expect(await page.evaluate(() => (window as unknown as { sameDocument?: boolean }).sameDocument)).toBe(true);
     await shot(page, "sample-after-field-model");
+    // The model comparison is a number with its meaning, never "> 100" or a bare value.
+    expect(await page.textContent('[data-testid="delta-bic"]')).toMatch(/^ΔBIC = −?[\d,]+(\.\d)?: (strong|some) preference for (closing and reopening|a straight line)/);
 
     // The old crossing cannot be confirmed: 409, and the message names the current value.
     const api = `${APP_URL}/api/v1/samples/${sampleId}/crossing/confirm?lab=${lab.lab.slug}`;
