@@ -24,6 +24,8 @@ export interface GapJson {
   cbSigma_V: number | null;
   resolution_meV: number;
   method: string;
+  /** Quality flags: reasons the pick may not be trusted (code and plain-words message). */
+  flags: { code: string; message: string }[];
 }
 
 export interface Entry {
@@ -147,6 +149,7 @@ function gapJson(p: GapPick): GapJson {
     cbSigma_V: p.cbSigma_V,
     resolution_meV: p.resolution_meV,
     method: p.method,
+    flags: p.flags.map((f) => ({ code: f.code, message: f.message })),
   };
 }
 

@@ -36,6 +36,7 @@ export {
   fwhmOf,
   type BroadeningKernel,
 } from "./resolution";
+export { compareRepeats, type RepeatInput } from "./edges";
 export { pickGap, QUALITY_FLAG_CODES, QUALITY_FLAG_LABELS, QUALITY_FLAG_HELP, type GapPick, type PickInput, type QualityFlag, type QualityFlagCode } from "./edges";
 export { tunnellingDistance, decayConstant_per_nm, apparentBarrierHeight_eV, type TunnellingDistanceInput } from "./distance";
 export { estimateField, fieldAssumptions, type FieldEstimate } from "./field";

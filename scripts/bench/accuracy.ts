@@ -26,7 +26,7 @@ const BENCH_SEED = 15_417;
 const root = new URL("../../", import.meta.url).pathname;
 const line = (s = "") => process.stdout.write(s + "\n");
 
-type Picker = Pick<typeof current, "pickGap" | "quantile">;
+type Picker = Pick<typeof current, "pickGap" | "quantile"> & Partial<Pick<typeof current, "compareRepeats">>;
 interface Outcome {
   entry: SuiteEntry;
   gap: number | null;
@@ -43,12 +43,23 @@ const cpuMs = (from: NodeJS.CpuUsage) => {
 
 function runPicker(p: Picker, suite: SuiteEntry[]): { outcomes: Outcome[]; ms: number } {
   const t = process.cpuUsage();
-  const outcomes = suite.map((entry) => {
-    const r = p.pickGap(entry.spectrum);
+  const picks = suite.map((entry) => p.pickGap(entry.spectrum));
+  const ms = cpuMs(t) / suite.length;
+  const outcomes = suite.map((entry, i) => {
+    const r = picks[i];
     const flags = ((r as { flags?: { code: string }[] }).flags ?? []).map((f) => f.code);
     return { entry, gap: r.status === "ok" ? r.gap_eV : null, u: r.uncertainty_eV, closed: r.closed, flags };
   });
-  return { outcomes, ms: cpuMs(t) / suite.length };
+  // Repeats at one point are compared with each other (pickers that can).
+  if ("compareRepeats" in p && typeof p.compareRepeats === "function") {
+    const groups = new Map<string, number[]>();
+    suite.forEach((e, i) => e.group && groups.set(e.group, [...(groups.get(e.group) ?? []), i]));
+    for (const idx of groups.values()) {
+      const flags = (p.compareRepeats as typeof current.compareRepeats)(idx.map((i) => ({ bias_V: suite[i].spectrum.bias_V, didv: suite[i].spectrum.didv, pick: picks[i] as current.GapPick })));
+      idx.forEach((i, k) => outcomes[i].flags.push(...flags[k].map((f) => f.code)));
+    }
+  }
+  return { outcomes, ms };
 }
 
 const f1 = (x: number) => (Number.isFinite(x) ? x.toFixed(1) : "—");

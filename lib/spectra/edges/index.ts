@@ -3,3 +3,4 @@ export { fitEdges } from "./fit";
 export { noiseFloor } from "./noise";
 export { thresholdEdgeUp, thresholdEdgeDown, logOnset } from "./threshold";
 export { QUALITY_FLAG_CODES, QUALITY_FLAG_LABELS, QUALITY_FLAG_HELP, type QualityFlag, type QualityFlagCode } from "./flags";
+export { compareRepeats, type RepeatInput } from "./repeats";

@@ -19,7 +19,7 @@
  * uncertainty is widened so that the 95% range reaches zero.
  * Bias is the sample bias: positive bias probes empty states, so the conduction band is at V > 0 side.
  */
-import { broadeningKernel, energyResolution_mV } from "../resolution";
+import { type BroadeningKernel, broadeningKernel, convolvedOnset, energyResolution_mV } from "../resolution";
 import { DEFAULT_EXTRACTION_SETTINGS, type ExtractionSettings, resolveExtractionSettings, type DeepPartial } from "../settings";
 import { smoothSpectrum } from "../smooth/apply";
 import { linearLeastSquares, madSigma, quantile } from "../stats";
@@ -62,7 +62,7 @@ export interface GapPick {
 
 /**
  * Is the spectrum one continuous V (a closed or nearly closed gap, Dirac-like) rather than a floor
- * between two onsets? Fit a + b·V + v·|V − m| (m scanned) over the threshold gap and a band window on
+ * between two onsets? Fit a + b·V + v·(K ∗ |V − m|) (m scanned, K the broadening kernel) over the threshold gap and a band window on
  * each side; a V explains a V-shaped spectrum to the noise, while a gap's onsets (steps above the V)
  * leave large residuals. Both arms must rise. Judged on three windows (each band window and the middle third of the gap):
  * the largest mean residual in units of its standard error (n_eff = n/τ); with the best m and slope.
@@ -82,7 +82,7 @@ function minusMovingAverage(x: Float64Array, w: number): Float64Array {
   return out;
 }
 
-function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number, iMin: number, minExt: number, sigma: number, tau: number): { deviation: number; m: number; v: number; sigma: number; tau: number } | null {
+function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number, iMin: number, minExt: number, sigma: number, tau: number, kern: BroadeningKernel): { deviation: number; m: number; v: number; sigma: number; tau: number } | null {
   // Band windows as wide as the gap: a V seen only inside a wider gap (in-gap states) is not one.
   const ext = Math.max(minExt, ic - iv);
   const j0 = Math.max(0, iv - ext);
@@ -102,6 +102,7 @@ function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number,
   const one = new Float64Array(n).fill(1);
   const lin = Float64Array.from({ length: n }, (_, i) => bias[i] - bias[0]);
   const vcol = new Float64Array(n);
+  const o3 = new Float64Array(3);
   // Each band window and the middle third of the gap, in three chunks each: a V must explain every
   // chunk (a mean residual over a long window could hide a misfit of the wrong shape).
   const third = Math.floor((ic - iv) / 3);
@@ -119,7 +120,13 @@ function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number,
   let best: { deviation: number; m: number; v: number; coef: Float64Array } | null = null;
   for (let t = 0; t <= 8; t++) {
     const m = mFrom + ((mTo - mFrom) * t) / 8;
-    for (let i = 0; i < n; i++) vcol[i] = Math.abs(bias[i0 + i] - m);
+    // |V − m| broadened by the same kernel as the data (its vertex is rounded over a resolution).
+    for (let i = 0; i < n; i++) {
+      convolvedOnset(kern, bias[i0 + i] - m, o3);
+      vcol[i] = o3[1];
+      convolvedOnset(kern, m - bias[i0 + i], o3);
+      vcol[i] += o3[1];
+    }
     const r = linearLeastSquares([one, lin, vcol], yy);
     // Both arms must rise (slopes v ± b within a factor of 4): one flat arm is a weak onset, not a V.
     if (!r || !(r.coef[2] > 0) || Math.abs(r.coef[1]) > 0.6 * r.coef[2]) continue;
@@ -135,7 +142,13 @@ function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number,
   if (!best) return null;
   // The noise about the V itself (the baseline's σ of a V-shaped spectrum holds the V's misfit).
   const res = new Float64Array(n);
-  for (let i = 0; i < n; i++) res[i] = yy[i] - (best.coef[0] + best.coef[1] * lin[i] + best.coef[2] * Math.abs(bias[i0 + i] - best.m));
+  for (let i = 0; i < n; i++) {
+    convolvedOnset(kern, bias[i0 + i] - best.m, o3);
+    let v = o3[1];
+    convolvedOnset(kern, best.m - bias[i0 + i], o3);
+    v += o3[1];
+    res[i] = yy[i] - (best.coef[0] + best.coef[1] * lin[i] + best.coef[2] * v);
+  }
   const ac = autocorrelationTime(res);
   return { deviation: best.deviation, m: best.m, v: best.v, sigma: madSigma(res), tau: ac.tau };
 }
@@ -184,6 +197,30 @@ export function despike(y: Float64Array): { y: Float64Array; replaced: number; i
 }
 
 /**
+ * Saturation: at least 3 points exactly at the spectrum's maximum (or minimum), 2 of them adjacent —
+ * a real signal never repeats its extreme value to the last digit.
+ */
+export function clippedRange(bias: Float64Array, y: Float64Array): { from: number; to: number; count: number; top: boolean } | null {
+  for (const top of [true, false]) {
+    let ext = y[0];
+    for (let i = 1; i < y.length; i++) if (top ? y[i] > ext : y[i] < ext) ext = y[i];
+    let count = 0;
+    let adjacent = false;
+    let from = Infinity;
+    let to = -Infinity;
+    for (let i = 0; i < y.length; i++)
+      if (y[i] === ext) {
+        count++;
+        if (i > 0 && y[i - 1] === ext) adjacent = true;
+        from = Math.min(from, bias[i]);
+        to = Math.max(to, bias[i]);
+      }
+    if (count >= 3 && adjacent) return { from, to, count, top };
+  }
+  return null;
+}
+
+/**
  * Pick the band edges of one spectrum.
  * @param input bias (V, sample bias), dI/dV (any units), metadata (temperature_K and
  *   lockin_modulation_mV_rms set the resolution; missing values use the settings' assumptions)
@@ -214,6 +251,8 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   }
   const { y, replaced, indices: spikeAt } = despike(yPol);
   const flags: QualityFlag[] = [];
+  const clip = clippedRange(bias, yPol);
+  if (clip) flags.push({ code: "clipped", message: `The signal sits at its ${clip.top ? "maximum" : "minimum"} over ${clip.count} points between ${(clip.from * 1000).toFixed(0)} and ${(clip.to * 1000).toFixed(0)} mV (saturation: lock-in sensitivity or amplifier range?).`, at_V: [clip.from, clip.to] });
   if (replaced > 0) {
     warnings.push(`${replaced} single-point spike${replaced > 1 ? "s" : ""} replaced by the mean of the neighbours`);
     const at_V = spikeAt.map((i) => bias[i]);
@@ -325,7 +364,6 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
       d[i] = s[i] - base[i];
     }
     const next = walk(d, bl.iMin, st.threshold.k * bl.sigmaSmoothed);
-    (globalThis as any).__trace?.push({ round, e: [e.v?.edge, e.c?.edge], region: [bias[from], bias[to]], deg: bl.degree, coef: Array.from(bl.coef), iMin: bias[bl.iMin], sigS: bl.sigmaSmoothed, next: [next.v?.edge, next.c?.edge] });
     const same = next.v?.index === e.v?.index && next.c?.index === e.c?.index;
     // An edge lost against the new baseline means that baseline does not hold beyond its region
     // (a polynomial extrapolated): keep the edges that had one.
@@ -337,7 +375,11 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   for (let i = 0; i < n; i++) yd[i] = y[i] - base[i];
   const sigS = bl.sigmaSmoothed;
   const thr = base[bl.iMin] + st.threshold.k * sigS;
-  const baseInfo = { noiseFloor: base[bl.iMin], noiseSigma: bl.sigma, threshold: thr };
+  // σ for the fits: the residuals about the baseline, but never below the first-difference estimate,
+  // which holds for white noise and does not depend on the quiet region's size (a few points across a
+  // narrow gap can give a MAD far too small, and fits that claim far too much).
+  const sigmaFit = Math.max(bl.sigma, nf.sigma);
+  const baseInfo = { noiseFloor: base[bl.iMin], noiseSigma: sigmaFit, threshold: thr };
   const edgesAt = (k: number) => walk(d, bl.iMin, k * sigS);
   const main = e;
   (globalThis as any).__pickDebug = { baseline: Array.from(base), thrline: Array.from(base, (b) => b + st.threshold.k * sigS), bl };
@@ -345,7 +387,8 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     const side = !main.c && !main.v ? "either side" : !main.c ? "the conduction-band side" : "the valence-band side";
     return empty(`no band edge on ${side} within the bias range (no gap)`, baseInfo);
   }
-  const vShape = vShapeTest(bias, y, main.v.index, main.c.index, bl.iMin, Math.max(4, Math.round(st.fit.minBandWindow_mV / 1000 / step)), bl.sigma, bl.tau);
+  const kern = broadeningKernel(T, vrms);
+  const vShape = vShapeTest(bias, y, main.v.index, main.c.index, bl.iMin, Math.max(4, Math.round(st.fit.minBandWindow_mV / 1000 / step)), sigmaFit, bl.tau, kern);
   (globalThis as any).__vs = vShape;
   const isV = vShape !== null && vShape.deviation < st.closed.vShapeMaxDeviation;
   const kLo = edgesAt(Math.max(1, st.threshold.k - 1));
@@ -367,13 +410,12 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   let gapSigmaProfile = 0;
   let f_warnings: string[] = [];
   if (st.fit.enabled) {
-    const kern = broadeningKernel(T, vrms);
     // A V-shaped spectrum (one continuous V, no floor between onsets) is fitted as two onsets close to
     // its minimum, on the raw data (the baseline took in part of the V).
     const g = Math.max(res_V, 2 * step);
     const f = isV
       ? fitEdges({ bias, y, kernel: kern, vbGuess: vShape.m - g, cbGuess: vShape.m + g, sigma: vShape.sigma, tau: vShape.tau, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi })
-      : fitEdges({ bias, y: yd, kernel: kern, vbGuess: vb, cbGuess: cb, sigma: bl.sigma, tau: bl.tau, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
+      : fitEdges({ bias, y: yd, kernel: kern, vbGuess: vb, cbGuess: cb, sigma: sigmaFit, tau: bl.tau, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
     if (f && Number.isFinite(f.vb) && Number.isFinite(f.cb) && f.cb >= f.vb) {
       vb = f.vb;
       cb = f.cb;
@@ -386,6 +428,13 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
       // Zero-gap model has two parameters fewer (the gap and one step): χ²₂ 95% quantile 5.991.
       consistentWithZero = f.closedDeltaChi2 !== null && f.closedDeltaChi2 < 5.991464547107979;
       gapSigmaProfile = f.gapSigmaProfile ?? 0;
+      // Close edges in a spectrum that is nearly one V: read it as a V too; where the two readings
+      // differ, the gap's uncertainty covers both (the two models are independent estimates).
+      if (!isV && f.mode === "joint" && vShape !== null && vShape.deviation < 3 * st.closed.vShapeMaxDeviation) {
+        const alt = fitEdges({ bias, y, kernel: kern, vbGuess: vShape.m - g, cbGuess: vShape.m + g, sigma: vShape.sigma, tau: vShape.tau, resolution_V: res_V, step_V: step, bandWindow_V: W, lo, hi });
+        if (alt && Number.isFinite(alt.vb) && Number.isFinite(alt.cb))
+          gapSigmaProfile = Math.max(gapSigmaProfile, Math.abs(f.cb - f.vb - Math.max(0, alt.cb - alt.vb)) / 1.959963984540054);
+      }
       warnings.push(...f.warnings);
       f_warnings = f.warnings;
     } else {
@@ -397,10 +446,9 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   if (method === "fit-separate") {
     // How well does the data fix each edge? The profile of the one-onset model from the other edge to
     // the band: a weak onset gives a wide range, the honest uncertainty of its edge.
-    const kern = broadeningKernel(T, vrms);
     const inner = 2 * res_V + 2 * step;
-    const pv = edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "vb", cb - inner, vb - W / 2, vb - W, bl.sigma, bl.tau);
-    const pc = edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "cb", vb + inner, cb + W / 2, cb + W, bl.sigma, bl.tau);
+    const pv = edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "vb", cb - inner, vb - W / 2, vb - W, sigmaFit, bl.tau);
+    const pc = edgeProfileRange({ bias, y: yd, kernel: kern, lo, hi }, "cb", vb + inner, cb + W / 2, cb + W, sigmaFit, bl.tau);
     for (const [side, pr] of [["vb", pv], ["cb", pc]] as const) {
       if (!pr) continue;
       const half = (pr.to - pr.from) / 2;
