@@ -41,5 +41,5 @@ export { pickGap, QUALITY_FLAG_CODES, QUALITY_FLAG_LABELS, QUALITY_FLAG_HELP, ty
 export { tunnellingDistance, decayConstant_per_nm, apparentBarrierHeight_eV, type TunnellingDistanceInput } from "./distance";
 export { estimateField, fieldAssumptions, type FieldEstimate } from "./field";
 export { fitCrossing, fitSweep, type CrossingPoint, type CrossingFit } from "./crossing";
-export { makeSpectrum, makeSweep, modelDidv, sweepGap_eV, type SpectrumModel, type SyntheticSpectrum, type SweepModel, type SyntheticSweepPoint } from "./synthetic";
+export { makeSpectrum, makeSweep, makeNoise, makeRepeats, modelDidv, sweepGap_eV, type SpectrumModel, type SyntheticSpectrum, type SweepModel, type SyntheticSweepPoint } from "./synthetic";
 export { spectrumToCsv, columnsToCsv } from "./write";

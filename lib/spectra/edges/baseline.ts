@@ -150,7 +150,7 @@ function trimOnsets(bias: Float64Array, y: Float64Array, from: number, to: numbe
 /**
  * The robust baseline of the raw data over one region (the gap between the current edge estimates):
  * a polynomial of degree ≤ maxDegree (one degree per `widthPerDegree_V` of width and per 12 points),
- * refitted without points beyond 3σ until stable (three rounds at most); σ, σ of the smoothed curve,
+ * refitted once without points beyond 3σ; σ, σ of the smoothed curve,
  * τ and ρ₁ from the residuals.
  */
 export function fitBaselineOn(
@@ -173,7 +173,7 @@ export function fitBaselineOn(
     let coef: Float64Array = new Float64Array([median(y.subarray(from, to + 1))]);
     let sigma = 0;
     let rss = 0;
-    for (let it = 0; it < 3; it++) {
+    for (let it = 0; it < 2; it++) {
       coef = polyFit(bias, y, from, to, degree, center, use) ?? coef;
       for (let i = from; i <= to; i++) res[i - from] = y[i] - baselineAt({ coef, center }, bias[i]);
       sigma = madSigma(res);
