@@ -8,6 +8,18 @@ import { usePhaseOf } from "./sample-queries";
 type Summary = { crossing: PhaseData["crossing"]; nIncluded: number };
 const summaryOf = (d: PhaseData): Summary => ({ crossing: d.crossing, nIncluded: d.points.filter((p) => !p.excluded).length });
 
+/** The comparison in words, its number kept on one line ("ΔBIC = 20,272" broke after "ΔBIC"). */
+function DeltaBic({ value }: { value: number }) {
+  const words = deltaBicInWords(value);
+  const at = words.indexOf(":");
+  return (
+    <span data-testid="delta-bic">
+      <span className="whitespace-nowrap">{words.slice(0, at)}</span>
+      {words.slice(at)}
+    </span>
+  );
+}
+
 /**
  * The critical field as a reader should see it: value, interval, state, evidence, the versions the
  * fit was made with, and whether an analyst confirmed it. It reads the phase plot's query, so the
@@ -56,7 +68,7 @@ export function CrossingSummary({ lab, sampleId, initial }: { lab: string; sampl
       ) : null}
       {comparison?.deltaBic != null ? (
         <p className="text-xs text-ink-soft">
-          model comparison, V-shape versus straight line: <span data-testid="delta-bic">{deltaBicInWords(comparison.deltaBic)}</span>{" "}
+          model comparison, V-shape versus straight line: <DeltaBic value={comparison.deltaBic} />{" "}
           <span className="text-muted">(the line&apos;s BIC minus the V&apos;s: above 0 favours the V, 6 or more strongly)</span>
         </p>
       ) : null}
