@@ -15,3 +15,32 @@ export function formatField(v: number | null | undefined, sigma?: number | null)
 export function fileStem(name: string, fallback = "bandcross"): string {
   return name.toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-+|-+$/g, "") || fallback;
 }
+
+/** A count with its noun in the right number: counted(1, "spectrum", "spectra") → "1 spectrum". */
+export function counted(n: number, one: string, many = `${one}s`): string {
+  return `${n} ${n === 1 ? one : many}`;
+}
+
+/**
+ * The model comparison of a critical-field fit in words. ΔBIC is the straight line's BIC minus the
+ * V-shape's (lib/spectra/crossing.ts), so a positive value favours closing and reopening. Grades
+ * after Kass & Raftery (1995): below 2 no clear preference, from 2 some, from 6 strong (from
+ * memory). Large values are rounded and grouped; the sign is a true minus.
+ */
+export function deltaBicInWords(deltaBic: number): string {
+  const a = Math.abs(deltaBic);
+  const value = `${deltaBic < 0 ? "−" : ""}${a >= 100 ? Math.round(a).toLocaleString("en-GB") : a.toFixed(1)}`;
+  const grade = a >= 6 ? "strong" : a >= 2 ? "some" : null;
+  if (!grade) return `ΔBIC = ${value}: no clear preference for either model`;
+  return `ΔBIC = ${value}: ${grade} preference for ${deltaBic > 0 ? "closing and reopening" : "a straight line (no closing and reopening)"}`;
+}
+
+/** How an automatic pick found its edges, in words (the picker's method names are internal). */
+const PICK_METHOD: Record<string, string> = {
+  "fit-separate": "each edge fitted",
+  "fit-joint": "both edges fitted together",
+  threshold: "threshold crossing",
+  manual: "set by hand",
+  none: "no edges",
+};
+export const pickMethodInWords = (method: string | null | undefined): string => (method ? (PICK_METHOD[method] ?? method.replace(/-/g, " ")) : "—");

@@ -3,6 +3,9 @@
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { useState, useTransition } from "react";
 import { confirmCrossingAction } from "@/app/(lab)/labs/[lab]/alert-actions";
+import { usePhaseOf } from "@/components/review/sample-queries";
+import type { PhaseData } from "@/components/review/phase-figure";
+import { queryKeys } from "@/lib/query-keys";
 import { alertKeys, getJson } from "./query";
 
 type Kind = "found" | "moved" | "confirmed";
@@ -29,11 +32,20 @@ const MARK: Record<Kind, { sign: string; tone: string }> = {
   confirmed: { sign: "✓", tone: "bg-ok text-white" },
 };
 
-const field = (v: number | null, ci: [number, number] | null) => (v == null ? "—" : `${v.toFixed(2)} V/nm${ci ? ` [${ci[0].toFixed(2)}, ${ci[1].toFixed(2)}]` : ""}`);
+const field = (v: number | null, ci: [number, number] | null, digits = 2) => (v == null ? "—" : `${v.toFixed(digits)} V/nm${ci ? ` [${ci[0].toFixed(digits)}, ${ci[1].toFixed(digits)}]` : ""}`);
 const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
 
-/** The sample's crossing events, newest first, and the analyst's "confirm" for the current fit. */
-export function CrossingTimeline({ lab, sampleId }: { lab: string; sampleId: string }) {
+type PhaseCrossing = PhaseData["crossing"];
+/** The crossing Confirm acts on, from the phase query the critical-field card and the plot read: null when there is nothing to confirm. */
+const confirmable = (c: PhaseCrossing) => ("id" in c && c.state === "crossed" && c.found && c.field_V_per_nm != null && c.status !== "confirmed" ? { id: c.id, field_V_per_nm: c.field_V_per_nm, ci95_V_per_nm: c.ci95_V_per_nm } : null);
+
+/**
+ * The sample's crossing events, newest first, and the analyst's "confirm" for the current fit.
+ * Confirm shows and sends the crossing of the phase query (the one the critical-field card shows):
+ * its id and value travel with the click, and a fit that changed meanwhile is refused with the
+ * current value, after which the page's data is refreshed.
+ */
+export function CrossingTimeline({ lab, sampleId, initialCrossing }: { lab: string; sampleId: string; initialCrossing: PhaseCrossing }) {
   const qc = useQueryClient();
   const [pending, start] = useTransition();
   const [message, setMessage] = useState<{ ok: boolean; text: string } | null>(null);
@@ -41,11 +53,12 @@ export function CrossingTimeline({ lab, sampleId }: { lab: string; sampleId: str
     queryKey: alertKeys.timeline(sampleId),
     queryFn: () => getJson<TimelineData>(`/api/v1/samples/${sampleId}/crossing/events?lab=${encodeURIComponent(lab)}`),
   });
-  const confirm = (crossingId: string) =>
+  const current = usePhaseOf(lab, sampleId, (p) => confirmable(p.crossing), confirmable(initialCrossing));
+  const confirm = (c: NonNullable<typeof current>) =>
     start(async () => {
-      const state = await confirmCrossingAction(lab, sampleId, crossingId);
+      const state = await confirmCrossingAction(lab, sampleId, c.id, c.field_V_per_nm);
       setMessage({ ok: state.ok, text: state.message ?? (state.ok ? "Confirmed." : "That did not work.") });
-      await qc.invalidateQueries({ queryKey: alertKeys.timeline(sampleId) });
+      await qc.invalidateQueries({ queryKey: queryKeys.sample(sampleId) });
     });
   const d = q.data;
   return (
@@ -54,16 +67,17 @@ export function CrossingTimeline({ lab, sampleId }: { lab: string; sampleId: str
         <h2 id="crossing-timeline-title" className="text-sm font-semibold tracking-wide text-ink">
           Critical-field alerts
         </h2>
-        {d?.current?.confirmable && d.canConfirm ? (
+        {current && d?.canConfirm ? (
           <button
             type="button"
             data-testid="confirm-crossing"
+            data-crossing-id={current.id}
             disabled={pending}
-            onClick={() => confirm(d.current!.id)}
+            onClick={() => confirm(current)}
             className="rounded-md bg-ink px-3 py-1.5 text-sm font-medium text-white hover:bg-night disabled:opacity-70"
-            title="Confirm the current critical field; everyone watching the sample is told."
+            title="Confirm the critical field shown on this page; everyone watching the sample is told."
           >
-            {pending ? "Confirming…" : `Confirm ${field(d.current.field_V_per_nm, d.current.ci95_V_per_nm)}`}
+            {pending ? "Confirming…" : `Confirm ${field(current.field_V_per_nm, current.ci95_V_per_nm, 3)}`}
           </button>
         ) : null}
       </header>

@@ -1,7 +1,10 @@
+import { queryKeys } from "@/lib/query-keys";
+
 /** Query keys and fetchers of the alerts components (GET endpoints of /api/v1; the lab travels as ?lab=). */
 export const alertKeys = {
-  watch: (sampleId: string) => ["sample", sampleId, "watch"] as const,
-  timeline: (sampleId: string) => ["sample", sampleId, "crossing-events"] as const,
+  // In the sample's key family (queryKeys.sample), so a finished job refreshes them with the rest.
+  watch: (sampleId: string) => [...queryKeys.sample(sampleId), "watch"] as const,
+  timeline: (sampleId: string) => [...queryKeys.sample(sampleId), "crossing-events"] as const,
 };
 
 export async function getJson<T>(url: string): Promise<T> {

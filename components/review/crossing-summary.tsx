@@ -1,9 +1,32 @@
-import { CrossingBadge } from "@/components/ui/badge";
-import type { PhaseData } from "./phase-plot";
+"use client";
 
-/** The critical field as a reader should see it: value, interval, state, evidence, and whether an analyst confirmed it. */
-export function CrossingSummary({ crossing, nIncluded }: { crossing: PhaseData["crossing"]; nIncluded: number }) {
-  const c = crossing;
+import { CrossingBadge } from "@/components/ui/badge";
+import { deltaBicInWords } from "@/lib/format";
+import type { PhaseData } from "./phase-plot";
+import { usePhaseOf } from "./sample-queries";
+
+type Summary = { crossing: PhaseData["crossing"]; nIncluded: number };
+const summaryOf = (d: PhaseData): Summary => ({ crossing: d.crossing, nIncluded: d.points.filter((p) => !p.excluded && !p.excludedByFlag).length });
+
+/** The comparison in words, its number kept on one line ("ΔBIC = 20,272" broke after "ΔBIC"). */
+function DeltaBic({ value }: { value: number }) {
+  const words = deltaBicInWords(value);
+  const at = words.indexOf(":");
+  return (
+    <span data-testid="delta-bic">
+      <span className="whitespace-nowrap">{words.slice(0, at)}</span>
+      {words.slice(at)}
+    </span>
+  );
+}
+
+/**
+ * The critical field as a reader should see it: value, interval, state, evidence, the versions the
+ * fit was made with, and whether an analyst confirmed it. It reads the phase plot's query, so the
+ * card and the plot always show the same fit.
+ */
+export function CrossingSummary({ lab, sampleId, initial }: { lab: string; sampleId: string; initial: Summary }) {
+  const { crossing: c, nIncluded } = usePhaseOf(lab, sampleId, summaryOf, initial);
   const comparison = "comparison" in c ? (c.comparison as { deltaBic?: number; preferred?: string } | null) : null;
   return (
     <div className="space-y-3" data-testid="crossing-summary">
@@ -45,10 +68,16 @@ export function CrossingSummary({ crossing, nIncluded }: { crossing: PhaseData["
       ) : null}
       {comparison?.deltaBic != null ? (
         <p className="text-xs text-ink-soft">
-          model comparison: V-shape versus straight line, ΔBIC = <span className="num">{comparison.deltaBic > 100 ? "> 100" : comparison.deltaBic.toFixed(1)}</span> ({comparison.deltaBic >= 6 ? "strong" : comparison.deltaBic >= 2 ? "some" : "no"} preference for closing and reopening)
+          model comparison, V-shape versus straight line: <DeltaBic value={comparison.deltaBic} />{" "}
+          <span className="text-muted">(the line&apos;s BIC minus the V&apos;s: above 0 favours the V, 6 or more strongly)</span>
         </p>
       ) : null}
       {"n" in c ? <p className="text-xs text-muted">{c.n} spectra in the fit · fitted {"fittedAt" in c && c.fittedAt ? `${c.fittedAt.slice(0, 16).replace("T", " ")} UTC` : ""}</p> : null}
+      {"settingsVersion" in c ? (
+        <p className="num text-xs text-muted" data-testid="crossing-versions">
+          fitted with extraction settings v{c.settingsVersion ?? "?"}, field model v{c.fieldModelVersion ?? "?"}
+        </p>
+      ) : null}
     </div>
   );
 }

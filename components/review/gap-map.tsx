@@ -5,6 +5,7 @@ import { useRouter } from "next/navigation";
 import { useMemo, useState } from "react";
 import { axis, baseLayout, Plot } from "@/components/plots/plot";
 import { api } from "@/lib/api-client";
+import { queryKeys } from "@/lib/query-keys";
 import { fileStem } from "@/lib/format";
 import type { getGapMap } from "@/lib/services/spectra/gapMap";
 
@@ -23,7 +24,7 @@ export function GapMap({ lab, sampleId, initial }: { lab: string; sampleId: stri
   const router = useRouter();
   const [uploadId, setUploadId] = useState(initial.uploadId);
   const { data = initial } = useQuery({
-    queryKey: ["sample", sampleId, "map", uploadId],
+    queryKey: queryKeys.sampleMap(sampleId, uploadId),
     queryFn: () => api<MapData>(lab, "GET", `/samples/${sampleId}/map${uploadId ? `?uploadId=${uploadId}` : ""}`),
     initialData: uploadId === initial.uploadId ? initial : undefined,
   });

@@ -32,13 +32,16 @@ export const outOfFit = (p: PhasePoint) => p.excluded || p.excludedByFlag;
 
 /** Counts for the key under the plot: each point once by how it enters the fit, and the flagged ones. */
 export function phaseCounts(points: readonly PhasePoint[]) {
-  const n = { auto: 0, corrected: 0, excluded: 0, excludedByFlag: 0, flagged: 0 };
+  const n = { auto: 0, corrected: 0, excluded: 0, excludedByFlag: 0, flagged: 0, accepted: 0 };
   for (const p of points) {
     if (p.flags.length) n.flagged++;
     if (p.excluded) n.excluded++;
     else if (p.excludedByFlag) n.excludedByFlag++;
     else if (p.source === "corrected") n.corrected++;
-    else n.auto++;
+    else {
+      n.auto++;
+      if (p.accepted) n.accepted++;
+    }
   }
   return n;
 }

@@ -1,25 +1,24 @@
 "use client";
 
-import { useQuery } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useMemo, useRef, useState } from "react";
 import { axis, baseLayout, downloadFigure, Plot } from "@/components/plots/plot";
 import { errorBarPaths, fieldErrorBarShape, flagRingTrace, gapErrorBarShape, fieldModeRanges, outOfFit, PHASE_LOOK, PHASE_MARGIN, phaseCounts, type PhaseData, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
 import { type PackedPhase, unpackPhase } from "./phase-pack";
 import { PhasePreview } from "./phase-preview";
-import { api } from "@/lib/api-client";
+import { usePhase } from "./sample-queries";
 import { fileStem } from "@/lib/format";
-import { queryKeys } from "@/lib/query-keys";
 
 export type { PhaseData };
 
 /**
  * How to read the plot, under it: how many points are automatic picks, corrected by an analyst or
  * excluded, each with the marker shape it has on the plot, how many carry a quality flag (ringed)
- * and how many the lab's setting left out of the fit for that, and what a click does.
+ * and how many the lab's setting left out of the fit for that, how many automatic picks an analyst
+ * accepted as they are, and what a click does.
  */
 function PhaseKey({ points }: { points: PhaseData["points"] }) {
-  const { auto, corrected, excluded, excludedByFlag, flagged } = phaseCounts(points);
+  const { auto, corrected, excluded, excludedByFlag, flagged, accepted } = phaseCounts(points);
   return (
     <dl className="flex flex-wrap gap-x-5 gap-y-1 border-t border-line pt-3 text-xs text-ink-soft" data-testid="phase-key">
       <div className="inline-flex items-center gap-1.5">
@@ -46,6 +45,10 @@ function PhaseKey({ points }: { points: PhaseData["points"] }) {
           <dd className="num text-ink">{excludedByFlag}</dd>
         </div>
       ) : null}
+      <div className="inline-flex items-center gap-1.5">
+        <dt><span aria-hidden>✓</span> of the automatic picks, accepted by an analyst</dt>
+        <dd className="num text-ink" data-testid="phase-key-accepted">{accepted}</dd>
+      </div>
       <p className="basis-full text-muted">Click a point to open its spectrum. The field axis is a model estimate: its assumptions are beside the plot.</p>
     </dl>
   );
@@ -71,12 +74,7 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
   const [theory, setTheory] = useState({ on: false, lambda_meV: "43", ell_A: "0.33" });
   const graph = useRef<HTMLElement | null>(null);
   const initial = useMemo(() => unpackPhase(packed), [packed]);
-  const { data = initial, isFetching, isError, refetch } = useQuery({
-    queryKey: queryKeys.phase(sampleId),
-    queryFn: () => api<PhaseData>(lab, "GET", `/samples/${sampleId}/phase`),
-    initialData: initial,
-    refetchInterval: 10_000,
-  });
+  const { data = initial, isFetching, isError, refetch } = usePhase(lab, sampleId, initial);
   const filename = fileStem(`${data.sample.name} phase`);
   const download = (format: "png" | "svg") => {
     if (graph.current) void downloadFigure(graph.current, { format, filename, width: 1200, height: 800 });

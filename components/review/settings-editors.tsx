@@ -1,6 +1,6 @@
 "use client";
 
-import { useQuery, useQueryClient } from "@tanstack/react-query";
+import { useQueryClient } from "@tanstack/react-query";
 import { useState, type FormEvent } from "react";
 import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
@@ -8,12 +8,9 @@ import { Field, Input, Select } from "@/components/ui/field";
 import { api, ApiError } from "@/lib/api-client";
 import { queryKeys } from "@/lib/query-keys";
 import { readNumber } from "@/lib/schemas/number";
+import { followRun, RUN_ACTIVE, useSampleVersions, type SampleVersions } from "./sample-queries";
 
-type Versions = {
-  settings: { id: string; version: number; settings: Record<string, any>; createdAt: string };
-  fieldModel: { id: string; version: number; model: Record<string, any>; createdAt: string };
-  run: { id: string; status: string; total: number; done: number; reason: string } | null;
-};
+type Versions = SampleVersions;
 
 /**
  * A number field's value, read as every input reads numbers (`readNumber`): null when blank, the
@@ -25,14 +22,20 @@ function num(v: FormDataEntryValue | null): number | string | null {
   return x === undefined ? null : (x as number | string);
 }
 
-/** Progress of the background re-analysis that a saved version started. */
+/**
+ * Progress of the background re-analysis that a saved version started: the spectra, then the refit
+ * of the critical field as the last step, so the bar is full only when the work has ended.
+ */
 function RunProgress({ run }: { run: Versions["run"] }) {
-  if (!run || run.status === "done") return run ? <p className="text-xs text-muted">Last re-analysis ({run.reason}) finished: {run.done} spectra.</p> : null;
-  const pct = run.total ? Math.round((100 * run.done) / run.total) : 0;
+  if (!run) return null;
+  if (run.status === "done") return <p className="text-xs text-muted">Last re-analysis ({run.reason}) finished: {run.done} {run.done === 1 ? "spectrum" : "spectra"} and the critical field.</p>;
+  if (run.status === "failed") return <Notice tone="danger">{run.message ?? `The re-analysis (${run.reason}) stopped.`}</Notice>;
+  const pct = Math.round((100 * run.done) / (run.total + 1));
+  const step = run.status === "queued" ? "queued" : run.status === "fitting" ? `${run.total} of ${run.total} spectra; refitting the critical field…` : `${run.done} of ${run.total} spectra`;
   return (
-    <div aria-live="polite" data-testid="reanalysis-progress">
+    <div aria-live="polite" data-testid="reanalysis-progress" data-status={run.status}>
       <p className="text-xs text-ink-soft">
-        Re-analysing ({run.reason}): {run.status === "queued" ? "queued" : `${run.done} of ${run.total}`}
+        Re-analysing ({run.reason}): {step}
       </p>
       <div className="mt-1 h-1.5 overflow-hidden rounded-full bg-line" role="progressbar" aria-valuenow={pct} aria-valuemin={0} aria-valuemax={100} aria-label="Re-analysis progress">
         <div className="h-full bg-teal transition-[width]" style={{ width: `${pct}%` }} />
@@ -122,13 +125,10 @@ function ReadOnlyVersions({ data }: { data: Versions }) {
  */
 export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: string; sampleId: string; canEdit: boolean; initial: Versions }) {
   const qc = useQueryClient();
-  const { data = initial } = useQuery({
-    queryKey: queryKeys.sampleVersions(sampleId),
-    queryFn: () => api<Versions>(lab, "GET", `/samples/${sampleId}/analysis`),
-    initialData: initial,
-    refetchInterval: (q) => (q.state.data?.run && q.state.data.run.status !== "done" ? 1000 : false),
-  });
-  const [msg, setMsg] = useState<{ tone: "ok" | "danger"; text: string; fields?: Record<string, string[]> } | null>(null);
+  const data = useSampleVersions(lab, sampleId, initial);
+  const [msg, setMsg] = useState<{ tone: "ok" | "danger"; text: string; fields?: Record<string, string[]>; runId?: string } | null>(null);
+  // "Being re-analysed" holds only until that run has ended; then the progress line says it finished.
+  const shownMsg = msg && !(msg.runId && data.run?.id === msg.runId && !RUN_ACTIVE.has(data.run.status)) ? msg : null;
   const s = data.settings.settings;
   const m = data.fieldModel.model;
 
@@ -136,8 +136,9 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
     e.preventDefault();
     const f = new FormData(e.currentTarget);
     try {
+      let saved: { runId?: string };
       if (kind === "settings") {
-        await api(lab, "PUT", `/samples/${sampleId}/extraction-settings`, {
+        saved = await api(lab, "PUT", `/samples/${sampleId}/extraction-settings`, {
           settings: {
             smoothing: { method: f.get("method"), window_mV: num(f.get("window_mV")), order: num(f.get("order")), gaussianSigma_mV: num(f.get("gaussianSigma_mV")), fftCutoff_mV: num(f.get("fftCutoff_mV")) },
             threshold: { k: num(f.get("k")), consecutive: num(f.get("consecutive")), sustain_mV: num(f.get("sustain_mV")) },
@@ -149,7 +150,7 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
         });
       } else {
         const source = String(f.get("decayConstantSource"));
-        await api(lab, "PUT", `/samples/${sampleId}/field-model`, {
+        saved = await api(lab, "PUT", `/samples/${sampleId}/field-model`, {
           // Blank here is left out: the server's default, or its "must be a number" where none applies.
           contactDistance_nm: num(f.get("contactDistance_nm")) ?? undefined,
           contactDistanceSigma_nm: num(f.get("contactDistanceSigma_nm")) ?? undefined,
@@ -159,7 +160,8 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
           note: String(f.get("note") ?? "") || undefined,
         });
       }
-      setMsg({ tone: "ok", text: "Saved as a new version; the sample is being re-analysed." });
+      followRun(saved.runId);
+      setMsg({ tone: "ok", text: "Saved as a new version; the sample is being re-analysed.", runId: saved.runId });
       await qc.invalidateQueries({ queryKey: queryKeys.sampleVersions(sampleId) });
     } catch (err) {
       const fields = err instanceof ApiError ? err.body?.error?.fields : undefined;
@@ -174,8 +176,8 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
   return (
     <div className="space-y-5" data-testid="settings-editors">
       <RunProgress run={data.run} />
-      {msg ? <Notice tone={msg.tone}>{msg.text}</Notice> : null}
-      <form onSubmit={(e) => save("settings", e)} className="space-y-3" aria-label="Extraction settings">
+      {shownMsg ? <Notice tone={shownMsg.tone}>{shownMsg.text}</Notice> : null}
+      <form key={data.settings.id} onSubmit={(e) => save("settings", e)} className="space-y-3" aria-label="Extraction settings">
         <h3 className="text-sm font-semibold">
           Extraction settings <span className="num font-normal text-muted">v{data.settings.version}</span>
         </h3>
@@ -230,7 +232,7 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
           <Button type="submit">Save settings as v{data.settings.version + 1}</Button>
         </div>
       </form>
-      <form onSubmit={(e) => save("field", e)} className="space-y-3 border-t border-line pt-4" aria-label="Field model">
+      <form key={data.fieldModel.id} onSubmit={(e) => save("field", e)} className="space-y-3 border-t border-line pt-4" aria-label="Field model">
         <h3 className="text-sm font-semibold">
           Field model <span className="num font-normal text-muted">v{data.fieldModel.version}</span>
         </h3>

@@ -8,8 +8,9 @@ import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { FlagList } from "./quality-flags";
+import { EdgeBox } from "./edge-box";
 import { api, ApiError } from "@/lib/api-client";
-import { fileStem, formatGap } from "@/lib/format";
+import { fileStem, formatGap, pickMethodInWords } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
 import type { getSpectrum } from "@/lib/services/spectra/readSpectra";
 
@@ -19,12 +20,34 @@ type Conflict = { message: string; current: { vbEdgeV: number | null; cbEdgeV: n
 
 const mv = (v: number | null | undefined) => (v == null ? "—" : `${(v * 1000).toFixed(1)} mV`);
 
+type Edge = "valence" | "conduction";
+/** Steps of the keys that move the selected edge, mV. */
+const FINE_MV = 1;
+const COARSE_MV = 10;
+
+/**
+ * The review keys as the help names them; the handler in SpectrumReview acts on exactly these
+ * (`edit` ones only for people who may change picks). F and G are left for other review keys.
+ */
+const KEY_HELP: { keys: string; does: string; edit?: boolean }[] = [
+  { keys: "← →", does: "previous / next spectrum" },
+  { keys: "F", does: "next flagged spectrum" },
+  { keys: ", .", does: `move the selected edge by ${FINE_MV} mV`, edit: true },
+  { keys: "< >", does: `by ${COARSE_MV} mV`, edit: true },
+  { keys: "E", does: "switch between the valence and conduction edge", edit: true },
+  { keys: "A", does: "accept the pick as it is and go to the next", edit: true },
+  { keys: "X", does: "exclude / include", edit: true },
+  { keys: "U", does: "undo", edit: true },
+];
+
 /**
  * The review screen of one spectrum: raw and smoothed dI/dV (linear or log), noise floor and
  * threshold, the energy resolution, and the two band edges as lines the analyst drags. Saving a
  * correction needs a reason and keeps the automatic pick and the history; a stale save gets the
  * conflict message and the edit stays on screen. The pick's quality flags sit under its numbers.
- * Keys: ← → move, F next flagged, A accept and next, X exclude, U undo.
+ * Keys (KEY_HELP): ← → move between spectra; F the next flagged one; , . and < > move the selected
+ * edge by 1 and 10 mV, E selects the other edge; A accepts the pick as it is (recorded in its
+ * history) and moves on; X excludes or includes; U undoes.
  */
 export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial: SpectrumData; canEdit: boolean }) {
   const qc = useQueryClient();
@@ -33,8 +56,16 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
   const { data = initial, isFetching } = useQuery({ queryKey: queryKeys.spectrum(id), queryFn: () => fetchSpectrum(id), initialData: id === initial.id ? initial : undefined, staleTime: 30_000 });
   const { data: history = [] } = useQuery({ queryKey: [...queryKeys.spectrum(id), "history"], queryFn: async () => (await api<{ history: History }>(lab, "GET", `/spectra/${id}/pick`)).history });
   const [draft, setDraft] = useState<{ vb: number; cb: number } | null>(null);
+  // A reason belongs to one action on one spectrum: emptied when the spectrum changes and after
+  // a save; the last one used is only offered as a suggestion to click.
   const [reason, setReason] = useState("");
+  const [lastReason, setLastReason] = useState<string | null>(null);
+  const reasonUsed = (text: string) => {
+    if (text.trim()) setLastReason(text.trim());
+    setReason("");
+  };
   const [logY, setLogY] = useState(false);
+  const [selected, setSelected] = useState<Edge>("valence");
   const [busy, setBusy] = useState(false);
   const [notice, setNotice] = useState<{ tone: "ok" | "danger" | "warn"; text: string } | null>(null);
   const [conflict, setConflict] = useState<Conflict | null>(null);
@@ -51,6 +82,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
       if (!target) return;
       setId(target);
       setDraft(null);
+      setReason("");
       setConflict(null);
       setNotice(null);
       window.history.replaceState(null, "", `/labs/${lab}/spectra/${target}`);
@@ -65,6 +97,8 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
 
   const vb = draft?.vb ?? pick?.vbEdge_V ?? null;
   const cb = draft?.cb ?? pick?.cbEdge_V ?? null;
+  const bias = data.arrays.bias_V;
+  const biasRange: [number, number] = [bias[0], bias[bias.length - 1]];
 
   async function saveCorrection(version = pick?.version) {
     if (!pick || vb == null || cb == null || version == null) return;
@@ -78,6 +112,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
       await api(lab, "PATCH", `/spectra/${id}/pick`, { vbEdge_V: vb, cbEdge_V: cb, reason, version });
       setDraft(null);
       setConflict(null);
+      reasonUsed(reason);
       setNotice({ tone: "ok", text: "Correction saved; the phase plot and critical field were refitted." });
       await refresh();
     } catch (e) {
@@ -97,10 +132,40 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
     setBusy(true);
     try {
       await api(lab, "PUT", `/spectra/${id}/exclusion`, { excluded, reason: text, version: pick.version });
+      reasonUsed(why);
       setNotice({ tone: "ok", text: excluded ? "Excluded from the fit." : "Included in the fit again." });
       await refresh();
     } catch (e) {
       setNotice({ tone: "danger", text: e instanceof ApiError ? e.message : "Not saved." });
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  /** Moves the selected edge by `mV`, inside the bias range and on its side of the other edge. */
+  function moveEdge(mV: number) {
+    if (vb == null || cb == null) return;
+    const d = mV / 1000;
+    const gapMin = 1e-4;
+    if (selected === "valence") setDraft({ vb: Math.min(Math.max(vb + d, biasRange[0]), cb - gapMin), cb });
+    else setDraft({ vb, cb: Math.max(Math.min(cb + d, biasRange[1]), vb + gapMin) });
+  }
+
+  /** Accepts the pick as saved (who, when and which version go to its history), then the next spectrum. */
+  async function accept() {
+    if (!pick) return;
+    if (draft) {
+      setNotice({ tone: "warn", text: "Save or discard the moved edge first: A accepts the pick as it is saved." });
+      return;
+    }
+    setBusy(true);
+    try {
+      await api(lab, "POST", `/spectra/${id}/pick/accept`, { version: pick.version });
+      await refresh();
+      if (data.neighbours.next) go(data.neighbours.next);
+      else setNotice({ tone: "ok", text: `Accepted pick v${pick.version}.` });
+    } catch (e) {
+      setNotice({ tone: "danger", text: e instanceof ApiError ? e.message : "Not accepted." });
     } finally {
       setBusy(false);
     }
@@ -126,12 +191,18 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
       const t = e.target as HTMLElement;
       if (t && (t.tagName === "INPUT" || t.tagName === "TEXTAREA" || t.tagName === "SELECT" || t.isContentEditable)) return;
       if (e.metaKey || e.ctrlKey || e.altKey) return;
-      if (e.key === "ArrowRight" || e.key === "j") go(data.neighbours.next);
-      else if (e.key === "ArrowLeft" || e.key === "k") go(data.neighbours.prev);
+      if (e.key === "ArrowRight") go(data.neighbours.next);
+      else if (e.key === "ArrowLeft") go(data.neighbours.prev);
       else if (e.key === "f" || e.key === "F") go(data.neighbours.nextFlagged);
-      else if (canEdit && (e.key === "a" || e.key === "A")) go(data.neighbours.next);
-      else if (canEdit && (e.key === "x" || e.key === "X")) void setExcluded(!pick?.excluded).then(() => go(data.neighbours.next));
-      else if (canEdit && (e.key === "u" || e.key === "U")) void undo();
+      else if (!canEdit || busy) return;
+      else if (e.key === ",") moveEdge(-FINE_MV);
+      else if (e.key === ".") moveEdge(FINE_MV);
+      else if (e.key === "<") moveEdge(-COARSE_MV);
+      else if (e.key === ">") moveEdge(COARSE_MV);
+      else if (e.key === "e" || e.key === "E") setSelected((x) => (x === "valence" ? "conduction" : "valence"));
+      else if (e.key === "a" || e.key === "A") void accept();
+      else if (e.key === "x" || e.key === "X") void setExcluded(!pick?.excluded).then(() => go(data.neighbours.next));
+      else if (e.key === "u" || e.key === "U") void undo();
       else return;
       e.preventDefault();
     };
@@ -149,15 +220,16 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
     const shapes: Record<string, unknown>[] = [];
     if (a.noiseFloor != null) shapes.push({ type: "line", xref: "paper", x0: 0, x1: 1, y0: a.noiseFloor, y1: a.noiseFloor, line: { color: "#6e6a5f", width: 1, dash: "dot" }, editable: false });
     if (a.threshold != null) shapes.push({ type: "line", xref: "paper", x0: 0, x1: 1, y0: a.threshold, y1: a.threshold, line: { color: "#b9512a", width: 1, dash: "dash" }, editable: false });
-    const edgeShape = (x: number) => ({ type: "line", yref: "paper", x0: x, x1: x, y0: 0, y1: 1, line: { color: "#b9512a", width: 3 }, editable: canEdit });
+    // The edge the keys move is drawn solid, the other dashed.
+    const edgeShape = (x: number, edge: Edge) => ({ type: "line", yref: "paper", x0: x, x1: x, y0: 0, y1: 1, line: { color: "#b9512a", width: 3, dash: canEdit && edge !== selected ? "dash" : "solid" }, editable: canEdit });
     const edgeIndex: number[] = [];
     if (vb != null) {
       edgeIndex.push(shapes.length);
-      shapes.push(edgeShape(vb));
+      shapes.push(edgeShape(vb, "valence"));
     }
     if (cb != null) {
       edgeIndex.push(shapes.length);
-      shapes.push(edgeShape(cb));
+      shapes.push(edgeShape(cb, "conduction"));
     }
     if (vb != null && cb != null) shapes.push({ type: "rect", yref: "paper", x0: vb, x1: cb, y0: 0, y1: 1, fillcolor: "rgba(185,81,42,0.06)", line: { width: 0 }, editable: false, layer: "below" });
     return {
@@ -175,7 +247,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
         dragmode: "zoom",
       }),
     };
-  }, [data, vb, cb, logY, canEdit, id]);
+  }, [data, vb, cb, logY, canEdit, id, selected]);
 
   const onRelayout = (e: Record<string, number>) => {
     if (!canEdit || vb == null || cb == null) return;
@@ -189,7 +261,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
 
   const m = data.metadata;
   return (
-    <div className="space-y-5" data-testid="spectrum-review" data-spectrum-id={id} data-shown-id={data.id}>
+    <div className="space-y-5" data-testid="spectrum-review" data-spectrum-id={id} data-shown-id={data.id} data-selected-edge={selected}>
       <div className="flex flex-wrap items-center justify-between gap-3">
         <div className="flex items-center gap-2 text-sm">
           <Button type="button" variant="secondary" disabled={!data.neighbours.prev} onClick={() => go(data.neighbours.prev)} aria-keyshortcuts="ArrowLeft">
@@ -232,8 +304,17 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
               onRelayout={onRelayout as never}
             />
           </div>
-          <p className="px-2 pt-1 text-xs text-muted">
-            {canEdit ? "Drag the copper lines to move the band edges, or type them on the right. " : ""}Keys: ← → move, F next flagged{canEdit ? ", A accept and next, X exclude / include, U undo" : ""}.
+          {canEdit ? <p className="px-2 pt-1 text-xs text-muted">Drag the copper lines to move the band edges, or type them on the right.</p> : null}
+          {/* Keys need a keyboard: not shown on touch screens (coarse pointer, no hover). */}
+          <p className="px-2 pt-1 text-xs text-muted [@media(hover:none)]:hidden [@media(pointer:coarse)]:hidden" data-testid="review-keys">
+            Keys:{" "}
+            {KEY_HELP.filter((k) => canEdit || !k.edit).map((k, i) => (
+              <span key={k.keys}>
+                {i ? " · " : ""}
+                <kbd className="num font-medium text-ink-soft">{k.keys}</kbd> {k.does}
+              </span>
+            ))}
+            .{canEdit ? ` Selected: the ${selected} edge.` : ""}
           </p>
         </div>
         <div className="space-y-4">
@@ -248,7 +329,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
                     </Badge>
                   ) : null}
                   {pick.excluded ? <Badge tone="danger">excluded</Badge> : pick.excludedByFlag ? <Badge tone="danger">not in the fit</Badge> : null}
-                  {pick.source === "corrected" ? <Badge tone="copper">✎ corrected</Badge> : <Badge>auto · {pick.method}</Badge>}
+                  {pick.source === "corrected" ? <Badge tone="copper">✎ corrected</Badge> : <Badge title={`method: ${pick.method}`}>auto · {pickMethodInWords(pick.method)}</Badge>}
                   <span className="num text-xs text-muted">v{pick.version}</span>
                 </span>
               ) : null}
@@ -273,17 +354,20 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
             {pick ? <FlagList flags={pick.flags} corrected={pick.source === "corrected"} excludedByFlag={pick.excludedByFlag} /> : null}
             {canEdit && pick ? (
               <div className="mt-4 space-y-2 border-t border-line pt-3">
-                <div className="grid grid-cols-2 gap-2">
-                  <label className="text-xs text-muted">
-                    valence (mV)
-                    <input className="num mt-0.5 w-full rounded border border-line px-2 py-1 text-sm" aria-label="Valence-band edge in mV" value={vb != null ? (vb * 1000).toFixed(1) : ""} onChange={(e) => cb != null && setDraft({ vb: Number(e.target.value) / 1000, cb })} data-testid="vb-input" />
-                  </label>
-                  <label className="text-xs text-muted">
-                    conduction (mV)
-                    <input className="num mt-0.5 w-full rounded border border-line px-2 py-1 text-sm" aria-label="Conduction-band edge in mV" value={cb != null ? (cb * 1000).toFixed(1) : ""} onChange={(e) => vb != null && setDraft({ vb, cb: Number(e.target.value) / 1000 })} data-testid="cb-input" />
-                  </label>
+                <div className="grid grid-cols-2 items-start gap-2">
+                  {/* Keyed by spectrum: text typed for one spectrum never shows on the next. */}
+                  <EdgeBox key={`vb-${id}`} label="valence" edge="vb" value={vb} range={biasRange} below={cb} onCommit={(v) => cb != null && setDraft({ vb: v, cb })} />
+                  <EdgeBox key={`cb-${id}`} label="conduction" edge="cb" value={cb} range={biasRange} above={vb} onCommit={(v) => vb != null && setDraft({ vb, cb: v })} />
                 </div>
                 <input ref={reasonRef} className="w-full rounded border border-line px-2 py-1.5 text-sm" placeholder="Reason (required), e.g. onset hidden by a tip state" value={reason} onChange={(e) => setReason(e.target.value)} aria-label="Reason" data-testid="reason-input" />
+                {!reason && lastReason ? (
+                  <p className="text-xs text-muted" data-testid="reason-suggestion">
+                    Same reason as before?{" "}
+                    <button type="button" className="text-copper underline-offset-2 hover:underline" onClick={() => setReason(lastReason)}>
+                      “{lastReason}”
+                    </button>
+                  </p>
+                ) : null}
                 <div className="flex flex-wrap gap-2">
                   <Button type="button" onClick={() => saveCorrection()} disabled={busy || !draft} data-testid="save-correction">
                     Save correction
@@ -368,7 +452,8 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
               <ol className="mt-2 space-y-2 text-xs" data-testid="pick-history">
                 {history.map((h) => (
                   <li key={h.id}>
-                    <span className="font-medium">{h.actorName ?? "someone"}</span> · {h.action} · <span className="num text-muted">{h.at.slice(0, 16).replace("T", " ")}</span>
+                    <span className="font-medium">{h.actorName ?? "someone"}</span> · {h.action === "accept" ? `accepted pick v${String(h.after.version)}` : h.action} ·{" "}
+                    <span className="num text-muted">{h.at.slice(0, 16).replace("T", " ")}</span>
                     {h.action === "correct" ? (
                       <span className="num block text-ink-soft">
                         {mv(h.before.vbEdgeV as number)}–{mv(h.before.cbEdgeV as number)} → {mv(h.after.vbEdgeV as number)}–{mv(h.after.cbEdgeV as number)}

@@ -7,26 +7,16 @@ import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { api, ApiError } from "@/lib/api-client";
 import { queryKeys } from "@/lib/query-keys";
+import { counted } from "@/lib/format";
 import { filesFromDrop, formatBytes, putWithProgress, sha256Hex, splitFiles } from "./files";
+import { failuresFirst, STATE_LABEL, uploadSummary } from "./summary";
 
-type ServerUpload = { id: string; name: string; size: number; status: "pending" | "queued" | "processing" | "done" | "failed"; message: string | null; warnings: string[]; spectraCount: number };
+type ServerUpload = { id: string; name: string; size: number; status: "pending" | "queued" | "processing" | "done" | "failed"; message: string | null; retryable?: boolean; warnings: string[]; spectraCount: number };
 type Ticket = { id: string; name: string; status: string; duplicate: boolean; url: string | null; headers: Record<string, string> };
 type LocalState = { key: string; name: string; size: number; phase: "hashing" | "registering" | "uploading" | "sent" | "error"; progress: number; uploadId?: string; duplicate?: boolean; message?: string };
 
 const TERMINAL = new Set(["done", "failed"]);
 const PUT_CONCURRENCY = 4;
-
-const STATE_LABEL: Record<string, { label: string; tone: "neutral" | "teal" | "ok" | "danger" | "copper"; icon: string }> = {
-  hashing: { label: "reading", tone: "neutral", icon: "…" },
-  registering: { label: "registering", tone: "neutral", icon: "…" },
-  uploading: { label: "uploading", tone: "teal", icon: "↑" },
-  pending: { label: "uploading", tone: "teal", icon: "↑" },
-  queued: { label: "queued", tone: "neutral", icon: "◷" },
-  processing: { label: "processing", tone: "teal", icon: "⟳" },
-  done: { label: "done", tone: "ok", icon: "✓" },
-  failed: { label: "failed", tone: "danger", icon: "!" },
-  error: { label: "failed", tone: "danger", icon: "!" },
-};
 
 /**
  * Drag and drop (or pick) files, folders or zips: each file is hashed in the browser, registered
@@ -52,7 +42,7 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
 
   const start = useCallback(
     async (files: File[], skipped: string[]) => {
-      setNotice(skipped.length ? { tone: "warn", text: `Skipped ${skipped.length} file(s) that are not spectra (csv, tsv, txt, dat, json or zip): ${skipped.slice(0, 5).join(", ")}${skipped.length > 5 ? "…" : ""}` } : null);
+      setNotice(skipped.length ? { tone: "warn", text: `Skipped ${counted(skipped.length, "file")} that ${skipped.length === 1 ? "is" : "are"} not spectra (csv, tsv, txt, dat, json or zip): ${skipped.slice(0, 5).join(", ")}${skipped.length > 5 ? "…" : ""}` } : null);
       if (files.length === 0) return;
       const batchId = Date.now().toString(36);
       const keyed = files.map((f, i) => ({ key: `${batchId}-${i}`, file: f }));
@@ -125,14 +115,16 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
       const s = l.uploadId ? byId.get(l.uploadId) : undefined;
       if (l.uploadId) shownIds.add(l.uploadId);
       const status = l.phase === "error" ? "error" : s && (l.phase === "sent" || s.status !== "pending") ? s.status : l.phase;
-      return { key: l.key, id: l.uploadId, name: l.name, size: l.size, status, progress: l.progress, duplicate: l.duplicate, message: l.phase === "error" ? l.message : s?.message, spectra: s?.spectraCount ?? 0, warnings: s?.warnings ?? [] };
+      // A file the browser could not send is sent again by dropping it again: no server retry.
+      return { key: l.key, id: l.uploadId, name: l.name, size: l.size, status, progress: l.progress, duplicate: l.duplicate, message: l.phase === "error" ? l.message : s?.message, retryable: l.phase !== "error" && Boolean(s?.retryable), spectra: s?.spectraCount ?? 0, warnings: s?.warnings ?? [] };
     }),
-    ...server.filter((u) => !shownIds.has(u.id)).map((u) => ({ key: u.id, id: u.id, name: u.name, size: u.size, status: u.status, progress: u.status === "pending" ? 0 : 1, duplicate: false, message: u.message, spectra: u.spectraCount, warnings: u.warnings })),
+    ...server.filter((u) => !shownIds.has(u.id)).map((u) => ({ key: u.id, id: u.id, name: u.name, size: u.size, status: u.status, progress: u.status === "pending" ? 0 : 1, duplicate: false, message: u.message, retryable: Boolean(u.retryable), spectra: u.spectraCount, warnings: u.warnings })),
   ];
+  // Failures lead the list, so their messages are in view rather than at the end of the scroll box.
+  const listed = failuresFirst(rows);
   const active = localRows.filter((l) => l.phase === "uploading" || l.phase === "hashing" || l.phase === "registering");
   const totalBytes = localRows.reduce((a, l) => a + l.size, 0);
   const sentBytes = localRows.reduce((a, l) => a + l.size * (l.phase === "sent" ? 1 : l.progress), 0);
-  const counts = rows.reduce<Record<string, number>>((a, r) => ({ ...a, [r.status]: (a[r.status] ?? 0) + 1 }), {});
 
   return (
     <div className="space-y-4" data-testid="upload-panel">
@@ -165,7 +157,7 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
       {active.length > 0 && totalBytes > 0 ? (
         <div aria-live="polite">
           <div className="flex justify-between text-xs text-muted">
-            <span>Sending {active.length} file(s)…</span>
+            <span>Sending {counted(active.length, "file")}…</span>
             <span className="num">
               {formatBytes(sentBytes)} / {formatBytes(totalBytes)}
             </span>
@@ -178,10 +170,10 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
       {rows.length ? (
         <>
           <p className="text-xs text-muted" data-testid="upload-counts">
-            {rows.length} file(s): {Object.entries(counts).map(([k, v]) => `${v} ${STATE_LABEL[k]?.label ?? k}`).join(", ")}
+            {uploadSummary(rows.map((r) => r.status))}
           </p>
           <ul className="max-h-96 divide-y divide-line overflow-y-auto rounded-lg border border-line bg-card" data-testid="upload-rows">
-            {rows.map((r) => {
+            {listed.map((r) => {
               const s = STATE_LABEL[r.status] ?? STATE_LABEL.queued;
               return (
                 <li key={r.key} className="px-4 py-2.5 text-sm" data-testid="upload-row" data-status={r.status}>
@@ -191,11 +183,11 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
                     </span>
                     <span className="flex items-center gap-2">
                       {r.duplicate ? <Badge title="The same bytes (SHA-256) are already in this lab; not stored twice">already uploaded</Badge> : null}
-                      {r.status === "done" ? <span className="num text-xs text-ink-soft">{r.spectra} spectra{r.warnings.length ? `, ${r.warnings.length} warning(s)` : ""}</span> : null}
+                      {r.status === "done" ? <span className="num text-xs text-ink-soft">{counted(r.spectra, "spectrum", "spectra")}{r.warnings.length ? `, ${counted(r.warnings.length, "warning")}` : ""}</span> : null}
                       <Badge tone={s.tone}>
                         <span aria-hidden>{s.icon}</span> {s.label}
                       </Badge>
-                      {r.status === "failed" && r.id && canUpload ? (
+                      {r.status === "failed" && r.retryable && r.id && canUpload ? (
                         <Button type="button" variant="secondary" className="px-2 py-1 text-xs" onClick={() => retry(r.id!)}>
                           Retry
                         </Button>
@@ -208,6 +200,11 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
                     </div>
                   ) : null}
                   {r.message && (r.status === "failed" || r.status === "error") ? <pre className="mt-1.5 whitespace-pre-wrap font-sans text-xs text-danger">{r.message}</pre> : null}
+                  {r.status === "failed" && !r.retryable ? (
+                    <p className="mt-1 text-xs text-ink-soft">Correct the file and upload it again: a retry would read the same bytes and fail the same way.</p>
+                  ) : r.status === "error" ? (
+                    <p className="mt-1 text-xs text-ink-soft">The file did not reach the server: drop it again to send it.</p>
+                  ) : null}
                   {r.status === "done" && r.warnings.length ? (
                     <details className="mt-1 text-xs text-ink-soft">
                       <summary className="cursor-pointer">warnings</summary>

@@ -32,6 +32,11 @@ export const uploads = pgTable(
     storageKey: text("storage_key").notNull(),
     status: uploadStatus("status").notNull().default("pending"),
     message: text("message"),
+    /**
+     * For a failed file: whether processing it again can help (the queue gave up on an error of
+     * the services); false when the file itself cannot be read, which a retry reads the same way.
+     */
+    retryable: boolean("retryable").notNull().default(false),
     spectraCount: integer("spectra_count").notNull().default(0),
     warnings: jsonb("warnings").$type<string[]>().notNull().default([]),
     attempts: integer("attempts").notNull().default(0),
@@ -171,7 +176,7 @@ export const pickHistory = pgTable(
     labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
     pickId: uuid("pick_id").notNull().references(() => gapPicks.id, { onDelete: "cascade" }),
     actorId: uuid("actor_id").references(() => users.id, { onDelete: "set null" }),
-    /** correct | exclude | include | undo | reset */
+    /** correct | exclude | include | undo | reset | accept (the pick as it is, at `after.version`) */
     action: text("action").notNull(),
     before: jsonb("before").$type<Record<string, unknown>>().notNull(),
     after: jsonb("after").$type<Record<string, unknown>>().notNull(),
@@ -189,7 +194,7 @@ export const analysisRuns = pgTable(
     labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
     sampleId: uuid("sample_id").notNull().references(() => samples.id, { onDelete: "cascade" }),
     reason: text("reason").notNull(),
-    /** queued | running | done | failed */
+    /** queued | running (spectra) | fitting (the refit after them) | done | failed */
     status: text("status").notNull().default("queued"),
     total: integer("total").notNull().default(0),
     done: integer("done").notNull().default(0),

@@ -58,10 +58,24 @@ export async function startWorker(): Promise<() => Promise<void>> {
     const runs = await db()
       .select({ id: analysisRuns.id })
       .from(analysisRuns)
-      .where(and(eq(analysisRuns.sampleId, job.data.sampleId), inArray(analysisRuns.status, ["queued", "running"])));
+      .where(and(eq(analysisRuns.sampleId, job.data.sampleId), inArray(analysisRuns.status, ["queued", "running", "fitting"])));
     const started = Date.now();
+    const runIds = runs.map((r) => r.id);
     // Every run still queued or running is covered by this one (it reads the newest versions).
-    const out = await reanalyzeSample(db(), { sampleId: job.data.sampleId, runIds: runs.map((r) => r.id) });
+    let out;
+    try {
+      out = await reanalyzeSample(db(), { sampleId: job.data.sampleId, runIds });
+    } catch (e) {
+      log(`${QUEUES.reanalyzeSample} ${job.data.sampleId}: attempt ${job.retryCount + 1} failed: ${(e as Error).message}`);
+      // The last attempt ends the runs as failed, so no progress bar waits for work that stopped.
+      if (lastTry(job) && runIds.length) {
+        await db()
+          .update(analysisRuns)
+          .set({ status: "failed", message: `The re-analysis stopped: ${(e as Error).message}. Save the settings again to retry.`, updatedAt: new Date() })
+          .where(inArray(analysisRuns.id, runIds));
+      }
+      throw e;
+    }
     log(`${QUEUES.reanalyzeSample} ${job.data.sampleId}: ${out === "superseded" ? "superseded by a newer version" : "done"} in ${Date.now() - started} ms (${job.data.reason})`);
   });
   await b.work<RefitSampleJob>(QUEUES.refitSample, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {

@@ -16,3 +16,4 @@ export const correctPickInput = z
 
 export const excludeInput = z.object({ excluded: z.boolean(), reason, version });
 export const undoInput = z.object({ version });
+export const acceptInput = z.object({ version });

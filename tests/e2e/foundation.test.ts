@@ -7,11 +7,12 @@ import { makeLab, sampleBody, TEST_PASSWORD, type LabFixture } from "../support/
 
 let browser: Browser;
 let lab: LabFixture;
+let sampleId: string;
 
 beforeAll(async () => {
   browser = await launch();
   lab = await makeLab("Browser");
-  await createSample({ ctx: lab.ctx("owner"), input: { ...sampleBody("GX-01 bilayer"), substrate: "MoS2" } });
+  sampleId = (await createSample({ ctx: lab.ctx("owner"), input: { ...sampleBody("GX-01 bilayer"), substrate: "MoS2" } })).id;
 });
 afterAll(async () => {
   await browser?.close();
@@ -93,17 +94,29 @@ describe("lab home and forms", () => {
     // The sample page streams its frame before its data; an unknown sample is still a 404 response.
     const res3 = await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/00000000-0000-4000-8000-000000000000`);
     expect(res3?.status()).toBe(404);
+    // Editing a sample they may see is forbidden to them: the same 404 response as other forbidden pages.
+    const res4 = await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}/edit`);
+    expect(res4?.status()).toBe(404);
     await context.close();
   });
 
   it("an owner creates and revokes an API token in lab settings; the token is shown once", async () => {
     const { context, page } = await signedIn(lab.people.owner.email);
+    await context.grantPermissions(["clipboard-read", "clipboard-write"], { origin: APP_URL });
     await page.click("text=Lab settings");
     await page.waitForSelector('[data-testid="members-table"]');
+    // "Acts as" names each member once: the owner as "Me", not a second time under her name.
+    const actsAs = await page.$$eval('[data-testid="token-form"] select[name="userId"] option', (os) => os.map((o) => o.textContent ?? ""));
+    expect(actsAs[0]).toBe(`Me (${lab.people.owner.name})`);
+    expect(actsAs.filter((t) => t.includes(lab.people.owner.name))).toHaveLength(1);
+    expect(actsAs).toHaveLength(4);
     await page.fill('[data-testid="token-form"] input[name="name"]', "acquisition PC");
     await page.click('[data-testid="token-form"] button:has-text("Create token")');
     const token = (await page.textContent('[data-testid="new-token"]'))?.trim() ?? "";
     expect(token).toMatch(/^bxt_/);
+    await page.click('[data-testid="copy-token"]');
+    await page.waitForSelector('[data-testid="copy-token"]:has-text("Copied")');
+    expect(await page.evaluate(() => navigator.clipboard.readText())).toBe(token);
     await shot(page, "lab-settings");
     const me = await fetch(`${APP_URL}/api/v1/me`, { headers: { authorization: `Bearer ${token}` } });
     expect(me.status).toBe(200);

@@ -6,12 +6,11 @@ import { gapPicks, spectra } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
 import { createSample } from "@/lib/services/samples/createSample";
 import { createSession } from "@/lib/services/sessions/sessions";
-import { createTip } from "@/lib/services/tips/tips";
 import { processUpload } from "@/lib/services/uploads/processUpload";
-import { columnsToCsv, makeSpectrum, makeSweep, spectrumToCsv } from "@/lib/spectra";
+import { columnsToCsv, makeSpectrum } from "@/lib/spectra";
 import { APP_URL, launch, shot, SignInPage, signedIn as signedInAs } from "../support/browser";
 import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
-import { bytesOf, uploadFile } from "../support/pipeline";
+import { bytesOf, sweepSample, uploadFile } from "../support/pipeline";
 
 let browser: Browser;
 let lab: LabFixture;
@@ -21,15 +20,7 @@ let ids: string[];
 beforeAll(async () => {
   browser = await launch();
   lab = await makeLab("Review browser");
-  const owner = lab.ctx("owner");
-  sampleId = (await createSample({ ctx: owner, input: { name: "GX-20 bilayer", material: "germanene", workFunction_eV: 3.9, workFunctionSigma_eV: 0.1 } })).id;
-  const tip = await createTip({ ctx: owner, input: { label: "W-e2e", material: "W", workFunction_eV: 4.7, workFunctionSigma_eV: 0.1 } });
-  const sessionId = (await createSession({ ctx: owner, input: { sampleId, tipId: tip.id, label: "approach", date: "2026-11-22", temperature_K: 4.5 } })).id;
-  for (const [i, s] of makeSweep({ n: 14, seed: 11 }).spectra.entries()) {
-    const { id } = await uploadFile(owner, sessionId, `s-${String(i).padStart(2, "0")}.csv`, bytesOf(spectrumToCsv(s)));
-    await processUpload(db(), id);
-  }
-  ids = (await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.sampleId, sampleId)).orderBy(spectra.fieldVPerNm)).map((r) => r.id);
+  ({ sampleId, ids } = await sweepSample(lab.ctx("owner"), { name: "GX-20 bilayer", n: 14, seed: 11 }));
 }, 90_000);
 
 afterAll(async () => {

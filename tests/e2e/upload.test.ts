@@ -66,6 +66,14 @@ describe("upload in the browser", () => {
     const failed = await page.textContent('[data-testid="upload-row"][data-status="failed"]');
     expect(failed).toContain("notes.csv");
     expect(failed).toContain("a spectrum needs at least 10");
+    // One summary line with true counts and plurals, failures first; the failure leads the list.
+    expect(await page.textContent('[data-testid="upload-counts"]')).toBe("3 files: 1 failed, 2 done");
+    expect(await page.getAttribute('[data-testid="upload-row"] >> nth=0', "data-status")).toBe("failed");
+    expect(await page.textContent('[data-testid="upload-row"][data-status="done"] >> nth=0')).toContain("1 spectrum");
+    expect(await page.textContent('[data-testid="upload-row"][data-status="done"] >> nth=0')).not.toContain("1 spectra");
+    // A file that cannot be read fails again on a retry: no Retry, and the message says what to do.
+    expect(await page.$$('[data-testid="upload-row"][data-status="failed"] button')).toHaveLength(0);
+    expect(failed).toContain("Correct the file and upload it again");
     await page.waitForSelector('[data-testid="spectrum-row"]');
     expect(await page.$$('[data-testid="spectrum-row"]')).toHaveLength(2);
     await shot(page, "session-upload");

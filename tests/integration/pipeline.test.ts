@@ -144,6 +144,8 @@ describe("bad files and crashes", () => {
     expect(row.message).toMatch(/line 9/i);
     expect(await db().select().from(spectra).where(eq(spectra.uploadId, id))).toHaveLength(0);
     expect(await objectSize(row.storageKey)).toBe(bad.length);
+    // A file that cannot be read is not offered a retry (the same bytes fail the same way).
+    expect((await getUpload({ ctx: lab.ctx("owner"), input: { id } })).retryable).toBe(false);
     // Retrying a failed file re-reads the kept bytes (and fails the same way).
     await retryUpload({ ctx: lab.ctx("owner"), input: { id } });
     const [again] = await waitForUploads([id], { until: ["failed"] });

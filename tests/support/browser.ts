@@ -4,7 +4,7 @@
  */
 import fs from "node:fs";
 import path from "node:path";
-import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
+import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Page } from "playwright-core";
 
 export const APP_URL = process.env.APP_URL ?? "http://localhost:3100";
 export const SHOTS_DIR = path.resolve("test-results/screenshots");
@@ -48,9 +48,9 @@ export async function signedIn(
   password: string,
   labSlug: string,
   viewport = { width: 1360, height: 900 },
-  { serviceWorkers = "allow" }: { serviceWorkers?: "allow" | "block" } = {},
+  { serviceWorkers = "allow", ...more }: { serviceWorkers?: "allow" | "block" } & Pick<BrowserContextOptions, "hasTouch" | "isMobile"> = {},
 ): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ viewport, acceptDownloads: true, serviceWorkers });
+  const context = await browser.newContext({ viewport, acceptDownloads: true, serviceWorkers, ...more });
   const page = await context.newPage();
   const s = new SignInPage(page);
   await s.open();

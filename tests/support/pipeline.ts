@@ -7,8 +7,13 @@ import { spawn, type ChildProcess } from "node:child_process";
 import { createHash } from "node:crypto";
 import { eq } from "drizzle-orm";
 import { db } from "@/db/client";
-import { uploads } from "@/db/schema";
+import { spectra, uploads } from "@/db/schema";
 import type { Ctx } from "@/lib/services/context";
+import { createSample } from "@/lib/services/samples/createSample";
+import { createSession } from "@/lib/services/sessions/sessions";
+import { createTip } from "@/lib/services/tips/tips";
+import { processUpload } from "@/lib/services/uploads/processUpload";
+import { makeSweep, spectrumToCsv } from "@/lib/spectra";
 import { createUploads } from "@/lib/services/uploads/createUploads";
 import { completeUpload } from "@/lib/services/uploads/uploadStatus";
 
@@ -66,4 +71,25 @@ export async function stopWorkerProcess(child: ChildProcess | undefined, signal:
     child.once("exit", () => resolve());
     child.kill(signal);
   });
+}
+
+/**
+ * A sample with one tip and session holding `n` spectra of the physical model's sweep, one file
+ * each, processed in this process (no worker needed). Resolves to the sample's id and its
+ * spectra's ids in the order the review steps through them (by field).
+ */
+export async function sweepSample(
+  owner: Ctx,
+  o: { name: string; n: number; seed: number; sampleWorkFunctionSigma_eV?: number; tipWorkFunctionSigma_eV?: number; before?: (sampleId: string) => Promise<unknown> },
+): Promise<{ sampleId: string; ids: string[] }> {
+  const sampleId = (await createSample({ ctx: owner, input: { name: o.name, material: "germanene", workFunction_eV: 3.9, workFunctionSigma_eV: o.sampleWorkFunctionSigma_eV ?? 0.1 } })).id;
+  await o.before?.(sampleId);
+  const tip = await createTip({ ctx: owner, input: { label: `W-${o.name}`, material: "W", workFunction_eV: 4.7, workFunctionSigma_eV: o.tipWorkFunctionSigma_eV ?? 0.1 } });
+  const sessionId = (await createSession({ ctx: owner, input: { sampleId, tipId: tip.id, label: "approach", date: "2026-11-22", temperature_K: 4.5 } })).id;
+  for (const [i, s] of makeSweep({ n: o.n, seed: o.seed }).spectra.entries()) {
+    const { id } = await uploadFile(owner, sessionId, `s-${String(i).padStart(2, "0")}.csv`, bytesOf(spectrumToCsv(s)));
+    await processUpload(db(), id);
+  }
+  const ids = (await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.sampleId, sampleId)).orderBy(spectra.fieldVPerNm)).map((r) => r.id);
+  return { sampleId, ids };
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { fileStem, formatField, formatGap } from "@/lib/format";
+import { deltaBicInWords, fileStem, formatField, formatGap, pickMethodInWords } from "@/lib/format";
 
 describe("fileStem", () => {
   it("keeps letters and digits, lower-cased, joined by single hyphens", () => {
@@ -22,5 +22,23 @@ describe("formatGap and formatField", () => {
     expect(formatGap(0.01, true)).toBe("closed");
     expect(formatField(1.234, 0.056)).toBe("1.23 ± 0.06 V/nm");
     expect(formatField(Number.NaN)).toBe("—");
+  });
+});
+
+describe("deltaBicInWords", () => {
+  // Cases from the critical-field card's bugs ("= > 100", a bare "−32601.7"); grades after Kass & Raftery (1995), from memory.
+  it("gives the number with its sign and what it means", () => {
+    expect(deltaBicInWords(132.4)).toBe("ΔBIC = 132: strong preference for closing and reopening");
+    expect(deltaBicInWords(-32601.7)).toBe("ΔBIC = −32,602: strong preference for a straight line (no closing and reopening)");
+    expect(deltaBicInWords(3.25)).toBe("ΔBIC = 3.3: some preference for closing and reopening");
+    expect(deltaBicInWords(-0.4)).toBe("ΔBIC = −0.4: no clear preference for either model");
+  });
+});
+
+describe("pickMethodInWords", () => {
+  it("names the picker's methods in words", () => {
+    expect(pickMethodInWords("fit-separate")).toBe("each edge fitted");
+    expect(pickMethodInWords("fit-joint")).toBe("both edges fitted together");
+    expect(pickMethodInWords("some-new-method")).toBe("some new method");
   });
 });

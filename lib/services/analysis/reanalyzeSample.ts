@@ -13,7 +13,9 @@ const CHUNK = 250;
  * Re-runs a sample's analysis with its current versions: every spectrum's distance and field with
  * the current field model, and every automatic pick with the current extraction settings. Picks an
  * analyst corrected by hand keep their edges (their stored automatic pick and its quality flags,
- * which describe the data, are refreshed beside them). Progress is written to analysis_runs as it goes, in chunks, each its own transaction.
+ * which describe the data, are refreshed beside them; repeats at one point are compared again).
+ * Progress is written to analysis_runs as it goes, in chunks, each its own transaction:
+ * `running` with the spectra done, then `fitting` while the sample is refitted, then `done`.
  */
 export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; runIds?: string[] }): Promise<RefitResult | "superseded"> {
   const analysis = await loadSampleAnalysis(db, input.sampleId);
@@ -59,6 +61,9 @@ export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; run
     after = rows[rows.length - 1].s.id;
     if (runs) await db.update(analysisRuns).set({ done, updatedAt: new Date() }).where(runs);
   }
+  // Every spectrum is done, but the work is not: the repeat check and the refit (and its alert
+  // decision) come next, and the run says so until it has ended, so no one reads "25 of 25" as finished.
+  if (runs) await db.update(analysisRuns).set({ status: "fitting", done, updatedAt: new Date() }).where(runs);
   await reflagRepeats(db, input.sampleId);
   const refit = await refitSample(db, input.sampleId);
   if (runs) await db.update(analysisRuns).set({ status: "done", done, updatedAt: new Date() }).where(runs);

@@ -1,9 +1,9 @@
 import "server-only";
-import { and, desc, eq } from "drizzle-orm";
+import { and, desc, eq, ne } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { gapPicks, pickHistory, spectra, users, type GapPickRow } from "@/db/schema";
 import { assertCan } from "@/lib/auth/permissions";
-import { correctPickInput, excludeInput, undoInput } from "@/lib/schemas/picks";
+import { acceptInput, correctPickInput, excludeInput, undoInput } from "@/lib/schemas/picks";
 import { refitSample } from "../analysis/refitSample";
 import { recordAudit } from "../audit";
 import type { Ctx } from "../context";
@@ -118,13 +118,32 @@ export async function setExcluded({ ctx, input }: { ctx: Ctx; input: { spectrumI
   return { pick: result.pick, crossing: refit.current };
 }
 
+/**
+ * An analyst accepts a pick as it is (keyboard review's A): the history records who accepted which
+ * version and when; nothing about the pick changes, so there is no refit. A stale version is a 409
+ * like any edit. The pick's updated_at moves, so the phase data (which counts accepted picks) is
+ * built afresh.
+ */
+export async function acceptPick({ ctx, input }: { ctx: Ctx; input: { spectrumId: string; body: unknown } }) {
+  assertCan(ctx.actor, "analysis:write");
+  const b = parseInput(acceptInput, input.body);
+  return ctx.db.transaction(async (tx) => {
+    const { p } = await lockPick(tx, ctx, input.spectrumId, b.version);
+    const [next] = await tx.update(gapPicks).set({ updatedAt: new Date() }).where(eq(gapPicks.id, p.id)).returning();
+    const [entry] = await tx.insert(pickHistory).values({ labId: ctx.actor.labId, pickId: p.id, actorId: ctx.actor.userId, action: "accept", before: snapshot(p), after: snapshot(next), reason: null }).returning();
+    await recordAudit({ ...ctx, db: tx }, "pick.accept", { type: "spectrum", id: input.spectrumId }, { version: p.version });
+    return { pick: next, acceptedAt: entry.createdAt };
+  });
+}
+
 /** Undo the latest change to a pick: its state before that change comes back, and the undo is itself recorded. */
 export async function undoPickChange({ ctx, input }: { ctx: Ctx; input: { spectrumId: string; body: unknown } }) {
   assertCan(ctx.actor, "analysis:write");
   const b = parseInput(undoInput, input.body);
   const result = await ctx.db.transaction(async (tx) => {
     const { p, s } = await lockPick(tx, ctx, input.spectrumId, b.version);
-    const [last] = await tx.select().from(pickHistory).where(eq(pickHistory.pickId, p.id)).orderBy(desc(pickHistory.createdAt)).limit(1);
+    // An acceptance changed nothing, so there is nothing of it to undo: the latest change is undone.
+    const [last] = await tx.select().from(pickHistory).where(and(eq(pickHistory.pickId, p.id), ne(pickHistory.action, "accept"))).orderBy(desc(pickHistory.createdAt)).limit(1);
     if (!last) throw conflict("There is nothing to undo: this pick was never changed by hand.");
     const before = last.before as Snapshot;
     const [next] = await tx

@@ -155,6 +155,8 @@ export interface PhasePoint {
   flags: QualityFlag[];
   /** Left out of the crossing fit by the lab's flagged-spectra setting (`excluded` is by hand). */
   excludedByFlag: boolean;
+  /** An analyst accepted this version of the pick as it is (keyboard review's A). */
+  accepted: boolean;
 }
 
 /** The phase plot's data: every spectrum with a gap and a field, and the sample's current crossing. */
@@ -175,6 +177,8 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
       excluded: gapPicks.excluded,
       region: spectra.region,
       flags: gapPicks.flags,
+      // Accepted by an analyst as it is now: an acceptance of this very version in the history.
+      accepted: sql<boolean>`exists (select 1 from pick_history h where h.pick_id = ${gapPicks.id} and h.action = 'accept' and (h.after ->> 'version')::int = ${gapPicks.version})`,
     })
     .from(spectra)
     .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
@@ -199,13 +203,17 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
     region: r.region,
     flags: r.flags,
     excludedByFlag: flaggedOutOfFit(setting, r),
+    accepted: r.accepted,
   }));
-  const [c] = await ctx.db
-    .select()
+  const [row] = await ctx.db
+    .select({ c: crossings, settingsVersion: extractionSettingsVersions.version, fieldModelVersion: fieldModelVersions.version })
     .from(crossings)
+    .leftJoin(extractionSettingsVersions, eq(extractionSettingsVersions.id, crossings.settingsVersionId))
+    .leftJoin(fieldModelVersions, eq(fieldModelVersions.id, crossings.fieldModelVersionId))
     .where(and(eq(crossings.sampleId, sample.id), isNull(crossings.region)))
     .orderBy(desc(crossings.createdAt))
     .limit(1);
+  const c = row?.c;
   return {
     sample: { id: sample.id, name: sample.name },
     points,
@@ -226,6 +234,9 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
           curve: c.curve,
           settingsVersionId: c.settingsVersionId,
           fieldModelVersionId: c.fieldModelVersionId,
+          /** The version numbers the fit was made with, as the sample page names them. */
+          settingsVersion: row.settingsVersion,
+          fieldModelVersion: row.fieldModelVersion,
           fittedAt: c.createdAt.toISOString(),
         }
       : { state: "none" as const, found: false, field_V_per_nm: null, ci95_V_per_nm: null },

@@ -128,10 +128,11 @@ export async function processUpload(db: DbOrTx, uploadId: string, hooks: { after
   return { status: "done", spectra: prepared.length, refit };
 }
 
-async function fail(db: DbOrTx, id: string, message: string): Promise<ProcessOutcome> {
+/** Marks the file failed with its message; `retryable` when processing it again can help (not a file that cannot be read). */
+async function fail(db: DbOrTx, id: string, message: string, retryable = false): Promise<ProcessOutcome> {
   const [u] = await db
     .update(uploads)
-    .set({ status: "failed", message, updatedAt: new Date() })
+    .set({ status: "failed", message, retryable, updatedAt: new Date() })
     .where(and(eq(uploads.id, id), ne(uploads.status, "done")))
     .returning({ sessionId: uploads.sessionId });
   if (!u) return { status: "skipped", reason: "already done by another run" };
@@ -145,5 +146,5 @@ async function fail(db: DbOrTx, id: string, message: string): Promise<ProcessOut
 /** After the queue's last retry: the file is marked failed with the reason, and its bytes are kept. */
 export async function markUploadFailed(db: DbOrTx, id: string, error: unknown): Promise<void> {
   const reason = error instanceof Error ? error.message : String(error);
-  await fail(db, id, `Processing failed after several attempts (${reason}). The raw file is kept; retry once the problem is fixed.`);
+  await fail(db, id, `Processing failed after several attempts (${reason}). The raw file is kept; retry once the problem is fixed.`, true);
 }

@@ -36,6 +36,8 @@ export async function getUpload({ ctx, input }: { ctx: Ctx; input: { id: string 
     sha256: u.sha256,
     status: u.status,
     message: u.message,
+    /** A failed file that processing again may fix (true), or one whose bytes cannot be read as they are (false). */
+    retryable: u.status === "failed" && u.retryable,
     warnings: u.warnings,
     spectraCount: u.spectraCount,
     spectrumIds: ids.map((r) => r.id),
@@ -71,7 +73,7 @@ export async function retryUpload({ ctx, input }: { ctx: Ctx; input: { id: strin
   assertCan(ctx.actor, "upload:write");
   const u = await loadUpload(ctx, input.id);
   if (u.status !== "failed") throw conflict(`Only a failed upload can be retried; this one is ${u.status}.`);
-  await ctx.db.update(uploads).set({ status: "queued", message: null, updatedAt: new Date() }).where(eq(uploads.id, u.id));
+  await ctx.db.update(uploads).set({ status: "queued", message: null, retryable: false, updatedAt: new Date() }).where(eq(uploads.id, u.id));
   await enqueueProcessUpload(u.id, { retry: true });
   await recordAudit(ctx, "upload.retry", { type: "upload", id: u.id });
   return { id: u.id, status: "queued" as const };
@@ -86,5 +88,5 @@ export async function listSessionUploads({ ctx, input }: { ctx: Ctx; input: { se
     .from(uploads)
     .where(and(eq(uploads.sessionId, input.sessionId), eq(uploads.labId, ctx.actor.labId)))
     .orderBy(asc(uploads.createdAt));
-  return rows.map((u) => ({ id: u.id, name: u.fileName, size: u.sizeBytes, status: u.status, message: u.message, warnings: u.warnings, spectraCount: u.spectraCount, updatedAt: u.updatedAt.toISOString() }));
+  return rows.map((u) => ({ id: u.id, name: u.fileName, size: u.sizeBytes, status: u.status, message: u.message, retryable: u.status === "failed" && u.retryable, warnings: u.warnings, spectraCount: u.spectraCount, updatedAt: u.updatedAt.toISOString() }));
 }

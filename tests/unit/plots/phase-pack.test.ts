@@ -14,6 +14,7 @@ function phase(n: number): PhaseData {
     closed: i % 17 === 0,
     source: i % 5 === 0 ? "corrected" : "auto",
     excluded: i % 23 === 0,
+    accepted: i % 29 === 0,
     region: i % 3 === 0 ? null : i % 3 === 1 ? "terrace A" : "step edge",
     // A few flagged picks, each with a message of its own; most carry none.
     flags: i % 29 === 0 ? [{ code: "glitch", message: `1 single-point spike replaced before picking, at ${i} mV`, at_V: [i / 1000] }] : [],

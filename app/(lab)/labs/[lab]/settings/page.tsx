@@ -53,6 +53,7 @@ export default async function SettingsPage({ params }: { params: Promise<{ lab: 
           <TokensPanel
             lab={lab}
             members={members.members.map((m) => ({ userId: m.userId, name: m.name }))}
+            meId={ctx.actor.userId}
             tokens={tokens.map((t) => ({ ...t, createdAt: t.createdAt.toISOString(), lastUsedAt: t.lastUsedAt?.toISOString() ?? null, revokedAt: t.revokedAt?.toISOString() ?? null }))}
           />
         </Card>

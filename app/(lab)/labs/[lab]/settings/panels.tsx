@@ -1,7 +1,7 @@
 "use client";
 
 import { formatDistanceToNow } from "date-fns";
-import { useActionState } from "react";
+import { useActionState, useState } from "react";
 import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
@@ -170,9 +170,26 @@ function RevokeToken({ lab, id }: { lab: string; id: string }) {
   );
 }
 
-export function TokensPanel({ lab, tokens, members }: { lab: string; tokens: TokenRow[]; members: { userId: string; name: string }[] }) {
+/** Copies the new token to the clipboard, and says whether it did (it is shown once). */
+function CopyToken({ token }: { token: string }) {
+  const [copied, setCopied] = useState<boolean | null>(null);
+  return (
+    <Button
+      type="button"
+      variant="secondary"
+      className="shrink-0 px-2.5 py-1 text-xs"
+      data-testid="copy-token"
+      onClick={() => navigator.clipboard.writeText(token).then(() => setCopied(true), () => setCopied(false))}
+    >
+      {copied === null ? "Copy" : copied ? "Copied" : "Not copied: select it and copy"}
+    </Button>
+  );
+}
+
+export function TokensPanel({ lab, tokens, members, meId }: { lab: string; tokens: TokenRow[]; members: { userId: string; name: string }[]; meId: string }) {
   const [state, action, pending] = useActionState(createTokenAction.bind(null, lab), initial);
   const created = state.ok ? (state.data as { token: string; name: string } | undefined) : undefined;
+  const me = members.find((m) => m.userId === meId);
   return (
     <div className="space-y-5">
       <p className="text-sm text-ink-soft">
@@ -182,9 +199,12 @@ export function TokensPanel({ lab, tokens, members }: { lab: string; tokens: Tok
       {created ? (
         <Notice tone="ok">
           <p className="font-medium">Token “{created.name}” created. Copy it now: it will not be shown again.</p>
-          <code className="num mt-2 block select-all break-all rounded bg-white px-2 py-1.5 text-ink" data-testid="new-token">
-            {created.token}
-          </code>
+          <div className="mt-2 flex items-center gap-2">
+            <code className="num block min-w-0 flex-1 select-all break-all rounded bg-white px-2 py-1.5 text-ink" data-testid="new-token">
+              {created.token}
+            </code>
+            <CopyToken token={created.token} />
+          </div>
         </Notice>
       ) : null}
       {state.message && !state.ok ? <Notice tone="danger">{state.message}</Notice> : null}
@@ -194,8 +214,9 @@ export function TokensPanel({ lab, tokens, members }: { lab: string; tokens: Tok
         </Field>
         <Field label="Acts as" name="userId">
           <Select name="userId" defaultValue="">
-            <option value="">Me</option>
-            {members.map((m) => (
+            {/* The person creating it is listed once, as "Me", not again under their name. */}
+            <option value="">{me ? `Me (${me.name})` : "Me"}</option>
+            {members.filter((m) => m.userId !== meId).map((m) => (
               <option key={m.userId} value={m.userId}>
                 {m.name}
               </option>

@@ -3,6 +3,8 @@ import { Suspense } from "react";
 import { CrossingTimeline } from "@/components/alerts/crossing-timeline";
 import { WatchToggle } from "@/components/alerts/watch-toggle";
 import { CrossingSummary } from "@/components/review/crossing-summary";
+import { FieldModelCard } from "@/components/review/field-model-card";
+import type { SampleVersions } from "@/components/review/sample-queries";
 import { packPhase } from "@/components/review/phase-pack";
 import { PhasePlot } from "@/components/review/phase-plot";
 import { SettingsEditors } from "@/components/review/settings-editors";
@@ -10,7 +12,6 @@ import { ButtonLink } from "@/components/ui/button";
 import { Card, EmptyState, PageHeader } from "@/components/ui/card";
 import { pageCtx, pageSample } from "@/lib/actions/validated";
 import { can } from "@/lib/auth/permissions";
-import { fieldAssumptions } from "@/lib/spectra";
 import { loadSampleAnalysis } from "@/lib/services/analysis/sampleModel";
 import { getSampleVersions } from "@/lib/services/analysis/versions";
 import { listSessions } from "@/lib/services/sessions/sessions";
@@ -36,6 +37,12 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
   const model = analysis.modelFor(usedTips[0] ?? null);
   // In the fit: neither excluded by hand nor left out for its flags by the lab's setting.
   const included = phase.points.filter((p) => !p.excluded && !p.excludedByFlag).length;
+  // What the versions query starts from (the cards that read it: settings, field model).
+  const initialVersions: SampleVersions = {
+    settings: { id: versions.settings.id, version: versions.settings.version, settings: versions.settings.settings, createdAt: versions.settings.createdAt.toISOString() },
+    fieldModel: { id: versions.field.id, version: versions.field.version, model: versions.field.model, createdAt: versions.field.createdAt.toISOString() },
+    run: versions.run ? { id: versions.run.id, status: versions.run.status, total: versions.run.total, done: versions.run.done, reason: versions.run.reason, message: versions.run.message } : null,
+  };
   // Rows of the wide layout's left column: the plot, the gap map if any, the settings.
   const rows = map.grids.length ? { grid: "xl:grid-rows-[auto_auto_1fr]", side: "xl:row-span-3" } : { grid: "xl:grid-rows-[auto_1fr]", side: "xl:row-span-2" };
   return (
@@ -78,30 +85,17 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
         <Suspense>
         <div className={`space-y-5 xl:col-start-2 xl:row-start-1 ${rows.side}`}>
           <Card title="Critical field">
-            <CrossingSummary crossing={phase.crossing} nIncluded={included} />
+            <CrossingSummary lab={lab} sampleId={s.id} initial={{ crossing: phase.crossing, nIncluded: included }} />
           </Card>
-          <CrossingTimeline lab={lab} sampleId={s.id} />
+          <CrossingTimeline lab={lab} sampleId={s.id} initialCrossing={phase.crossing} />
           <Card title="How the field is estimated">
-            <div className="space-y-2 text-xs leading-relaxed text-ink-soft" data-testid="field-assumptions">
-              <p className="num text-ink">
-                E = (Φ<sub>tip</sub> − Φ<sub>sample</sub>) / (e·d), d = d<sub>c</sub> + ln(G<sub>0</sub>/G<sub>set</sub>)/(2κ) + Δz
-              </p>
-              <ul className="list-disc space-y-0.5 pl-4">
-                <li>
-                  Φ<sub>tip</sub> = <span className="num">{usedTips.length ? usedTips.map((t) => `${t.workFunctionEv.toFixed(2)} ± ${t.workFunctionSigmaEv.toFixed(2)} eV (${t.label})`).join("; ") : `${model.tipWorkFunction_eV} ± ${model.tipWorkFunctionSigma_eV} eV (lab default)`}</span>
-                </li>
-                <li>
-                  Φ<sub>sample</sub> = <span className="num">{model.sampleWorkFunction_eV.toFixed(2)} ± {model.sampleWorkFunctionSigma_eV.toFixed(2)} eV</span>
-                </li>
-                {fieldAssumptions(model).map((a) => (
-                  <li key={a}>{a}</li>
-                ))}
-              </ul>
-              <p>
-                Field model <span className="num">v{versions.field.version}</span>, extraction settings <span className="num">v{versions.settings.version}</span>. Error bars: gap from the
-                pick&apos;s uncertainty; field from the work-function and contact-distance uncertainties (common to all points, so they also widen the critical field&apos;s interval).
-              </p>
-            </div>
+            <FieldModelCard
+              lab={lab}
+              sampleId={s.id}
+              initial={initialVersions}
+              model={model}
+              tipText={usedTips.length ? usedTips.map((t) => `${t.workFunctionEv.toFixed(2)} ± ${t.workFunctionSigmaEv.toFixed(2)} eV (${t.label})`).join("; ") : `${model.tipWorkFunction_eV} ± ${model.tipWorkFunctionSigma_eV} eV (lab default)`}
+            />
           </Card>
         <Card title="Export for a paper">
           <ul className="space-y-2 text-sm" data-testid="exports">
@@ -169,11 +163,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
             lab={lab}
             sampleId={s.id}
             canEdit={can(ctx.actor.role, "analysis:write")}
-            initial={{
-              settings: { id: versions.settings.id, version: versions.settings.version, settings: versions.settings.settings, createdAt: versions.settings.createdAt.toISOString() },
-              fieldModel: { id: versions.field.id, version: versions.field.version, model: versions.field.model, createdAt: versions.field.createdAt.toISOString() },
-              run: versions.run ? { id: versions.run.id, status: versions.run.status, total: versions.run.total, done: versions.run.done, reason: versions.run.reason } : null,
-            }}
+            initial={initialVersions}
           />
         </Card>
         </div>

@@ -1,0 +1,1 @@
+ALTER TABLE "uploads" ADD COLUMN "retryable" boolean DEFAULT false NOT NULL;
