@@ -12,6 +12,8 @@ const schema = z.object({
   AUTH_SECRET: z.string().min(16, "AUTH_SECRET must be at least 16 characters"),
   TOKEN_SECRET: z.string().min(16, "TOKEN_SECRET must be at least 16 characters"),
   APP_URL: z.string().url().default("http://localhost:3000"),
+  /** Host names sign-in is honoured under besides APP_URL's (lib/auth/hosts.ts); unset: localhost, 127.0.0.1, [::1]. */
+  BANDCROSS_TRUSTED_HOSTS: z.string().optional(),
   S3_ENDPOINT: z.string().url().optional(),
   S3_PUBLIC_ENDPOINT: z.string().url().optional(),
   S3_REGION: z.string().default("us-east-1"),

@@ -1,9 +1,11 @@
 "use server";
 
 import { AuthError } from "next-auth";
+import { redirect } from "next/navigation";
 import { z } from "zod";
 import { db } from "@/db/client";
 import { signIn, signOut } from "@/lib/auth";
+import { checkRequestHost, untrustedHostMessage } from "@/lib/auth/here";
 import type { ActionState } from "@/lib/actions/types";
 import { acceptInvitation } from "@/lib/services/members/members";
 import { isServiceError } from "@/lib/services/errors";
@@ -19,6 +21,17 @@ function safeNext(next: string | undefined) {
   return next && next.startsWith("/") && !next.startsWith("//") ? next : "/labs";
 }
 
+/**
+ * Signs in and goes on to `to` on the host the browser came by. Auth.js builds its answer from
+ * AUTH_URL when that is set (one fixed origin); following it would carry the browser off to
+ * another host name, where the new cookie does not exist. Only its path is followed.
+ */
+async function signInHere(email: string, password: string, to: string): Promise<never> {
+  const landed: unknown = await signIn("credentials", { email, password, redirectTo: to, redirect: false });
+  const url = new URL(typeof landed === "string" ? landed : to, "http://same.host");
+  redirect(safeNext(url.pathname + url.search));
+}
+
 function isRedirect(e: unknown) {
   return Boolean(e && typeof e === "object" && "digest" in e && String((e as { digest: unknown }).digest).startsWith("NEXT_REDIRECT"));
 }
@@ -29,9 +42,10 @@ export async function signInAction(_prev: ActionState, formData: FormData): Prom
   if (!parsed.success) {
     return { ok: false, message: "Enter your e-mail address and password.", values: { email } };
   }
+  const host = await checkRequestHost();
+  if (!host.trusted) return { ok: false, message: untrustedHostMessage(host), values: { email } };
   try {
-    await signIn("credentials", { email: parsed.data.email, password: parsed.data.password, redirectTo: safeNext(parsed.data.next) });
-    return { ok: true };
+    return await signInHere(parsed.data.email, parsed.data.password, safeNext(parsed.data.next));
   } catch (e) {
     if (isRedirect(e)) throw e;
     if (e instanceof AuthError) {
@@ -47,7 +61,9 @@ export async function signInAction(_prev: ActionState, formData: FormData): Prom
 }
 
 export async function signOutAction() {
-  await signOut({ redirectTo: "/sign-in" });
+  // Like signing in: stay on the host the browser used.
+  await signOut({ redirect: false });
+  redirect("/sign-in");
 }
 
 export async function acceptInviteAction(token: string, _prev: ActionState, formData: FormData): Promise<ActionState> {
@@ -59,12 +75,13 @@ export async function acceptInviteAction(token: string, _prev: ActionState, form
     if (isServiceError(e)) return { ok: false, message: e.message, fieldErrors: e.fieldErrors, values: { name: String(formData.get("name") ?? "") } };
     throw e;
   }
+  const host = await checkRequestHost();
+  if (!host.trusted) return { ok: true, message: `You have joined the lab. ${untrustedHostMessage(host)}` };
   try {
-    await signIn("credentials", { email, password: String(formData.get("password")), redirectTo: "/labs" });
+    return await signInHere(email, String(formData.get("password")), "/labs");
   } catch (e) {
     if (isRedirect(e)) throw e;
     // An existing account keeps its own password: send them to sign in with it.
     return { ok: true, message: "You have joined the lab. Sign in with your existing password." };
   }
-  return { ok: true };
 }

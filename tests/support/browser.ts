@@ -9,10 +9,11 @@ import { chromium, type Browser, type BrowserContext, type BrowserContextOptions
 export const APP_URL = process.env.APP_URL ?? "http://localhost:3100";
 export const SHOTS_DIR = path.resolve("test-results/screenshots");
 
-export async function launch(): Promise<Browser> {
+/** `extraArgs`: more chromium switches, e.g. `--host-resolver-rules=MAP name 127.0.0.1` to reach the app by another name. */
+export async function launch(extraArgs: string[] = []): Promise<Browser> {
   return chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
-    args: ["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--disable-dev-shm-usage"],
+    args: ["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--disable-dev-shm-usage", ...extraArgs],
   });
 }
 
@@ -26,8 +27,9 @@ export async function shot(page: Page, name: string): Promise<string> {
 /** Page object for the sign-in screen. */
 export class SignInPage {
   constructor(private readonly page: Page) {}
-  async open() {
-    await this.page.goto(`${APP_URL}/sign-in`);
+  /** `base`: the origin to open it at (the app answers under any trusted host name). */
+  async open(base = APP_URL) {
+    await this.page.goto(`${base}/sign-in`);
   }
   async signIn(email: string, password: string) {
     // A previous attempt's answer resets the form when React commits it (React 19 form actions),
