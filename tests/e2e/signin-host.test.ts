@@ -1,8 +1,10 @@
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/db/client";
+import { inviteMember } from "@/lib/services/members/members";
 import { APP_URL, launch, shot, SignInPage } from "../support/browser";
 import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
+import { linkIn, mailsTo } from "../support/outbox";
 
 let browser: Browser;
 let lab: LabFixture;
@@ -41,6 +43,22 @@ describe("sign-in under another host name", () => {
     await page.waitForURL(`${loopback}/sign-in`);
     await page.goto(`${loopback}/labs/${lab.lab.slug}`);
     await page.waitForURL(`${loopback}/sign-in**`);
+    await context.close();
+  });
+
+  it("accepting an invitation opened at the loopback address signs the new member in there", async () => {
+    const email = `loopback-${Date.now()}@lab.example`;
+    await inviteMember({ ctx: lab.ctx("owner"), input: { email, role: "microscopist" } });
+    const [mail] = await mailsTo(email);
+    const link = new URL(linkIn(mail.text, "/invite/"));
+    const context = await browser.newContext({ viewport: { width: 1360, height: 860 } });
+    const page = await context.newPage();
+    await page.goto(`${loopback}${link.pathname}`);
+    await page.fill('[data-testid="accept-invite-form"] input[name="name"]', "Loopback Person");
+    await page.fill('[data-testid="accept-invite-form"] input[name="password"]', "a long new password");
+    await page.click('[data-testid="accept-invite-form"] button[type="submit"]');
+    await page.waitForURL(`${loopback}/labs/${lab.lab.slug}`, { timeout: 15_000 });
+    expect(await page.textContent('[data-testid="current-role"]')).toContain("Microscopist");
     await context.close();
   });
 
