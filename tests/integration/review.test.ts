@@ -130,7 +130,8 @@ describe("exports", () => {
     await tagSpectra({ ctx: lab.ctx("owner"), input: { ids: [ids[0]], patch: { region: "terrace A" } } });
     const { text } = await methodsText({ ctx: lab.ctx("owner"), input: { sampleId } });
     expect(text).toContain("extraction settings version 1");
-    expect(text).toContain("3σ for 3 consecutive points");
+    expect(text).toContain("3σ for at least 3 consecutive points in a rise sustained over 40 mV");
+    expect(text).toContain("robust polynomial (degree up to 2");
     expect(text).toContain("d_c = 0.25 ± 0.05 nm");
     expect(text).toContain("Savitzky and Golay, Anal. Chem. 36, 1627 (1964)");
   });

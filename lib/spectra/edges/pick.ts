@@ -28,7 +28,7 @@ import { linearLeastSquares, madSigma, quantile } from "../stats";
 import { type Baseline, autocorrelationTime, baselineAt, fitBaselineOn, trimOnsets } from "./baseline";
 import { edgeProfileRange, fitEdges } from "./fit";
 import { noiseFloor } from "./noise";
-import { logOnset, thresholdEdgeDown, thresholdEdgeUp } from "./threshold";
+import { logOnset, sustainedEdge } from "./threshold";
 import type { SpectrumMeta } from "../import/types";
 import type { QualityFlag } from "./flags";
 
@@ -160,6 +160,8 @@ export const ZERO_GAP_DCHI2_95 = 7.0;
 export const ZERO_GAP_DCHI2_99 = 9.8;
 /** An onset this many noise levels (σ_smoothed·√τ) above the baseline half a band window out is strong. */
 const STRONG_ONSET = 15;
+/** Share of the sustained stretch (threshold.sustain_mV) a band edge spends above the threshold. */
+const SUSTAINED_SHARE = 0.9;
 
 export interface PickInput {
   bias_V: ArrayLike<number>;
@@ -326,24 +328,15 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   // smoothing of itself (band edges are a few points there, which the MAD ignores).
   const dW = minusMovingAverage(s.subarray(lo, hi + 1), 6 * sm.windowPoints + 1);
   const sigmaWide = Math.max(madSigma(dW), nf.sigmaSmoothed);
-  // A band edge is a sustained rise: a run shorter than this can be a slow noise excursion. Near the
-  // end of the search range a shorter run is accepted.
+  // Runs: a few points above the threshold (the smoothing window), within a sustained stretch.
   const Nshort = Math.max(st.threshold.consecutive, sm.windowPoints);
   const Nlong = Math.max(Nshort, Math.round(st.threshold.sustain_mV / 1000 / step), Math.round(3 * res_V / step));
-  // Near the end of the range a shorter run counts only if it lasts to the end.
-  const walk = (dd: Float64Array, start: number, t: number) => {
-    let c = thresholdEdgeUp(bias, dd, start, hi, t, Nlong);
-    if (!c) {
-      const short = thresholdEdgeUp(bias, dd, start, hi, t, Nshort);
-      if (short && short.index + Nlong - 1 > hi && dd.subarray(short.index, hi + 1).every((x) => x > t)) c = short;
-    }
-    let v = thresholdEdgeDown(bias, dd, start, lo, t, Nlong);
-    if (!v) {
-      const short = thresholdEdgeDown(bias, dd, start, lo, t, Nshort);
-      if (short && short.index - Nlong + 1 < lo && dd.subarray(lo, short.index + 1).every((x) => x > t)) v = short;
-    }
-    return { c, v };
-  };
+  // A band edge is a sustained rise: from it the signal stays above the threshold for a few points and
+  // then spends most of the next stretch above it; a slow noise excursion does not.
+  const walk = (dd: Float64Array, start: number, t: number) => ({
+    c: sustainedEdge(bias, dd, start, hi, t, Nshort, Nlong, SUSTAINED_SHARE, 1),
+    v: sustainedEdge(bias, dd, start, lo, t, Nshort, Nlong, SUSTAINED_SHARE, -1),
+  });
   // 1. Edges against a flat floor; 2. the gap between them is the quiet region: fit the baseline
   // there, read the edges against it, and repeat until they stay put (edges/baseline.ts).
   const d = new Float64Array(n);

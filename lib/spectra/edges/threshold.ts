@@ -56,3 +56,27 @@ export function logOnset(bias: Float64Array, s: Float64Array, index: number, dir
   if (!(beta * dir > 0)) return null;
   return (Math.log(sigma) - alpha) / beta;
 }
+
+/**
+ * Sustained threshold edge: walking outward from `start`, the first point from which the signal stays
+ * above `thr` for `consecutive` points and then spends at least `share` of the next `span` points
+ * above it (or of what is left of the range). A band keeps rising however noisy its first stretch is;
+ * a slow noise excursion falls back below the threshold within its correlation length.
+ * `dir` = 1 walks up in bias (conduction band), −1 down (valence band); `end` is the last index.
+ */
+export function sustainedEdge(bias: Float64Array, s: Float64Array, start: number, end: number, thr: number, consecutive: number, span: number, share: number, dir: 1 | -1): { edge: number; index: number } | null {
+  const inRange = (i: number) => (dir === 1 ? i <= end : i >= end);
+  for (let i = start + dir; inRange(i + dir * (consecutive - 1)); i += dir) {
+    let ok = true;
+    for (let j = 0; j < consecutive; j++) if (!(s[i + dir * j] > thr)) { ok = false; break; }
+    if (!ok) continue;
+    let above = 0;
+    let count = 0;
+    for (let j = 0; j < span && inRange(i + dir * j); j++, count++) if (s[i + dir * j] > thr) above++;
+    if (above < share * count) continue;
+    const prev = i - dir;
+    const f = (thr - s[prev]) / (s[i] - s[prev]);
+    return { edge: bias[prev] + Math.min(1, Math.max(0, f)) * (bias[i] - bias[prev]), index: i };
+  }
+  return null;
+}
