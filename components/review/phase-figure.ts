@@ -46,11 +46,31 @@ export function phaseCounts(points: readonly PhasePoint[]) {
   return n;
 }
 
-export const regionOf = (p: PhasePoint) => p.region ?? "all regions";
+/** The series of points without a region, when other points of the sample have one. */
+export const UNTAGGED_SERIES = "no region tagged";
+/** The one series when no point of the sample has a region. */
+export const ONLY_SERIES = "spectra";
 
-/** The sample's regions in name order, each with its series colour. */
-export function regionColors(points: readonly PhasePoint[]): { region: string; color: string }[] {
-  return [...new Set(points.map(regionOf))].sort().map((region, i) => ({ region, color: COLORS[i % COLORS.length] }));
+/** A point's region, or null when none is tagged (an empty name counts as none). */
+export const regionOf = (p: PhasePoint): string | null => p.region || null;
+
+/**
+ * The phase plot's series: the sample's regions in name order, then the points without a region
+ * ("no region tagged"), each with its series colour; when no point has a region, one series
+ * ("spectra"). `region` is what `regionOf` gives for the series' points; `name` is what the legend
+ * says.
+ */
+export function regionColors(points: readonly PhasePoint[]): { region: string | null; name: string; color: string }[] {
+  const tagged = new Set<string>();
+  let untagged = false;
+  for (const p of points) {
+    const r = regionOf(p);
+    if (r == null) untagged = true;
+    else tagged.add(r);
+  }
+  const regions: (string | null)[] = [...tagged].sort();
+  if (untagged) regions.push(null);
+  return regions.map((region, i) => ({ region, name: region ?? (tagged.size ? UNTAGGED_SERIES : ONLY_SERIES), color: COLORS[i % COLORS.length] }));
 }
 
 export interface PhaseRanges {

@@ -95,15 +95,15 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
     }
     const shapes: Record<string, unknown>[] = [];
     let fieldBars = "";
-    for (const { region, color } of regionColors(data.points)) {
+    for (const { region, name, color } of regionColors(data.points)) {
       const groups: { name: string; pts: PhaseData["points"]; marker: Record<string, unknown> }[] = [
-        { name: `${region}`, pts: data.points.filter((p) => regionOf(p) === region && !outOfFit(p) && p.source === "auto"), marker: { symbol: "circle", size: 7, color } },
-        { name: `${region} · corrected`, pts: data.points.filter((p) => regionOf(p) === region && !p.excluded && p.source === "corrected"), marker: { symbol: "diamond", size: 9, color, line: { color: "#1c2430", width: 1 } } },
+        { name, pts: data.points.filter((p) => regionOf(p) === region && !outOfFit(p) && p.source === "auto"), marker: { symbol: "circle", size: 7, color } },
+        { name: `${name} · corrected`, pts: data.points.filter((p) => regionOf(p) === region && !p.excluded && p.source === "corrected"), marker: { symbol: "diamond", size: 9, color, line: { color: "#1c2430", width: 1 } } },
         ...(showExcluded
           ? [
-              { name: `${region} · excluded`, pts: data.points.filter((p) => regionOf(p) === region && p.excluded), marker: { symbol: "x-open", size: 8, color: PHASE_LOOK.excluded } },
+              { name: `${name} · excluded`, pts: data.points.filter((p) => regionOf(p) === region && p.excluded), marker: { symbol: "x-open", size: 8, color: PHASE_LOOK.excluded } },
               // Open circles: automatic picks the lab's setting keeps out of the fit for their flags.
-              { name: `${region} · flagged, not in the fit`, pts: data.points.filter((p) => regionOf(p) === region && p.excludedByFlag), marker: { symbol: "circle-open", size: 8, color, line: { color, width: 1.5 } } },
+              { name: `${name} · flagged, not in the fit`, pts: data.points.filter((p) => regionOf(p) === region && p.excludedByFlag), marker: { symbol: "circle-open", size: 8, color, line: { color, width: 1.5 } } },
             ]
           : []),
       ];

@@ -19,8 +19,8 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
   const Y = (v: number) => (1 - (v - r.y[0]) / (r.y[1] - r.y[0])) * 1000;
   const f = (v: number) => v.toFixed(1);
   const dotsOf = (pts: PhasePoint[]) => pts.map((p) => `M${f(X(p.field_V_per_nm))} ${f(Y(p.gap_eV * 1000))}h0`).join("");
-  const dots = regionColors(data.points).map(({ region, color }) => ({
-    region,
+  const dots = regionColors(data.points).map(({ region, name, color }) => ({
+    name,
     color,
     d: dotsOf(data.points.filter((p) => regionOf(p) === region && !outOfFit(p))),
     open: showExcluded ? dotsOf(data.points.filter((p) => regionOf(p) === region && p.excludedByFlag)) : "",
@@ -82,10 +82,10 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
               <path d={rings} stroke={PLOT_STYLE.plotBg} strokeWidth={12} strokeLinecap="round" vectorEffect="non-scaling-stroke" />
             </g>
           ) : null}
-          {dots.map((g) => (g.d ? <path key={g.region} d={g.d} stroke={g.color} strokeWidth={7} strokeLinecap="round" vectorEffect="non-scaling-stroke" /> : null))}
+          {dots.map((g) => (g.d ? <path key={g.name} d={g.d} stroke={g.color} strokeWidth={7} strokeLinecap="round" vectorEffect="non-scaling-stroke" /> : null))}
           {dots.map((g) =>
             g.open ? (
-              <g key={`open-${g.region}`}>
+              <g key={`open-${g.name}`}>
                 <path d={g.open} stroke={g.color} strokeWidth={8} strokeLinecap="round" vectorEffect="non-scaling-stroke" />
                 <path d={g.open} stroke={PLOT_STYLE.plotBg} strokeWidth={5} strokeLinecap="round" vectorEffect="non-scaling-stroke" />
               </g>
@@ -106,9 +106,9 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
       </span>
       <div className="absolute bottom-4 flex flex-wrap items-center gap-x-4 gap-y-1 text-[11px]" style={{ left: AREA.l }}>
         {dots.map((g) => (
-          <span key={g.region} className="inline-flex items-center gap-1.5">
+          <span key={g.name} className="inline-flex items-center gap-1.5">
             <span className="inline-block h-2 w-2 rounded-full" style={{ background: g.color }} />
-            {g.region}
+            {g.name}
           </span>
         ))}
         {rings ? (
