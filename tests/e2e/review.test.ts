@@ -287,6 +287,11 @@ describe("review in the browser", () => {
         return (await hover.count()) ? await hover.textContent() : "";
       })
       .toContain("x 0.00 nm, y 0.00 nm");
+    // The hover names the cell's gap and its file as well as its position.
+    const hovered = (await hover.textContent()) ?? "";
+    expect(hovered).toMatch(/gap \d+\.\d meV/);
+    expect(hovered).toContain("grid-4x4.csv");
+    await shot(page, "gap-map-hover");
     await Promise.all([page.waitForURL(`**/spectra/${corner.id}`), page.mouse.click(at[0], at[1])]);
     await page.waitForSelector('[data-testid="spectrum-review"]');
 
