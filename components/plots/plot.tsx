@@ -76,7 +76,7 @@ const fileName = (config: unknown) => (config as { toImageButtonOptions?: { file
 export async function downloadFigure(gd: HTMLElement, { format, filename, width, height }: { format: "png" | "svg"; filename: string; width: number; height: number }) {
   const Plotly = await loadPlotly();
   const { data, layout: shown } = gd as unknown as { data: Plotly.Data[]; layout: Partial<Plotly.Layout> };
-  const file = fileLayout(shown, { height, legendHeight: await measureLegend(Plotly, data, shown, width, height) });
+  const file = fileLayout(shown, { width, height, legendHeight: await measureLegend(Plotly, data, shown, width, height) });
   // downloadImage hands its options to toImage, which takes `scale`; the published types omit it.
   const options = { format, filename, width, height: file.height, scale: format === "png" ? 2 : 1 };
   await Plotly.downloadImage({ data, layout: { ...file.layout, width, height: file.height }, config: { plotGlPixelRatio: 2 } } as unknown as HTMLElement, options);
@@ -89,7 +89,7 @@ async function measureLegend(Plotly: Loaded["Plotly"], data: Plotly.Data[], layo
   probe.style.cssText = `position:fixed;left:-100000px;top:0;width:${width}px;height:${height}px;visibility:hidden`;
   document.body.appendChild(probe);
   try {
-    await Plotly.newPlot(probe, legendProbe(data) as Plotly.Data[], { ...probeLayout(layout), width, height }, { staticPlot: true });
+    await Plotly.newPlot(probe, legendProbe(data) as Plotly.Data[], { ...probeLayout(layout, width), width, height }, { staticPlot: true });
     return legendHeight(probe);
   } finally {
     Plotly.purge(probe);
