@@ -13,6 +13,21 @@ export type PhasePoint = PhaseData["points"][number];
 /** Plot-area margins of the phase plot, px; Plotly adds the legend's height below. */
 export const PHASE_MARGIN = { l: 64, r: 16, t: 28, b: 52 } as const;
 
+/**
+ * Screens up to this width (px) are narrow: there Plotly's mode bar, in the figure's top right
+ * corner, spans most of the plot's width and covered the E_c label above the plot.
+ */
+export const NARROW_MAX_PX = 639;
+/** The media query for a narrow screen. */
+export const NARROW_QUERY = `(max-width: ${NARROW_MAX_PX}px)`;
+/** The top margin on a narrow screen when the E_c label is shown: the label sits below the mode bar (about 28 px tall). */
+export const PHASE_TOP_NARROW = 56;
+
+/** The phase plot's margins: on a narrow screen with the E_c label, a taller top margin. */
+export function phaseMargin(narrow: boolean, criticalFieldLabel: boolean): { l: number; r: number; t: number; b: number } {
+  return narrow && criticalFieldLabel ? { ...PHASE_MARGIN, t: PHASE_TOP_NARROW } : PHASE_MARGIN;
+}
+
 /** Colours of the fit, its band, the critical field's two intervals, excluded points and field error bars. */
 export const PHASE_LOOK = {
   fit: "#b9512a",

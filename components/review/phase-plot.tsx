@@ -1,9 +1,9 @@
 "use client";
 
 import { useRouter } from "next/navigation";
-import { useMemo, useRef, useState } from "react";
+import { useMemo, useRef, useState, useSyncExternalStore } from "react";
 import { axis, baseLayout, downloadFigure, Plot } from "@/components/plots/plot";
-import { errorBarPaths, fieldErrorBarShape, flagRingTrace, gapErrorBarShape, fieldModeRanges, outOfFit, PHASE_LOOK, PHASE_MARGIN, phaseCounts, type PhaseData, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
+import { errorBarPaths, fieldErrorBarShape, flagRingTrace, gapErrorBarShape, fieldModeRanges, outOfFit, NARROW_QUERY, PHASE_LOOK, phaseCounts, phaseMargin, type PhaseData, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
 import { type PackedPhase, unpackPhase } from "./phase-pack";
 import { PhasePreview } from "./phase-preview";
 import { usePhase } from "./sample-queries";
@@ -53,6 +53,19 @@ function PhaseKey({ points }: { points: PhaseData["points"] }) {
     </dl>
   );
 }
+/** Whether the screen matches a media query (false on the server and while hydrating). */
+function useMedia(query: string): boolean {
+  return useSyncExternalStore(
+    (changed) => {
+      const list = window.matchMedia(query);
+      list.addEventListener("change", changed);
+      return () => list.removeEventListener("change", changed);
+    },
+    () => window.matchMedia(query).matches,
+    () => false,
+  );
+}
+
 type XMode = "field" | "distance" | "conductance";
 
 const X_AXIS: Record<XMode, { title: string; type?: "log"; of: (p: PhaseData["points"][number]) => number | null; sigma?: (p: PhaseData["points"][number]) => number | null }> = {
@@ -74,6 +87,7 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
   const [theory, setTheory] = useState({ on: false, lambda_meV: "43", ell_A: "0.33" });
   const graph = useRef<HTMLElement | null>(null);
   const initial = useMemo(() => unpackPhase(packed), [packed]);
+  const narrow = useMedia(NARROW_QUERY);
   const { data = initial, isFetching, isError, refetch } = usePhase(lab, sampleId, initial);
   const filename = fileStem(`${data.sample.name} phase`);
   const download = (format: "png" | "svg") => {
@@ -166,11 +180,11 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
         yaxis: axis("band gap (meV)", ranges ? { range: ranges.y, autorange: false } : { rangemode: "tozero" }),
         shapes,
         annotations,
-        margin: PHASE_MARGIN,
+        margin: phaseMargin(narrow, annotations.length > 0),
         uirevision: `${sampleId}-${mode}`,
       }),
     };
-  }, [data, mode, showExcluded, theory, sampleId]);
+  }, [data, mode, showExcluded, theory, sampleId, narrow]);
 
   return (
     <div className="space-y-3" data-testid="phase-plot" data-points={data.points.length} data-state={data.crossing.state}>

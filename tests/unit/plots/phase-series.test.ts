@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { COLORS } from "@/components/plots/plot";
-import { ONLY_SERIES, type PhasePoint, regionColors, regionOf, UNTAGGED_SERIES } from "@/components/review/phase-figure";
+import { NARROW_MAX_PX, NARROW_QUERY, ONLY_SERIES, PHASE_MARGIN, PHASE_TOP_NARROW, phaseMargin, type PhasePoint, regionColors, regionOf, UNTAGGED_SERIES } from "@/components/review/phase-figure";
 
 const point = (i: number, region: string | null) => ({ spectrumId: `s${i}`, region }) as unknown as PhasePoint;
 
@@ -35,5 +35,25 @@ describe("regionColors", () => {
     const points = [point(0, null), point(1, "terrace A"), point(2, ""), point(3, "step edge")];
     const series = regionColors(points);
     for (const p of points) expect(series.filter((s) => s.region === regionOf(p))).toHaveLength(1);
+  });
+});
+
+/** On a narrow screen the mode bar spans the figure's top; the E_c label then sits below it. */
+describe("phaseMargin", () => {
+  it("keeps the usual margins on a wide screen, and on a narrow one without the E_c label", () => {
+    expect(phaseMargin(false, true)).toEqual(PHASE_MARGIN);
+    expect(phaseMargin(true, false)).toEqual(PHASE_MARGIN);
+  });
+
+  it("gives the E_c label room below the mode bar (about 28 px) on a narrow screen", () => {
+    const m = phaseMargin(true, true);
+    expect(m).toEqual({ ...PHASE_MARGIN, t: PHASE_TOP_NARROW });
+    // The label (12 px text, about 18 px tall) sits just above the plot area, under the bar.
+    expect(m.t - 18).toBeGreaterThanOrEqual(28);
+  });
+
+  it("counts a 412 px phone as narrow", () => {
+    expect(NARROW_QUERY).toBe(`(max-width: ${NARROW_MAX_PX}px)`);
+    expect(412).toBeLessThanOrEqual(NARROW_MAX_PX);
   });
 });
