@@ -75,7 +75,10 @@ const fileName = (config: unknown) => (config as { toImageButtonOptions?: { file
  */
 export async function downloadFigure(gd: HTMLElement, { format, filename, width, height }: { format: "png" | "svg"; filename: string; width: number; height: number }) {
   const Plotly = await loadPlotly();
-  const { data, layout: shown } = gd as unknown as { data: Plotly.Data[]; layout: Partial<Plotly.Layout> };
+  const { data, layout: onScreen } = gd as unknown as { data: Plotly.Data[]; layout: Partial<Plotly.Layout> };
+  // Text in the file's face by name only: a file has no web fonts, and text measured in the page's
+  // web font (the legend's width, its clip) ran past its box in the wider face the file fell back to.
+  const shown = { ...onScreen, font: { ...onScreen.font, family: FILE_FONTS } };
   const file = fileLayout(shown, { width, height, legendHeight: await measureLegend(Plotly, data, shown, width, height) });
   // downloadImage hands its options to toImage, which takes `scale`; the published types omit it.
   const options = { format, filename, width, height: file.height, scale: format === "png" ? 2 : 1 };
