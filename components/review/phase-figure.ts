@@ -13,6 +13,21 @@ export type PhasePoint = PhaseData["points"][number];
 /** Plot-area margins of the phase plot, px; Plotly adds the legend's height below. */
 export const PHASE_MARGIN = { l: 64, r: 16, t: 28, b: 52 } as const;
 
+/**
+ * Screens up to this width (px) are narrow: there Plotly's mode bar, in the figure's top right
+ * corner, spans most of the plot's width and covered the E_c label above the plot.
+ */
+export const NARROW_MAX_PX = 639;
+/** The media query for a narrow screen. */
+export const NARROW_QUERY = `(max-width: ${NARROW_MAX_PX}px)`;
+/** The top margin on a narrow screen when the E_c label is shown: the label sits below the mode bar (about 28 px tall). */
+export const PHASE_TOP_NARROW = 56;
+
+/** The phase plot's margins: on a narrow screen with the E_c label, a taller top margin. */
+export function phaseMargin(narrow: boolean, criticalFieldLabel: boolean): { l: number; r: number; t: number; b: number } {
+  return narrow && criticalFieldLabel ? { ...PHASE_MARGIN, t: PHASE_TOP_NARROW } : PHASE_MARGIN;
+}
+
 /** Colours of the fit, its band, the critical field's two intervals, excluded points and field error bars. */
 export const PHASE_LOOK = {
   fit: "#b9512a",
@@ -46,11 +61,31 @@ export function phaseCounts(points: readonly PhasePoint[]) {
   return n;
 }
 
-export const regionOf = (p: PhasePoint) => p.region ?? "all regions";
+/** The series of points without a region, when other points of the sample have one. */
+export const UNTAGGED_SERIES = "no region tagged";
+/** The one series when no point of the sample has a region. */
+export const ONLY_SERIES = "spectra";
 
-/** The sample's regions in name order, each with its series colour. */
-export function regionColors(points: readonly PhasePoint[]): { region: string; color: string }[] {
-  return [...new Set(points.map(regionOf))].sort().map((region, i) => ({ region, color: COLORS[i % COLORS.length] }));
+/** A point's region, or null when none is tagged (an empty name counts as none). */
+export const regionOf = (p: PhasePoint): string | null => p.region || null;
+
+/**
+ * The phase plot's series: the sample's regions in name order, then the points without a region
+ * ("no region tagged"), each with its series colour; when no point has a region, one series
+ * ("spectra"). `region` is what `regionOf` gives for the series' points; `name` is what the legend
+ * says.
+ */
+export function regionColors(points: readonly PhasePoint[]): { region: string | null; name: string; color: string }[] {
+  const tagged = new Set<string>();
+  let untagged = false;
+  for (const p of points) {
+    const r = regionOf(p);
+    if (r == null) untagged = true;
+    else tagged.add(r);
+  }
+  const regions: (string | null)[] = [...tagged].sort();
+  if (untagged) regions.push(null);
+  return regions.map((region, i) => ({ region, name: region ?? (tagged.size ? UNTAGGED_SERIES : ONLY_SERIES), color: COLORS[i % COLORS.length] }));
 }
 
 export interface PhaseRanges {

@@ -1,9 +1,9 @@
 "use client";
 
 import { useRouter } from "next/navigation";
-import { useMemo, useRef, useState } from "react";
+import { useMemo, useRef, useState, useSyncExternalStore } from "react";
 import { axis, baseLayout, downloadFigure, Plot } from "@/components/plots/plot";
-import { errorBarPaths, fieldErrorBarShape, flagRingTrace, gapErrorBarShape, fieldModeRanges, outOfFit, PHASE_LOOK, PHASE_MARGIN, phaseCounts, type PhaseData, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
+import { errorBarPaths, fieldErrorBarShape, flagRingTrace, gapErrorBarShape, fieldModeRanges, outOfFit, NARROW_QUERY, PHASE_LOOK, phaseCounts, phaseMargin, type PhaseData, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
 import { type PackedPhase, unpackPhase } from "./phase-pack";
 import { PhasePreview } from "./phase-preview";
 import { usePhase } from "./sample-queries";
@@ -53,6 +53,19 @@ function PhaseKey({ points }: { points: PhaseData["points"] }) {
     </dl>
   );
 }
+/** Whether the screen matches a media query (false on the server and while hydrating). */
+function useMedia(query: string): boolean {
+  return useSyncExternalStore(
+    (changed) => {
+      const list = window.matchMedia(query);
+      list.addEventListener("change", changed);
+      return () => list.removeEventListener("change", changed);
+    },
+    () => window.matchMedia(query).matches,
+    () => false,
+  );
+}
+
 type XMode = "field" | "distance" | "conductance";
 
 const X_AXIS: Record<XMode, { title: string; type?: "log"; of: (p: PhaseData["points"][number]) => number | null; sigma?: (p: PhaseData["points"][number]) => number | null }> = {
@@ -74,6 +87,7 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
   const [theory, setTheory] = useState({ on: false, lambda_meV: "43", ell_A: "0.33" });
   const graph = useRef<HTMLElement | null>(null);
   const initial = useMemo(() => unpackPhase(packed), [packed]);
+  const narrow = useMedia(NARROW_QUERY);
   const { data = initial, isFetching, isError, refetch } = usePhase(lab, sampleId, initial);
   const filename = fileStem(`${data.sample.name} phase`);
   const download = (format: "png" | "svg") => {
@@ -95,15 +109,15 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
     }
     const shapes: Record<string, unknown>[] = [];
     let fieldBars = "";
-    for (const { region, color } of regionColors(data.points)) {
+    for (const { region, name, color } of regionColors(data.points)) {
       const groups: { name: string; pts: PhaseData["points"]; marker: Record<string, unknown> }[] = [
-        { name: `${region}`, pts: data.points.filter((p) => regionOf(p) === region && !outOfFit(p) && p.source === "auto"), marker: { symbol: "circle", size: 7, color } },
-        { name: `${region} · corrected`, pts: data.points.filter((p) => regionOf(p) === region && !p.excluded && p.source === "corrected"), marker: { symbol: "diamond", size: 9, color, line: { color: "#1c2430", width: 1 } } },
+        { name, pts: data.points.filter((p) => regionOf(p) === region && !outOfFit(p) && p.source === "auto"), marker: { symbol: "circle", size: 7, color } },
+        { name: `${name} · corrected`, pts: data.points.filter((p) => regionOf(p) === region && !p.excluded && p.source === "corrected"), marker: { symbol: "diamond", size: 9, color, line: { color: "#1c2430", width: 1 } } },
         ...(showExcluded
           ? [
-              { name: `${region} · excluded`, pts: data.points.filter((p) => regionOf(p) === region && p.excluded), marker: { symbol: "x-open", size: 8, color: PHASE_LOOK.excluded } },
+              { name: `${name} · excluded`, pts: data.points.filter((p) => regionOf(p) === region && p.excluded), marker: { symbol: "x-open", size: 8, color: PHASE_LOOK.excluded } },
               // Open circles: automatic picks the lab's setting keeps out of the fit for their flags.
-              { name: `${region} · flagged, not in the fit`, pts: data.points.filter((p) => regionOf(p) === region && p.excludedByFlag), marker: { symbol: "circle-open", size: 8, color, line: { color, width: 1.5 } } },
+              { name: `${name} · flagged, not in the fit`, pts: data.points.filter((p) => regionOf(p) === region && p.excludedByFlag), marker: { symbol: "circle-open", size: 8, color, line: { color, width: 1.5 } } },
             ]
           : []),
       ];
@@ -166,11 +180,11 @@ export function PhasePlot({ lab, sampleId, initial: packed }: { lab: string; sam
         yaxis: axis("band gap (meV)", ranges ? { range: ranges.y, autorange: false } : { rangemode: "tozero" }),
         shapes,
         annotations,
-        margin: PHASE_MARGIN,
+        margin: phaseMargin(narrow, annotations.length > 0),
         uirevision: `${sampleId}-${mode}`,
       }),
     };
-  }, [data, mode, showExcluded, theory, sampleId]);
+  }, [data, mode, showExcluded, theory, sampleId, narrow]);
 
   return (
     <div className="space-y-3" data-testid="phase-plot" data-points={data.points.length} data-state={data.crossing.state}>

@@ -1,9 +1,14 @@
 import { PLOT_STYLE } from "@/components/plots/plot";
 import { niceTicks } from "@/components/plots/ranges";
-import { outOfFit, PHASE_LOOK, PHASE_MARGIN, type PhaseData, type PhasePoint, type PhaseRanges, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
+import { outOfFit, NARROW_QUERY, PHASE_LOOK, PHASE_MARGIN, phaseMargin, type PhaseData, type PhasePoint, type PhaseRanges, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
 
-/** Plotly's plot area inside the phase plot: its margins, with a one-row legend below. */
+/**
+ * Plotly's plot area inside the phase plot: its margins, with a one-row legend below. Its top
+ * (`--phase-top`) follows the plot's on a narrow screen, by a media query: the page is drawn
+ * before its width is known.
+ */
 const AREA = { ...PHASE_MARGIN, b: PHASE_MARGIN.b + 51 };
+const TOP = "var(--phase-top)";
 
 /**
  * A still drawing of the phase plot in field mode, rendered with the page (no script needed), shown
@@ -19,8 +24,8 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
   const Y = (v: number) => (1 - (v - r.y[0]) / (r.y[1] - r.y[0])) * 1000;
   const f = (v: number) => v.toFixed(1);
   const dotsOf = (pts: PhasePoint[]) => pts.map((p) => `M${f(X(p.field_V_per_nm))} ${f(Y(p.gap_eV * 1000))}h0`).join("");
-  const dots = regionColors(data.points).map(({ region, color }) => ({
-    region,
+  const dots = regionColors(data.points).map(({ region, name, color }) => ({
+    name,
     color,
     d: dotsOf(data.points.filter((p) => regionOf(p) === region && !outOfFit(p))),
     open: showExcluded ? dotsOf(data.points.filter((p) => regionOf(p) === region && p.excludedByFlag)) : "",
@@ -51,8 +56,9 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
   const yTicks = niceTicks(r.y[0], r.y[1], 5);
   const pct = (v: number, lo: number, hi: number) => `${(((v - lo) / (hi - lo)) * 100).toFixed(3)}%`;
   return (
-    <div className="pointer-events-none absolute inset-0 text-[12px] text-ink" aria-hidden data-testid="phase-preview">
-      <div className="absolute border-b border-l" style={{ borderColor: PLOT_STYLE.axisLine, background: PLOT_STYLE.plotBg, left: AREA.l, right: AREA.r, top: AREA.t, bottom: AREA.b }}>
+    <div className="pointer-events-none absolute inset-0 text-[12px] text-ink" aria-hidden data-testid="phase-preview" style={{ ["--phase-top" as string]: `${AREA.t}px` }}>
+      {ec != null ? <style>{`@media ${NARROW_QUERY} { [data-testid=phase-preview] { --phase-top: ${phaseMargin(true, true).t}px !important } }`}</style> : null}
+      <div className="absolute border-b border-l" style={{ borderColor: PLOT_STYLE.axisLine, background: PLOT_STYLE.plotBg, left: AREA.l, right: AREA.r, top: TOP, bottom: AREA.b }}>
         {xTicks.map((t) => (
           <span key={`x${t}`} className="absolute top-full mt-2 -translate-x-1/2" style={{ left: pct(t, r.x[0], r.x[1]) }}>
             {t}
@@ -82,10 +88,10 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
               <path d={rings} stroke={PLOT_STYLE.plotBg} strokeWidth={12} strokeLinecap="round" vectorEffect="non-scaling-stroke" />
             </g>
           ) : null}
-          {dots.map((g) => (g.d ? <path key={g.region} d={g.d} stroke={g.color} strokeWidth={7} strokeLinecap="round" vectorEffect="non-scaling-stroke" /> : null))}
+          {dots.map((g) => (g.d ? <path key={g.name} d={g.d} stroke={g.color} strokeWidth={7} strokeLinecap="round" vectorEffect="non-scaling-stroke" /> : null))}
           {dots.map((g) =>
             g.open ? (
-              <g key={`open-${g.region}`}>
+              <g key={`open-${g.name}`}>
                 <path d={g.open} stroke={g.color} strokeWidth={8} strokeLinecap="round" vectorEffect="non-scaling-stroke" />
                 <path d={g.open} stroke={PLOT_STYLE.plotBg} strokeWidth={5} strokeLinecap="round" vectorEffect="non-scaling-stroke" />
               </g>
@@ -94,21 +100,21 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
         </svg>
       </div>
       {ec != null ? (
-        <span className="absolute -translate-x-1/2 text-copper" style={{ left: `calc(${AREA.l}px + (100% - ${AREA.l + AREA.r}px) * ${(X(ec) / 1000).toFixed(4)})`, top: AREA.t - 20 }}>
+        <span className="absolute -translate-x-1/2 text-copper" style={{ left: `calc(${AREA.l}px + (100% - ${AREA.l + AREA.r}px) * ${(X(ec) / 1000).toFixed(4)})`, top: `calc(${TOP} - 20px)` }}>
           E<sub>c</sub> = {ec.toFixed(3)} V/nm
         </span>
       ) : null}
       <span className="absolute text-[14px]" style={{ left: `calc(${AREA.l}px + (100% - ${AREA.l + AREA.r}px) / 2)`, transform: "translateX(-50%)", bottom: AREA.b - 46 }}>
         estimated field E (V/nm)
       </span>
-      <span className="absolute left-0 whitespace-nowrap text-[14px]" style={{ top: `calc(${AREA.t}px + (100% - ${AREA.t + AREA.b}px) / 2)`, transform: "translate(-50%, -50%) rotate(-90deg) translateY(24px)" }}>
+      <span className="absolute left-0 whitespace-nowrap text-[14px]" style={{ top: `calc(${TOP} + (100% - ${TOP} - ${AREA.b}px) / 2)`, transform: "translate(-50%, -50%) rotate(-90deg) translateY(24px)" }}>
         band gap (meV)
       </span>
       <div className="absolute bottom-4 flex flex-wrap items-center gap-x-4 gap-y-1 text-[11px]" style={{ left: AREA.l }}>
         {dots.map((g) => (
-          <span key={g.region} className="inline-flex items-center gap-1.5">
+          <span key={g.name} className="inline-flex items-center gap-1.5">
             <span className="inline-block h-2 w-2 rounded-full" style={{ background: g.color }} />
-            {g.region}
+            {g.name}
           </span>
         ))}
         {rings ? (

@@ -6,9 +6,10 @@ import { gapPicks, spectra } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
 import { createSample } from "@/lib/services/samples/createSample";
 import { createSession } from "@/lib/services/sessions/sessions";
+import { tagSpectra } from "@/lib/services/spectra/tagSpectra";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { columnsToCsv, makeSpectrum } from "@/lib/spectra";
-import { APP_URL, launch, shot, SignInPage, signedIn as signedInAs } from "../support/browser";
+import { APP_URL, launch, shot, SHOTS_DIR, SignInPage, signedIn as signedInAs } from "../support/browser";
 import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
 import { bytesOf, sweepSample, uploadFile } from "../support/pipeline";
 
@@ -287,6 +288,11 @@ describe("review in the browser", () => {
         return (await hover.count()) ? await hover.textContent() : "";
       })
       .toContain("x 0.00 nm, y 0.00 nm");
+    // The hover names the cell's gap and its file as well as its position.
+    const hovered = (await hover.textContent()) ?? "";
+    expect(hovered).toMatch(/gap \d+\.\d meV/);
+    expect(hovered).toContain("grid-4x4.csv");
+    await shot(page, "gap-map-hover");
     await Promise.all([page.waitForURL(`**/spectra/${corner.id}`), page.mouse.click(at[0], at[1])]);
     await page.waitForSelector('[data-testid="spectrum-review"]');
 
@@ -295,6 +301,64 @@ describe("review in the browser", () => {
     await page.waitForSelector(".js-plotly-plot .main-svg");
     await expect.poll(() => page.locator(".js-plotly-plot .legendtext").allTextContents()).toEqual(expect.arrayContaining(["GX-20 bilayer", "SN-map 4x4"]));
     await shot(page, "compare");
+    await context.close();
+  });
+
+  it("on a 412 px phone the mode bar leaves the E_c label clear, and the figure file keeps its whole legend", async () => {
+    // Six regions and a few untagged points: on a phone the legend wraps into many rows.
+    const regions = ["terrace A", "terrace B", "step edge", "island rim", "domain wall", "vacancy cluster"];
+    for (const [k, region] of regions.entries()) await tagSpectra({ ctx: lab.ctx("owner"), input: { ids: [ids[2 + 2 * k], ids[3 + 2 * k]], patch: { region } } });
+    const { context, page } = await signedIn(lab.people.analyst.email);
+    await page.setViewportSize({ width: 412, height: 915 });
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
+    const plot = page.locator('[data-testid="phase-plot"]');
+    const graph = plot.locator(".js-plotly-plot");
+    await plot.locator(".main-svg").first().waitFor();
+    await page.waitForSelector('[data-testid="phase-plot"] .legend >> text=no region tagged');
+    // The mode bar shows while the pointer is over the figure; the E_c label must stay readable.
+    await graph.hover({ position: { x: 40, y: 120 } });
+    const boxes = () =>
+      page.evaluate(() => {
+        const rect = (el: Element | null | undefined) => {
+          const r = el?.getBoundingClientRect();
+          return r ? { left: r.left, right: r.right, top: r.top, bottom: r.bottom } : null;
+        };
+        const label = [...document.querySelectorAll('[data-testid="phase-plot"] .annotation-text')].find((e) => /=\s*[\d.]+ V\/nm/.test(e.textContent ?? ""));
+        return { label: rect(label), modebar: rect(document.querySelector('[data-testid="phase-plot"] .modebar')) };
+      });
+    await expect.poll(async () => (await boxes()).label && (await boxes()).modebar).toBeTruthy();
+    const { label, modebar } = await boxes();
+    const overlap = label!.left < modebar!.right && modebar!.left < label!.right && label!.top < modebar!.bottom && modebar!.top < label!.bottom;
+    expect(overlap, JSON.stringify({ label, modebar })).toBe(false);
+    await plot.screenshot({ path: `${SHOTS_DIR}/phase-plot-412.png` });
+    // The camera button's file, as handed to Plotly: drawn at its size, the legend is whole, below the axis.
+    await page.evaluate(() => {
+      const P = (window as unknown as { Plotly: { downloadImage: (gd: unknown, o: unknown) => Promise<unknown> } }).Plotly;
+      const write = P.downloadImage.bind(P);
+      P.downloadImage = (gd, o) => {
+        (window as unknown as { figureFile: unknown }).figureFile = { gd, o };
+        return write(gd, o);
+      };
+    });
+    const [file] = await Promise.all([page.waitForEvent("download"), graph.locator('[data-title="Download the figure as PNG"]').click()]);
+    await file.saveAs(`${SHOTS_DIR}/phase-file-412.png`);
+    const drawn = await page.evaluate(async () => {
+      const { gd, o } = (window as unknown as { figureFile: { gd: { data: object[]; layout: object }; o: { width: number; height: number } } }).figureFile;
+      const P = (window as unknown as { Plotly: { newPlot: (...a: unknown[]) => Promise<unknown> } }).Plotly;
+      const div = document.createElement("div");
+      document.body.appendChild(div);
+      await P.newPlot(div, gd.data, { ...gd.layout, width: o.width, height: o.height }, { staticPlot: true });
+      const svg = div.querySelector(".main-svg")!.getBoundingClientRect();
+      const legend = div.querySelector(".legend .bg")!.getBoundingClientRect();
+      const full = (div as unknown as { _fullLayout: { legend: { _height: number; _effHeight: number } } })._fullLayout.legend;
+      const entries = div.querySelectorAll(".legend .traces").length;
+      return { height: o.height, top: legend.top - svg.top, bottom: legend.bottom - svg.top, axisTitle: div.querySelector(".xtitle")!.getBoundingClientRect().bottom - svg.top, full: full._height, shown: full._effHeight, entries };
+    });
+    // 7 region series, the corrected pick, band, fit and field bars.
+    expect(drawn.entries).toBeGreaterThanOrEqual(10);
+    expect(drawn.shown).toBe(drawn.full);
+    expect(drawn.bottom).toBeLessThanOrEqual(drawn.height + 0.5);
+    expect(drawn.top).toBeGreaterThanOrEqual(drawn.axisTitle);
     await context.close();
   });
 });
