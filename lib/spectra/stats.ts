@@ -272,3 +272,34 @@ export function brentMinimize(f: (x: number) => number, a: number, b: number, to
   }
   return { x, fx };
 }
+
+/**
+ * Linear interpolation of (x, y) (x ascending) at the points `at`; outside x the end values hold.
+ * Both `at` and x are walked once, so `at` must be ascending too.
+ */
+export function interpolateOnto(at: ArrayLike<number>, x: ArrayLike<number>, y: ArrayLike<number>): Float64Array {
+  const n = x.length;
+  const out = new Float64Array(at.length);
+  let j = 0;
+  for (let i = 0; i < at.length; i++) {
+    const v = at[i];
+    while (j < n - 2 && x[j + 1] < v) j++;
+    const f = (v - x[j]) / (x[j + 1] - x[j]);
+    out[i] = y[j] + Math.min(1, Math.max(0, f)) * (y[j + 1] - y[j]);
+  }
+  return out;
+}
+
+/** Centred moving average of x over 2·half + 1 points (fewer at the ends), by running sums. */
+export function movingAverage(x: ArrayLike<number>, half: number): Float64Array {
+  const n = x.length;
+  const cum = new Float64Array(n + 1);
+  for (let i = 0; i < n; i++) cum[i + 1] = cum[i] + x[i];
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const a = Math.max(0, i - half);
+    const b = Math.min(n, i + half + 1);
+    out[i] = (cum[b] - cum[a]) / (b - a);
+  }
+  return out;
+}

@@ -35,8 +35,6 @@ export interface Baseline {
   sigmaSmoothed: number;
   /** Integrated autocorrelation time of the raw residuals (1 for white noise). */
   tau: number;
-  /** Lag-1 autocorrelation of the raw residuals. */
-  rho1: number;
   /** Inclusive index range of the quiet region. */
   from: number;
   to: number;
@@ -216,8 +214,8 @@ export function fitBaselineOn(
     rs[i - from] = s[i] - baselineAt({ coef, center }, bias[i]);
     if (rs[i - from] < rs[iMin - from]) iMin = i;
   }
-  const { tau, rho1 } = autocorrelationTime(res);
-  return { coef, center, degree, sigma, sigmaSmoothed: Math.max(madSigma(rs), sigma * gain), tau, rho1, from, to, iMin };
+  const { tau } = autocorrelationTime(res);
+  return { coef, center, degree, sigma, sigmaSmoothed: Math.max(madSigma(rs), sigma * gain), tau, from, to, iMin };
 }
 
 /** χ² a baseline degree must earn (a 3σ-like level for one parameter, with room for non-Gaussian noise). */

@@ -24,7 +24,7 @@
 import { type BroadeningKernel, broadeningKernel, convolvedOnset, energyResolution_mV } from "../resolution";
 import { DEFAULT_EXTRACTION_SETTINGS, type ExtractionSettings, resolveExtractionSettings, type DeepPartial } from "../settings";
 import { smoothSpectrum } from "../smooth/apply";
-import { linearLeastSquares, madSigma, quantile } from "../stats";
+import { linearLeastSquares, madSigma, movingAverage, quantile } from "../stats";
 import { type Baseline, autocorrelationTime, baselineAt, fitBaselineOn, trimOnsets } from "./baseline";
 import { edgeProfileRange, fitEdges } from "./fit";
 import { noiseFloor } from "./noise";
@@ -69,21 +69,6 @@ export interface GapPick {
  * leave large residuals. Both arms must rise. Judged on three windows (each band window and the middle third of the gap):
  * the largest mean residual in units of its standard error (n_eff = n/τ); with the best m and slope.
  */
-/** x minus its centred moving average over `w` points (shorter at the ends), by running sums. */
-function minusMovingAverage(x: Float64Array, w: number): Float64Array {
-  const n = x.length;
-  const h = Math.max(1, Math.floor(Math.min(w, n) / 2));
-  const cum = new Float64Array(n + 1);
-  for (let i = 0; i < n; i++) cum[i + 1] = cum[i] + x[i];
-  const out = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const a = Math.max(0, i - h);
-    const b = Math.min(n, i + h + 1);
-    out[i] = x[i] - (cum[b] - cum[a]) / (b - a);
-  }
-  return out;
-}
-
 function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number, iMin: number, minExt: number, sigma: number, tau: number, kern: BroadeningKernel): { deviation: number; m: number; v: number; sigma: number; tau: number } | null {
   // Band windows as wide as the gap: a V seen only inside a wider gap (in-gap states) is not one.
   const ext = Math.max(minExt, ic - iv);
@@ -119,7 +104,7 @@ function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number,
   const span = Math.max(1, Math.round((ic - iv) / 6));
   const mFrom = bias[Math.max(iv, iMin - span)];
   const mTo = bias[Math.min(ic, iMin + span)];
-  let best: { deviation: number; m: number; v: number; coef: Float64Array } | null = null;
+  let best: { deviation: number; m: number; v: number; coef: Float64Array; vcol: Float64Array } | null = null;
   for (let t = 0; t <= 8; t++) {
     const m = mFrom + ((mTo - mFrom) * t) / 8;
     // |V − m| broadened by the same kernel as the data (its vertex is rounded over a resolution).
@@ -139,18 +124,12 @@ function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number,
       const cnt = b - a + 1;
       worst = Math.max(worst, Math.abs(sum / cnt) / (sigma * Math.sqrt(Math.max(1, tau) / (cnt * k))));
     }
-    if (!best || worst < best.deviation) best = { deviation: worst, m, v: r.coef[2], coef: r.coef };
+    if (!best || worst < best.deviation) best = { deviation: worst, m, v: r.coef[2], coef: r.coef, vcol: Float64Array.from(vcol) };
   }
   if (!best) return null;
   // The noise about the V itself (the baseline's σ of a V-shaped spectrum holds the V's misfit).
   const res = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    convolvedOnset(kern, bias[i0 + i] - best.m, o3);
-    let v = o3[1];
-    convolvedOnset(kern, best.m - bias[i0 + i], o3);
-    v += o3[1];
-    res[i] = yy[i] - (best.coef[0] + best.coef[1] * lin[i] + best.coef[2] * v);
-  }
+  for (let i = 0; i < n; i++) res[i] = yy[i] - (best.coef[0] + best.coef[1] * lin[i] + best.coef[2] * best.vcol[i]);
   const ac = autocorrelationTime(res);
   return { deviation: best.deviation, m: best.m, v: best.v, sigma: madSigma(res), tau: ac.tau };
 }
@@ -326,7 +305,9 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     return empty("metallic spectrum: no quiet region near zero (no gap)", { noiseFloor: nf.floor, noiseSigma: nf.sigma, threshold: nf.floor + st.threshold.k * nf.sigmaSmoothed });
   // Noise at the smoothing scale, correlated noise included: the smoothed curve about a much wider
   // smoothing of itself (band edges are a few points there, which the MAD ignores).
-  const dW = minusMovingAverage(s.subarray(lo, hi + 1), 6 * sm.windowPoints + 1);
+  const sLoHi = s.subarray(lo, hi + 1);
+  const dW = movingAverage(sLoHi, Math.max(1, Math.floor(Math.min(6 * sm.windowPoints + 1, sLoHi.length) / 2)));
+  for (let i = 0; i < dW.length; i++) dW[i] = sLoHi[i] - dW[i];
   const sigmaWide = Math.max(madSigma(dW), nf.sigmaSmoothed);
   // Runs: a few points above the threshold (the smoothing window), within a sustained stretch.
   const Nshort = Math.max(st.threshold.consecutive, sm.windowPoints);

@@ -13,6 +13,7 @@
  * average over a tenth of the sweep) carries most of it, with edges that agree, is drift; otherwise
  * a tip change.
  */
+import { interpolateOnto, movingAverage } from "../stats";
 import type { GapPick } from "./pick";
 import type { QualityFlag } from "./flags";
 import type { SpectrumMeta } from "../import/types";
@@ -26,18 +27,6 @@ export interface RepeatInput {
   label?: string;
 }
 
-function onAxis(bias: ArrayLike<number>, x: ArrayLike<number>, y: ArrayLike<number>): Float64Array {
-  const out = new Float64Array(bias.length);
-  let j = 0;
-  for (let i = 0; i < bias.length; i++) {
-    const b = bias[i];
-    while (j < x.length - 2 && x[j + 1] < b) j++;
-    const t = (b - x[j]) / (x[j + 1] - x[j]);
-    out[i] = y[j] + Math.min(1, Math.max(0, t)) * (y[j + 1] - y[j]);
-  }
-  return out;
-}
-
 /** Flags for each repeat (empty lists when they agree); the repeats are compared on the first one's axis. */
 export function compareRepeats(repeats: RepeatInput[]): QualityFlag[][] {
   const k = repeats.length;
@@ -46,7 +35,7 @@ export function compareRepeats(repeats: RepeatInput[]): QualityFlag[][] {
   const bias = repeats[0].bias_V;
   const n = bias.length;
   const ys = repeats.map((r, i) => {
-    const y = i === 0 ? Float64Array.from(r.didv) : onAxis(bias, r.bias_V, r.didv);
+    const y = i === 0 ? Float64Array.from(r.didv) : interpolateOnto(bias, r.bias_V, r.didv);
     if (r.pick.signInverted) for (let j = 0; j < y.length; j++) y[j] = -y[j];
     return y;
   });
@@ -72,14 +61,8 @@ export function compareRepeats(repeats: RepeatInput[]): QualityFlag[][] {
       if (r <= limit) parent[find(a)] = find(b);
       else {
         // The slow part of the difference: its moving average over a tenth of the sweep.
-        const cum = new Float64Array(n + 1);
-        for (let i = 0; i < n; i++) cum[i + 1] = cum[i] + d[i];
         let slow = 0;
-        for (let i = 0; i < n; i++) {
-          const lo = Math.max(0, i - w);
-          const hi = Math.min(n, i + w + 1);
-          slow += ((cum[hi] - cum[lo]) / (hi - lo)) ** 2;
-        }
+        for (const v of movingAverage(d, w)) slow += v * v;
         slowShare[a][b] = slowShare[b][a] = slow / ss;
       }
     }

@@ -1,34 +1,7 @@
 /**
- * Threshold edges: starting at the quiet region's minimum, walk outward until the smoothed signal stays
- * above the threshold for `consecutive` points; the edge is the linear interpolation of the crossing
- * between the last point below and the first point above.
+ * Threshold edges (sustainedEdge) and the log-scale onset cross-check. An edge is the linear
+ * interpolation of the crossing between the last point below the threshold and the first above.
  */
-
-/** Edge on the high-bias side (conduction band), V; null when the signal never leaves the floor. */
-export function thresholdEdgeUp(bias: Float64Array, s: Float64Array, start: number, hi: number, thr: number, consecutive: number): { edge: number; index: number } | null {
-  for (let i = start + 1; i + consecutive - 1 <= hi; i++) {
-    let ok = true;
-    for (let j = 0; j < consecutive; j++) if (!(s[i + j] > thr)) { ok = false; break; }
-    if (ok) {
-      const f = (thr - s[i - 1]) / (s[i] - s[i - 1]);
-      return { edge: bias[i - 1] + Math.min(1, Math.max(0, f)) * (bias[i] - bias[i - 1]), index: i };
-    }
-  }
-  return null;
-}
-
-/** Edge on the low-bias side (valence band), V. */
-export function thresholdEdgeDown(bias: Float64Array, s: Float64Array, start: number, lo: number, thr: number, consecutive: number): { edge: number; index: number } | null {
-  for (let i = start - 1; i - consecutive + 1 >= lo; i--) {
-    let ok = true;
-    for (let j = 0; j < consecutive; j++) if (!(s[i - j] > thr)) { ok = false; break; }
-    if (ok) {
-      const f = (thr - s[i + 1]) / (s[i] - s[i + 1]);
-      return { edge: bias[i + 1] - Math.min(1, Math.max(0, f)) * (bias[i + 1] - bias[i]), index: i };
-    }
-  }
-  return null;
-}
 
 /**
  * Log-scale onset: fit ln(s − floor) against bias over the rising part of the onset — from the threshold

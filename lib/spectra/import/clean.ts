@@ -4,7 +4,7 @@
  * (linear interpolation at the median step). Every change leaves a warning; unusable data throws.
  */
 import { ImportError } from "./types";
-import { median } from "../stats";
+import { interpolateOnto, median } from "../stats";
 
 export interface Cleaned {
   bias: Float64Array;
@@ -94,17 +94,7 @@ export function cleanAxis(biasIn: Float64Array, colsIn: Float64Array[], lines: I
     const nb = new Float64Array(m);
     const h = (bias[n - 1] - bias[0]) / (m - 1);
     for (let i = 0; i < m; i++) nb[i] = bias[0] + i * h;
-    const ncols = cols.map((c) => {
-      const out = new Float64Array(m);
-      let j = 0;
-      for (let i = 0; i < m; i++) {
-        const x = nb[i];
-        while (j < n - 2 && bias[j + 1] < x) j++;
-        const f = (x - bias[j]) / (bias[j + 1] - bias[j]);
-        out[i] = c[j] + Math.min(1, Math.max(0, f)) * (c[j + 1] - c[j]);
-      }
-      return out;
-    });
+    const ncols = cols.map((c) => interpolateOnto(nb, bias, c));
     warnings.push(`non-uniform bias axis (steps vary by up to ${((dev / step) * 100).toFixed(0)}%); resampled to ${m} points at ${(h * 1000).toPrecision(3)} mV by linear interpolation`);
     bias = nb;
     cols = ncols;
