@@ -1,6 +1,6 @@
 import "server-only";
-import { eq } from "drizzle-orm";
-import { labs, samples } from "@/db/schema";
+import { and, eq, sql } from "drizzle-orm";
+import { gapPicks, labs, spectra } from "@/db/schema";
 import { assertCan } from "@/lib/auth/permissions";
 import { flaggedInFitInput, labDefaultsInput } from "@/lib/schemas/lab";
 import { queueRefit } from "../analysis/versions";
@@ -34,7 +34,8 @@ export async function updateLabDefaults({ ctx, input }: { ctx: Ctx; input: unkno
 /**
  * Whether spectra whose automatic pick carries a quality flag enter the critical-field fit
  * (`include`, the default: they enter, marked on the plot) or not (`exclude`; corrected picks
- * enter either way). A change refits every sample of the lab in the background.
+ * enter either way). A change refits, in the background, every sample of the lab with a flagged
+ * automatic pick (the others fit the same either way).
  */
 export async function setFlaggedInFit({ ctx, input }: { ctx: Ctx; input: unknown }) {
   assertCan(ctx.actor, "lab:configure");
@@ -44,7 +45,12 @@ export async function setFlaggedInFit({ ctx, input }: { ctx: Ctx; input: unknown
   await ctx.db.update(labs).set({ flaggedInFit }).where(eq(labs.id, ctx.actor.labId));
   await recordAudit(ctx, "lab.flagged-in-fit", { type: "lab", id: ctx.actor.labId }, { from: before?.v, to: flaggedInFit });
   const reason = flaggedInFit === "exclude" ? "lab setting: flagged spectra left out of the fit" : "lab setting: flagged spectra in the fit";
-  const ids = await ctx.db.select({ id: samples.id }).from(samples).where(eq(samples.labId, ctx.actor.labId));
+  // Only a sample with a flagged automatic pick fits differently under the other setting.
+  const ids = await ctx.db
+    .selectDistinct({ id: spectra.sampleId })
+    .from(gapPicks)
+    .innerJoin(spectra, eq(spectra.id, gapPicks.spectrumId))
+    .where(and(eq(gapPicks.labId, ctx.actor.labId), eq(gapPicks.source, "auto"), sql`jsonb_array_length(${gapPicks.flags}) > 0`));
   const runIds: string[] = [];
   for (const s of ids) runIds.push((await queueRefit(ctx, s.id, reason)).id);
   return { flaggedInFit, changed: true, runIds };
