@@ -2,11 +2,12 @@
 
 import { CrossingBadge } from "@/components/ui/badge";
 import { deltaBicInWords } from "@/lib/format";
+import { outOfFit } from "./phase-figure";
 import type { PhaseData } from "./phase-plot";
 import { usePhaseOf } from "./sample-queries";
 
 type Summary = { crossing: PhaseData["crossing"]; nIncluded: number };
-const summaryOf = (d: PhaseData): Summary => ({ crossing: d.crossing, nIncluded: d.points.filter((p) => !p.excluded && !p.excludedByFlag).length });
+const summaryOf = (d: PhaseData): Summary => ({ crossing: d.crossing, nIncluded: d.points.filter((p) => !outOfFit(p)).length });
 
 /** The comparison in words, its number kept on one line ("ΔBIC = 20,272" broke after "ΔBIC"). */
 function DeltaBic({ value }: { value: number }) {

@@ -6,6 +6,7 @@ import { CrossingSummary } from "@/components/review/crossing-summary";
 import { FieldModelCard } from "@/components/review/field-model-card";
 import type { SampleVersions } from "@/components/review/sample-queries";
 import { packPhase } from "@/components/review/phase-pack";
+import { outOfFit } from "@/components/review/phase-figure";
 import { PhasePlot } from "@/components/review/phase-plot";
 import { SettingsEditors } from "@/components/review/settings-editors";
 import { ButtonLink } from "@/components/ui/button";
@@ -36,7 +37,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
   ]);
   const model = analysis.modelFor(usedTips[0] ?? null);
   // In the fit: neither excluded by hand nor left out for its flags by the lab's setting.
-  const included = phase.points.filter((p) => !p.excluded && !p.excludedByFlag).length;
+  const included = phase.points.filter((p) => !outOfFit(p)).length;
   // What the versions query starts from (the cards that read it: settings, field model).
   const initialVersions: SampleVersions = {
     settings: { id: versions.settings.id, version: versions.settings.version, settings: versions.settings.settings, createdAt: versions.settings.createdAt.toISOString() },
