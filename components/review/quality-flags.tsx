@@ -1,5 +1,6 @@
 import { Badge } from "@/components/ui/badge";
 import { QUALITY_FLAG_HELP, QUALITY_FLAG_LABELS, type QualityFlag } from "@/lib/spectra/edges/flags";
+import { counted } from "@/lib/format";
 
 /** The short name of a flag, with its plain-words message and what the flag means as a tooltip. */
 export function FlagBadges({ flags }: { flags: readonly QualityFlag[] }) {
@@ -25,7 +26,7 @@ export function FlagList({ flags, corrected, excludedByFlag }: { flags: readonly
   return (
     <div className="mt-3 rounded-lg border border-copper/40 bg-copper-soft/40 p-3 text-xs" data-testid="pick-flags">
       <p className="font-semibold text-copper">
-        <span aria-hidden>⚑</span> {flags.length === 1 ? "1 quality flag" : `${flags.length} quality flags`} on the automatic pick
+        <span aria-hidden>⚑</span> {counted(flags.length, "quality flag")} on the automatic pick
       </p>
       <ul className="mt-1.5 space-y-1.5">
         {flags.map((f, i) => (

@@ -9,6 +9,7 @@ import { api, ApiError } from "@/lib/api-client";
 import { queryKeys } from "@/lib/query-keys";
 import { readNumber } from "@/lib/schemas/number";
 import { followRun, RUN_ACTIVE, useSampleVersions, type SampleVersions } from "./sample-queries";
+import { counted } from "@/lib/format";
 
 type Versions = SampleVersions;
 
@@ -28,7 +29,7 @@ function num(v: FormDataEntryValue | null): number | string | null {
  */
 function RunProgress({ run }: { run: Versions["run"] }) {
   if (!run) return null;
-  if (run.status === "done") return <p className="text-xs text-muted">Last re-analysis ({run.reason}) finished: {run.done} {run.done === 1 ? "spectrum" : "spectra"} and the critical field.</p>;
+  if (run.status === "done") return <p className="text-xs text-muted">Last re-analysis ({run.reason}) finished: {counted(run.done, "spectrum", "spectra")} and the critical field.</p>;
   if (run.status === "failed") return <Notice tone="danger">{run.message ?? `The re-analysis (${run.reason}) stopped.`}</Notice>;
   const pct = Math.round((100 * run.done) / (run.total + 1));
   const step = run.status === "queued" ? "queued" : run.status === "fitting" ? `${run.total} of ${run.total} spectra; refitting the critical field…` : `${run.done} of ${run.total} spectra`;

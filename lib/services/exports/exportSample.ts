@@ -8,7 +8,7 @@ import type { Ctx } from "../context";
 import { getSample } from "../samples/getSample";
 import { flaggedOutOfFit } from "../analysis/refitSample";
 import { getPhase, labFlaggedInFit } from "../spectra/readSpectra";
-import { fileStem } from "@/lib/format";
+import { counted, fileStem } from "@/lib/format";
 import { csv } from "./csv";
 
 /** Quality-flag codes of a pick for one CSV cell, `;`-separated; empty when none. */
@@ -114,8 +114,8 @@ export async function methodsText({ ctx, input }: { ctx: Ctx; input: { sampleId:
   const flagWords = !flagged
     ? ""
     : flaggedOut
-      ? ` ${flagged} automatic pick${flagged > 1 ? "s" : ""} carried a quality flag (a reason the pick may not be trusted); ${flaggedOut} of them, not corrected by hand, ${flaggedOut > 1 ? "were" : "was"} left out of the fit.`
-      : ` ${flagged} pick${flagged > 1 ? "s" : ""} carried a quality flag (a reason the pick may not be trusted) and ${flagged > 1 ? "were" : "was"} kept in the fit.`;
+      ? ` ${counted(flagged, "automatic pick")} carried a quality flag (a reason the pick may not be trusted); ${flaggedOut} of them, not corrected by hand, ${flaggedOut > 1 ? "were" : "was"} left out of the fit.`
+      : ` ${counted(flagged, "pick")} carried a quality flag (a reason the pick may not be trusted) and ${flagged > 1 ? "were" : "was"} kept in the fit.`;
   const result =
     c.state === "crossed" && c.field_V_per_nm != null
       ? `The gap closes and reopens at an estimated critical field of ${c.field_V_per_nm.toFixed(3)} V/nm${c.ci95_V_per_nm ? ` (95% interval ${c.ci95_V_per_nm[0].toFixed(3)}–${c.ci95_V_per_nm[1].toFixed(3)} V/nm, including the work-function and contact-distance uncertainties)` : ""}, from a V-shaped fit of gap versus field weighted by both error bars and preferred over a monotonic line by the Bayesian information criterion.`
