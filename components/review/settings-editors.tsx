@@ -204,7 +204,7 @@ export function SettingsEditors({ lab, sampleId, canEdit, initial }: { lab: stri
           <Field label="FFT cutoff" name="fftCutoff_mV" unit="mV" hint="shortest period kept" error={fe("smoothing.fftCutoff_mV")}>
             <Input name="fftCutoff_mV" defaultValue={s.smoothing?.fftCutoff_mV ?? ""} className="num" />
           </Field>
-          <Field label="Threshold k" name="k" hint="edge at floor + k·σ" error={fe("threshold.k")}>
+          <Field label="Threshold k" name="k" hint="edge at baseline + k·σ" error={fe("threshold.k")}>
             <Input name="k" defaultValue={s.threshold?.k} className="num" />
           </Field>
           <Field label="Consecutive points" name="consecutive" error={fe("threshold.consecutive")}>
