@@ -2,7 +2,6 @@ import "server-only";
 import { z } from "zod";
 import { crossings } from "@/db/schema";
 import { assertCan } from "@/lib/auth/permissions";
-import { fieldWithInterval } from "@/lib/mail/templates/crossing";
 import { eq } from "drizzle-orm";
 import { recordAudit } from "../audit";
 import type { Ctx } from "../context";
@@ -22,6 +21,9 @@ export const confirmCrossingInput = z.object({
 });
 
 /** The current crossing in words, for a refused confirmation: "0.874 V/nm [0.861, 0.888], field model v3". */
+const currentInWords = (c: { fieldVPerNm: number | null; ci95LoVPerNm: number | null; ci95HiVPerNm: number | null }) =>
+  `${c.fieldVPerNm!.toFixed(3)} V/nm${c.ci95LoVPerNm != null && c.ci95HiVPerNm != null ? ` [${c.ci95LoVPerNm.toFixed(3)}, ${c.ci95HiVPerNm.toFixed(3)}]` : ""}`;
+
 /** The value shown and sent back differs from the stored one by more than rounding to 9 significant digits. */
 const sameValue = (a: number, b: number) => Math.abs(a - b) <= 1e-9 * Math.max(1, Math.abs(b));
 
@@ -41,7 +43,7 @@ export async function confirmCrossing({ ctx, input }: { ctx: Ctx; input: unknown
     const current = await currentCrossing(tx, sample.id);
     if (!isCrossed(current)) throw conflict("There is no critical field to confirm: the current fit of this sample does not close and reopen.");
     if ((data.crossingId && data.crossingId !== current.id) || (data.field_V_per_nm != null && !sameValue(data.field_V_per_nm, current.fieldVPerNm!))) {
-      throw conflict(`The fit changed since you looked at it: the critical field is now ${fieldWithInterval(current.fieldVPerNm!, intervalOf(current))}. Review it before confirming.`, {
+      throw conflict(`The fit changed since you looked at it: the critical field is now ${currentInWords(current)}. Review it before confirming.`, {
         currentCrossingId: current.id,
         field_V_per_nm: current.fieldVPerNm,
         ci95_V_per_nm: intervalOf(current),
