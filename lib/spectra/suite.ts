@@ -37,6 +37,7 @@ export const SUITE_CATEGORIES = {
   "tip-step": "a tip change during the sweep (a step in the signal)",
   repeats: "4 repeats at one point; in half of the points a tip change after the second",
   realistic: "two to four of the imperfections above at once",
+  tilted: "a plain linear background added to dI/dV (tip states, capacitive leakage), nothing else",
 } as const;
 export type SuiteCategory = keyof typeof SUITE_CATEGORIES;
 
@@ -71,6 +72,7 @@ type Maker = (rng: Rng, seed: number) => SpectrumModel;
 const imperfections: Record<Exclude<SuiteCategory, "model" | "metal" | "repeats" | "realistic" | "nearly-closed" | "broad">, (m: SpectrumModel, rng: Rng) => SpectrumModel> = {
   "edge-states": (m, rng) => ({ ...m, inGap: { ...m.inGap, level: ((m.cbEdge_V - m.vbEdge_V) / 2) * between(rng, 0.1, 0.4) } }),
   "v-in-gap": (m, rng) => ({ ...m, inGap: { ...m.inGap, vSlope: between(rng, 0.05, 0.3) } }),
+  tilted: (m, rng) => ({ ...m, additive: { ...m.additive, linear: (m.amplitude ?? 10) * between(rng, 0.1, 0.5) * (rng.uniform() < 0.5 ? -1 : 1) } }),
   "weak-onset": (m, rng) => (rng.uniform() < 0.7 ? { ...m, onsets: { vb: between(rng, 0.1, 0.2) } } : { ...m, onsets: { cb: between(rng, 0.1, 0.2) } }),
   sloped: (m, rng) => ({
     ...m,
@@ -118,6 +120,7 @@ const COUNTS: Record<SuiteCategory, number> = {
   "tip-step": 20,
   repeats: 20,
   realistic: 60,
+  tilted: 30,
 };
 
 /**
@@ -147,7 +150,9 @@ export function makeSuite(opts: { seed?: number; perCategory?: number; categorie
       continue;
     }
     if (category === "realistic") {
-      const names = Object.keys(imperfections) as (keyof typeof imperfections)[];
+      // The mix draws from the imperfections that existed when it was made (a category added later
+      // would change every mixed spectrum of the seed).
+      const names = (Object.keys(imperfections) as (keyof typeof imperfections)[]).filter((c) => c !== "tilted");
       for (let k = 0; k < count; k++) {
         let m = base(rng, seedOf(k));
         const howMany = 2 + Math.floor(3 * rng.uniform());

@@ -27,7 +27,7 @@ export function fieldFor(model: FieldModel, meta: Pick<SpectrumMeta, "setpoint_b
  * its quality flags in a column of their own so that tables and the fit can filter on them.
  */
 export function pickColumns(pick: GapPick, settingsVersionId: string) {
-  const { smoothed: _arrays, ...rest } = pick;
+  const { smoothed: _smoothed, baseline: _baseline, ...rest } = pick;
   return {
     source: "auto" as const,
     status: pick.status,

@@ -105,6 +105,11 @@ async function analysisOf(ctx: Ctx, s: typeof spectra.$inferSelect, settingsVers
     noiseFloor: pick.noiseFloor,
     noiseSigma: pick.noiseSigma,
     threshold: pick.threshold,
+    // The baseline the edges were read against (sloped or curved where the data showed it), and the
+    // threshold's height above it: the review draws both as curves, as the picker read them.
+    baseline: pick.baseline ? Array.from(pick.baseline) : null,
+    baselineDegree: pick.baselineDegree,
+    thresholdOffset: pick.thresholdOffset,
     resolution_meV: pick.resolution_meV,
     thresholdEdges: pick.threshold_edges,
     logCheck: pick.logCheck,

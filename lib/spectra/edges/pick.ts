@@ -48,6 +48,14 @@ export interface GapPick {
   /** σ of the raw data in the quiet region. */
   noiseSigma: number | null;
   threshold: number | null;
+  /**
+   * The in-gap baseline the edges were read against, at each bias point of the (sorted) spectrum: a
+   * polynomial of degree `baselineDegree` fitted to the quiet region; `noiseFloor` is its value at the
+   * quietest point. The threshold follows it: baseline + `thresholdOffset` (k·σ of the smoothed curve).
+   */
+  baseline: Float64Array | null;
+  baselineDegree: number | null;
+  thresholdOffset: number | null;
   /** "fit" (broadening-aware, separate or joint) or "threshold". */
   method: "fit-separate" | "fit-joint" | "threshold" | "none";
   threshold_edges: { vbEdge_V: number; cbEdge_V: number } | null;
@@ -286,6 +294,9 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     noiseFloor: null,
     noiseSigma: null,
     threshold: null,
+    baseline: null,
+    baselineDegree: null,
+    thresholdOffset: null,
     method: "none",
     threshold_edges: null,
     logCheck: null,
@@ -361,7 +372,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   // which holds for white noise and does not depend on the quiet region's size (a few points across a
   // narrow gap can give a MAD far too small, and fits that claim far too much).
   const sigmaFit = Math.max(bl.sigma, nf.sigma);
-  const baseInfo = { noiseFloor: base[bl.iMin], noiseSigma: sigmaFit, threshold: thr };
+  const baseInfo = { noiseFloor: base[bl.iMin], noiseSigma: sigmaFit, threshold: thr, baseline: base, baselineDegree: bl.degree, thresholdOffset: st.threshold.k * sigS };
   const edgesAt = (k: number) => walk(d, bl.iMin, k * sigS);
   const main = e;
   if (!main.c || !main.v) {

@@ -124,6 +124,17 @@ describe("categories of real-world imperfections", () => {
     expect(tilted.closed).toBe(false);
     expect(Math.abs(tilted.gap_eV! - 0.058) * 1000).toBeLessThanOrEqual(Math.max(2000 * tilted.uncertainty_eV!, 3));
   });
+  it("the pick returns the baseline it read the edges against, and the threshold's height above it", () => {
+    for (const x of category("curved", 6)) {
+      const b = x.p.baseline!;
+      expect(b.length).toBe(x.e.spectrum.bias_V.length);
+      // The floor is the baseline at the quietest point, and the scalar threshold sits k·σ above it.
+      expect(Array.from(b)).toContain(x.p.noiseFloor);
+      expect(x.p.threshold! - x.p.noiseFloor!).toBeCloseTo(x.p.thresholdOffset!, 12);
+      // The curve is the stated polynomial: a degree-0 baseline is flat.
+      if (x.p.baselineDegree === 0) expect(Math.max(...b) - Math.min(...b)).toBe(0);
+    }
+  });
   it("every gross error (> 50 meV) in the realistic mix carries a flag", () => {
     for (const x of category("realistic", 30)) if (x.p.status === "ok" && errMeV(x) > 50) expect(x.p.flags.length).toBeGreaterThan(0);
   });
