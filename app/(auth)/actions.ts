@@ -8,7 +8,7 @@ import { signIn, signOut } from "@/lib/auth";
 import { checkRequestHost, untrustedHostMessage } from "@/lib/auth/here";
 import type { ActionState } from "@/lib/actions/types";
 import { acceptInvitation } from "@/lib/services/members/members";
-import { isServiceError } from "@/lib/services/errors";
+import { isServiceError } from "@/lib/base/errors";
 
 const signInInput = z.object({
   email: z.string().trim().toLowerCase().email("Enter your e-mail address."),

@@ -4,8 +4,8 @@ import { cache } from "react";
 import { db } from "@/db/client";
 import { auth } from "@/lib/auth";
 import { actorForUser } from "@/lib/auth/actor";
-import type { Ctx } from "@/lib/services/context";
-import { isServiceError } from "@/lib/services/errors";
+import type { Ctx } from "@/lib/base/context";
+import { isServiceError } from "@/lib/base/errors";
 import { getSample } from "@/lib/services/samples/getSample";
 
 import type { ActionState } from "./types";

@@ -2,8 +2,8 @@ import "server-only";
 import { and, eq, isNull, lt, or } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { apiTokens, labs, memberships, users } from "@/db/schema";
-import type { Actor } from "@/lib/services/context";
-import { badRequest, notFound, unauthorized } from "@/lib/services/errors";
+import type { Actor } from "@/lib/base/context";
+import { badRequest, notFound, unauthorized } from "@/lib/base/errors";
 import { sha256Hex } from "./secrets";
 
 /**

@@ -3,8 +3,8 @@ import { NextResponse } from "next/server";
 import { db } from "@/db/client";
 import { auth } from "@/lib/auth";
 import { actorForRequest } from "@/lib/auth/actor";
-import type { Ctx } from "@/lib/services/context";
-import { badRequest, isServiceError, tooLarge } from "@/lib/services/errors";
+import type { Ctx } from "@/lib/base/context";
+import { badRequest, isServiceError, tooLarge } from "@/lib/base/errors";
 
 /** The JSON error body every API route returns: `{ error: { code, message, fields? } }`. */
 export function errorResponse(status: number, code: string, message: string, extra?: Record<string, unknown>) {

@@ -7,7 +7,7 @@ import { randomUUID } from "node:crypto";
 import bcrypt from "bcryptjs";
 import { db } from "@/db/client";
 import { labs, memberships, users, type MemberRole } from "@/db/schema";
-import type { Actor, Ctx } from "@/lib/services/context";
+import type { Actor, Ctx } from "@/lib/base/context";
 
 export const TEST_PASSWORD = "correct horse battery";
 let cachedHash: string | undefined;

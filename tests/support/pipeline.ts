@@ -8,7 +8,7 @@ import { createHash } from "node:crypto";
 import { eq } from "drizzle-orm";
 import { db } from "@/db/client";
 import { spectra, uploads } from "@/db/schema";
-import type { Ctx } from "@/lib/services/context";
+import type { Ctx } from "@/lib/base/context";
 import { createSample } from "@/lib/services/samples/createSample";
 import { createSession } from "@/lib/services/sessions/sessions";
 import { createTip } from "@/lib/services/tips/tips";

@@ -1,11 +1,11 @@
 import "server-only";
 import { z } from "zod";
 import { crossings } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { eq } from "drizzle-orm";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { conflict } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { conflict } from "@/lib/base/errors";
 import { numberInput } from "@/lib/schemas/number";
 import { parseInput } from "../parse";
 import { getSample } from "../samples/getSample";

@@ -1,8 +1,8 @@
 import "server-only";
 import { desc, eq } from "drizzle-orm";
 import { crossingEvents, users } from "@/db/schema";
-import { can } from "@/lib/auth/permissions";
-import type { Ctx } from "../context";
+import { can } from "@/lib/base/permissions";
+import type { Ctx } from "@/lib/base/context";
 import { getSample } from "../samples/getSample";
 import { isCrossed } from "./afterRefit";
 import { currentCrossing, intervalOf } from "./recordEvent";

@@ -2,8 +2,8 @@ import "server-only";
 import { and, desc, eq, inArray, isNull, sql } from "drizzle-orm";
 import { z } from "zod";
 import { crossingEvents, notifications } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
-import type { Ctx } from "../context";
+import { assertCan } from "@/lib/base/permissions";
+import type { Ctx } from "@/lib/base/context";
 import { parseInput } from "../parse";
 
 /*

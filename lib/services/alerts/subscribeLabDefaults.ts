@@ -1,7 +1,7 @@
 import "server-only";
 import { and, eq, inArray } from "drizzle-orm";
 import { memberships, subscriptions, type MemberRole } from "@/db/schema";
-import type { Ctx } from "../context";
+import type { Ctx } from "@/lib/base/context";
 
 /** The lab's default: these roles watch every new sample (each can stop with the watch toggle). */
 export const DEFAULT_WATCHER_ROLES: readonly MemberRole[] = ["owner", "analyst"];

@@ -2,8 +2,8 @@ import "server-only";
 import { and, eq } from "drizzle-orm";
 import { z } from "zod";
 import { subscriptions } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
-import type { Ctx } from "../context";
+import { assertCan } from "@/lib/base/permissions";
+import type { Ctx } from "@/lib/base/context";
 import { parseInput } from "../parse";
 import { getSample } from "../samples/getSample";
 

@@ -3,7 +3,7 @@ import { desc, eq } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { extractionSettingsVersions, fieldModelVersions, labs, samples, type Tip } from "@/db/schema";
 import { resolveExtractionSettings, resolveFieldModel, type ExtractionSettings, type FieldModel } from "@/lib/spectra";
-import { notFound } from "../errors";
+import { notFound } from "@/lib/base/errors";
 import { initialVersionRows } from "../samples/initialVersions";
 
 /** The stored part of a field model version: the work functions come from the sample and each spectrum's tip. */

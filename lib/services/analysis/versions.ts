@@ -1,13 +1,13 @@
 import "server-only";
 import { and, desc, eq, sql } from "drizzle-orm";
 import { analysisRuns, extractionSettingsVersions, fieldModelVersions } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { enqueueReanalyzeSample, enqueueRefitSample } from "@/lib/jobs/queue";
 import { fieldModelInput } from "@/lib/schemas/uploads";
 import { extractionSettingsSchema, resolveExtractionSettings } from "@/lib/spectra";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { invalid } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { invalid } from "@/lib/base/errors";
 import { parseInput } from "../parse";
 import { getSample } from "../samples/getSample";
 

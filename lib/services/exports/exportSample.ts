@@ -1,10 +1,10 @@
 import "server-only";
 import { and, asc, eq } from "drizzle-orm";
 import { extractionSettingsVersions, fieldModelVersions, gapPicks, spectra, tips } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { fieldAssumptions, type ExtractionSettings } from "@/lib/spectra";
 import { loadSampleAnalysis } from "../analysis/sampleModel";
-import type { Ctx } from "../context";
+import type { Ctx } from "@/lib/base/context";
 import { getSample } from "../samples/getSample";
 import { flaggedOutOfFit } from "../analysis/refitSample";
 import { getPhase, labFlaggedInFit } from "../spectra/readSpectra";

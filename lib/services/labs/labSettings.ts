@@ -1,11 +1,11 @@
 import "server-only";
 import { and, eq, sql } from "drizzle-orm";
 import { gapPicks, labs, spectra } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { flaggedInFitInput, labDefaultsInput } from "@/lib/schemas/lab";
 import { queueRefit } from "../analysis/versions";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
+import type { Ctx } from "@/lib/base/context";
 import { parseInput } from "../parse";
 
 export async function getLab({ ctx }: { ctx: Ctx }) {

@@ -3,15 +3,15 @@ import { and, asc, desc, eq, gt, isNull, ne, sql } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { invitations, labs, memberships, users, type MemberRole } from "@/db/schema";
 import { hashPassword } from "@/lib/auth/password";
-import { assertCan, ROLE_LABEL } from "@/lib/auth/permissions";
+import { assertCan, ROLE_LABEL } from "@/lib/base/permissions";
 import { newSecret, sha256Hex } from "@/lib/auth/secrets";
 import { env } from "@/lib/env";
 import { sendMail } from "@/lib/mail/client";
 import { inviteMail } from "@/lib/mail/templates/invite";
 import { acceptInviteInput, inviteInput, memberRoleSchema } from "@/lib/schemas/lab";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { conflict, invalid, notFound } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { conflict, invalid, notFound } from "@/lib/base/errors";
 import { parseInput } from "../parse";
 import { isUuid } from "../samples/getSample";
 

@@ -1,10 +1,10 @@
 import "server-only";
 import { and, eq, inArray } from "drizzle-orm";
 import { memberships, sampleAccess, samples } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { invalid, notFound } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { invalid, notFound } from "@/lib/base/errors";
 
 /** Which samples each collaborator is limited to (none listed: they see every sample of the lab). */
 export async function listSampleAccess({ ctx }: { ctx: Ctx }) {

@@ -1,10 +1,10 @@
 import "server-only";
 import { samples } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { sampleInput } from "@/lib/schemas/lab";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { conflict, isUniqueViolation } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { conflict, isUniqueViolation } from "@/lib/base/errors";
 import { parseInput } from "../parse";
 import { subscribeLabDefaults } from "../alerts/subscribeLabDefaults";
 import { ensureSampleVersions } from "./ensureSampleVersions";

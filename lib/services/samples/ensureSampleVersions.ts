@@ -1,6 +1,6 @@
 import "server-only";
 import { extractionSettingsVersions, fieldModelVersions } from "@/db/schema";
-import type { Ctx } from "../context";
+import type { Ctx } from "@/lib/base/context";
 import { initialVersionRows } from "./initialVersions";
 
 /** Every sample starts with version 1 of its extraction settings and of its field model. */

@@ -1,11 +1,11 @@
 import "server-only";
 import { and, eq } from "drizzle-orm";
 import { samples } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { samplePatch } from "@/lib/schemas/lab";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { conflict, isUniqueViolation, notFound } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { conflict, isUniqueViolation, notFound } from "@/lib/base/errors";
 import { parseInput } from "../parse";
 import { queueReanalysis } from "../analysis/versions";
 import { isUuid } from "./getSample";

@@ -1,11 +1,11 @@
 import "server-only";
 import { and, desc, eq, sql } from "drizzle-orm";
 import { measurementSessions, samples, tips, users } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { sessionInput } from "@/lib/schemas/lab";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { notFound } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { notFound } from "@/lib/base/errors";
 import { parseInput } from "../parse";
 import { isUuid } from "../samples/getSample";
 import { sampleVisibility } from "../samples/visibility";

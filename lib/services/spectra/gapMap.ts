@@ -1,7 +1,7 @@
 import "server-only";
 import { and, asc, eq, isNotNull, sql } from "drizzle-orm";
 import { gapPicks, spectra, uploads } from "@/db/schema";
-import type { Ctx } from "../context";
+import type { Ctx } from "@/lib/base/context";
 import { getSample, isUuid } from "../samples/getSample";
 
 /**

@@ -1,7 +1,7 @@
 import "server-only";
 import { createHash } from "node:crypto";
 import { sql } from "drizzle-orm";
-import type { Ctx } from "../context";
+import type { Ctx } from "@/lib/base/context";
 import { getSample } from "../samples/getSample";
 import { getPhase } from "./readSpectra";
 

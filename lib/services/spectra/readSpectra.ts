@@ -1,13 +1,13 @@
 import "server-only";
 import { and, asc, desc, eq, ilike, isNull, or, sql, type SQL } from "drizzle-orm";
 import { crossings, extractionSettingsVersions, fieldModelVersions, gapPicks, labs, measurementSessions, samples, spectra, tips, uploads, type FlaggedInFit } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { pickGap, resolveExtractionSettings, type QualityFlag } from "@/lib/spectra";
 import { metaOfRow } from "../analysis/analyzeSpectrum";
 import { flaggedOutOfFit } from "../analysis/refitSample";
 import type { SpectraQuery } from "@/lib/schemas/uploads";
-import type { Ctx } from "../context";
-import { notFound } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { notFound } from "@/lib/base/errors";
 import { getSample, isUuid } from "../samples/getSample";
 import { assertSampleVisible, sampleVisibility } from "../samples/visibility";
 

@@ -1,11 +1,11 @@
 import "server-only";
 import { and, asc, eq } from "drizzle-orm";
 import { measurementSessions, spectra, tips } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { tipInput } from "@/lib/schemas/lab";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { conflict, isUniqueViolation, notFound } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { conflict, isUniqueViolation, notFound } from "@/lib/base/errors";
 import { parseInput } from "../parse";
 import { isUuid } from "../samples/getSample";
 import { queueReanalysis } from "../analysis/versions";

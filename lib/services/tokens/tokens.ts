@@ -2,12 +2,12 @@ import "server-only";
 import { and, asc, desc, eq, isNull } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { apiTokens, labs, memberships, users } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { newSecret, sha256Hex } from "@/lib/auth/secrets";
 import { tokenInput } from "@/lib/schemas/lab";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { notFound } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { notFound } from "@/lib/base/errors";
 import { parseInput } from "../parse";
 import { isUuid } from "../samples/getSample";
 

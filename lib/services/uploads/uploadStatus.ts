@@ -1,12 +1,12 @@
 import "server-only";
 import { and, asc, eq } from "drizzle-orm";
 import { measurementSessions, spectra, uploads } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { enqueueProcessUpload } from "@/lib/jobs/queue";
 import { objectSize } from "@/lib/storage/s3";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { conflict, invalid, notFound } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { conflict, invalid, notFound } from "@/lib/base/errors";
 import { isUuid } from "../samples/getSample";
 import { assertSampleVisible } from "../samples/visibility";
 import { getSession } from "../sessions/sessions";

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { db } from "@/db/client";
-import { ROLE_LABEL, ROLE_SUMMARY } from "@/lib/auth/permissions";
+import { ROLE_LABEL, ROLE_SUMMARY } from "@/lib/base/permissions";
 import { describeInvitation } from "@/lib/services/members/members";
 import { AcceptInviteForm } from "./accept-form";
 

@@ -1,7 +1,7 @@
 import { LabNav } from "@/components/lab/lab-nav";
 import { pageCtx } from "@/lib/actions/validated";
 import { auth } from "@/lib/auth";
-import { can } from "@/lib/auth/permissions";
+import { can } from "@/lib/base/permissions";
 import { unreadCount } from "@/lib/services/alerts/notifications";
 import { signOutAction } from "../../../(auth)/actions";
 

@@ -3,7 +3,7 @@ import { notFound } from "next/navigation";
 import { EntityForm } from "@/components/forms/entity-form";
 import { Card, PageHeader } from "@/components/ui/card";
 import { pageCtx } from "@/lib/actions/validated";
-import { can, ROLE_LABEL, ROLES } from "@/lib/auth/permissions";
+import { can, ROLE_LABEL, ROLES } from "@/lib/base/permissions";
 import { getLab } from "@/lib/services/labs/labSettings";
 import { listMembers } from "@/lib/services/members/members";
 import { listSampleAccess } from "@/lib/services/members/sampleAccess";

@@ -3,7 +3,7 @@ import { EntityForm } from "@/components/forms/entity-form";
 import { sampleFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
 import { pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
+import { can } from "@/lib/base/permissions";
 import { getLab } from "@/lib/services/labs/labSettings";
 import { createSampleAction } from "../../actions";
 

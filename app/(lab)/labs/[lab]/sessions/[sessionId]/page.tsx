@@ -4,7 +4,7 @@ import { UploadPanel } from "@/components/uploads/upload-panel";
 import { ButtonLink } from "@/components/ui/button";
 import { Card, PageHeader } from "@/components/ui/card";
 import { orNotFound, pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
+import { can } from "@/lib/base/permissions";
 import { getSession } from "@/lib/services/sessions/sessions";
 import { listTips } from "@/lib/services/tips/tips";
 import { listSessionUploads } from "@/lib/services/uploads/uploadStatus";

@@ -4,7 +4,7 @@ import { sessionFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
 import { SafetyNote } from "@/components/ui/safety";
 import { pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
+import { can } from "@/lib/base/permissions";
 import { listSamples } from "@/lib/services/samples/listSamples";
 import { listTips } from "@/lib/services/tips/tips";
 import { createSessionAction } from "../../actions";

@@ -4,7 +4,7 @@ import { tipFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
 import { SafetyNote } from "@/components/ui/safety";
 import { pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
+import { can } from "@/lib/base/permissions";
 import { getLab } from "@/lib/services/labs/labSettings";
 import { createTipAction } from "../../actions";
 

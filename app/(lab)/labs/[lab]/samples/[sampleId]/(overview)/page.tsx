@@ -12,7 +12,7 @@ import { SettingsEditors } from "@/components/review/settings-editors";
 import { ButtonLink } from "@/components/ui/button";
 import { Card, EmptyState, PageHeader } from "@/components/ui/card";
 import { pageCtx, pageSample } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
+import { can } from "@/lib/base/permissions";
 import { loadSampleAnalysis } from "@/lib/services/analysis/sampleModel";
 import { getSampleVersions } from "@/lib/services/analysis/versions";
 import { listSessions } from "@/lib/services/sessions/sessions";

@@ -3,7 +3,7 @@ import { EntityForm } from "@/components/forms/entity-form";
 import { tipFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
 import { orNotFound, pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
+import { can } from "@/lib/base/permissions";
 import { getTip } from "@/lib/services/tips/tips";
 import { updateTipAction } from "../../../actions";
 

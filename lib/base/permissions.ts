@@ -1,5 +1,5 @@
 import type { MemberRole } from "@/db/schema";
-import { forbidden } from "@/lib/services/errors";
+import { forbidden } from "./errors";
 
 /**
  * What each lab role may do. Checked on the server for every operation (service functions call
