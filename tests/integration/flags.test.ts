@@ -16,7 +16,7 @@ import { createTip } from "@/lib/services/tips/tips";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { makeSweep, spectrumToCsv, type QualityFlag } from "@/lib/spectra";
 import { parseCsv } from "../support/csv";
-import { makeLab, rejection, withSpikeAtZero, type LabFixture } from "../support/fixtures";
+import { makeLab, rejection, withSpikeAtZero, type LabFixture, system } from "../support/fixtures";
 import { bytesOf, startWorkerProcess, stopWorkerProcess, uploadFile } from "../support/pipeline";
 
 /**
@@ -61,7 +61,7 @@ beforeAll(async () => {
   for (const [i, s] of makeSweep({ n: 12, seed: 5 }).spectra.entries()) {
     const spectrum = GLITCHED.includes(i) ? withSpikeAtZero(s) : s;
     const { id } = await uploadFile(owner, sessionId, `f-${String(i).padStart(2, "0")}.csv`, bytesOf(spectrumToCsv(spectrum)));
-    await processUpload(db(), id);
+    await processUpload({ ctx: system(), input: { uploadId: id } });
     ids.push((await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, id)))[0].id);
   }
   worker = await startWorkerProcess();
@@ -101,7 +101,7 @@ describe("stored with the pick", () => {
   it("a re-analysis writes the new automatic pick's flags, for corrected picks too", async () => {
     // Wipe two stored lists (one automatic, one corrected): a re-analysis must bring them back.
     await db().update(gapPicks).set({ flags: [] }).where(inArray(gapPicks.spectrumId, [ids[2], ids[5]]));
-    await reanalyzeSample(db(), { sampleId });
+    await reanalyzeSample({ ctx: system(), input: { sampleId } });
     expect(codes((await pickOf(2)).flags)).toContain("glitch");
     const corrected = await pickOf(5);
     expect(corrected.source).toBe("corrected");

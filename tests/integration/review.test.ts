@@ -12,7 +12,7 @@ import { tagSpectra } from "@/lib/services/spectra/tagSpectra";
 import { createTip } from "@/lib/services/tips/tips";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { makeSweep, spectrumToCsv } from "@/lib/spectra";
-import { makeLab, rejection, type LabFixture } from "../support/fixtures";
+import { makeLab, rejection, type LabFixture, system } from "../support/fixtures";
 import { bytesOf, uploadFile } from "../support/pipeline";
 
 /** Review of band edges: corrections with reasons and history, stale saves, exclusion, undo, exports. */
@@ -32,7 +32,7 @@ beforeAll(async () => {
   for (const [i, s] of sweep.spectra.entries()) {
     const { id } = await uploadFile(owner, sessionId, `r-${i}.csv`, bytesOf(spectrumToCsv({ ...s, meta: { ...s.meta, region: i === 0 ? "=cmd|' /C calc'!A0" : "terrace A" } })));
     // Processed here, in this process, so the test does not depend on a worker's timing.
-    await processUpload(db(), id);
+    await processUpload({ ctx: system(), input: { uploadId: id } });
   }
   const rows = await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.sampleId, sampleId)).orderBy(spectra.fieldVPerNm);
   ids = rows.map((r) => r.id);

@@ -13,7 +13,7 @@ import { getPhase, getSpectrum, listSessionSpectra } from "@/lib/services/spectr
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { getUpload } from "@/lib/services/uploads/uploadStatus";
 import { makeSweep, spectrumToCsv } from "@/lib/spectra";
-import { makeLab, rejection, type LabFixture } from "../support/fixtures";
+import { makeLab, rejection, type LabFixture, system } from "../support/fixtures";
 import { bytesOf, uploadFile } from "../support/pipeline";
 
 /** An owner can limit a collaborator to chosen samples; everything about the other samples is then "not found" for them. */
@@ -28,7 +28,7 @@ beforeAll(async () => {
     target.sample = (await createSample({ ctx: owner, input: { name, material: "stanene", workFunction_eV: 4.3, workFunctionSigma_eV: 0.1 } })).id;
     target.session = (await createSession({ ctx: owner, input: { sampleId: target.sample, label: `${name} session`, date: "2026-11-24" } })).id;
     const { id } = await uploadFile(owner, target.session, `${name}.csv`, bytesOf(spectrumToCsv(makeSweep({ n: 1, seed: name.length }).spectra[0])));
-    await processUpload(db(), id);
+    await processUpload({ ctx: system(), input: { uploadId: id } });
     target.upload = id;
     target.spectrum = (await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, id)))[0].id;
   }

@@ -39,8 +39,9 @@ export async function confirmCrossing({ ctx, input }: { ctx: Ctx; input: unknown
   const data = parseInput(confirmCrossingInput, input);
   const sample = await getSample({ ctx, input: { id: data.sampleId } });
   const out = await ctx.db.transaction(async (tx) => {
-    await lockSample(tx, sample.id);
-    const current = await currentCrossing(tx, sample.id);
+    const locked = { ...ctx, db: tx };
+    await lockSample({ ctx: locked, input: { sampleId: sample.id } });
+    const current = await currentCrossing({ ctx: locked, input: { sampleId: sample.id } });
     if (!isCrossed(current)) throw conflict("There is no critical field to confirm: the current fit of this sample does not close and reopen.");
     if ((data.crossingId && data.crossingId !== current.id) || (data.field_V_per_nm != null && !sameValue(data.field_V_per_nm, current.fieldVPerNm!))) {
       throw conflict(`The fit changed since you looked at it: the critical field is now ${currentInWords(current)}. Review it before confirming.`, {
@@ -55,13 +56,16 @@ export async function confirmCrossing({ ctx, input }: { ctx: Ctx; input: unknown
       .set({ status: "confirmed", confirmedBy: ctx.actor.userId, confirmedAt: new Date() })
       .where(eq(crossings.id, current.id))
       .returning();
-    const event = await recordEvent(tx, {
-      crossing: confirmed,
-      kind: "confirmed",
-      extra: { confirmedBy: ctx.actor.userId, confirmedByName: ctx.actor.name },
-      excludeUserId: ctx.actor.userId,
+    const event = await recordEvent({
+      ctx: locked,
+      input: {
+        crossing: confirmed,
+        kind: "confirmed",
+        extra: { confirmedBy: ctx.actor.userId, confirmedByName: ctx.actor.name },
+        excludeUserId: ctx.actor.userId,
+      },
     });
-    await recordAudit({ ...ctx, db: tx }, "crossing.confirm", { type: "sample", id: sample.id }, { crossingId: confirmed.id, field_V_per_nm: confirmed.fieldVPerNm });
+    await recordAudit(locked, "crossing.confirm", { type: "sample", id: sample.id }, { crossingId: confirmed.id, field_V_per_nm: confirmed.fieldVPerNm });
     return { crossing: confirmed, event, alreadyConfirmed: false };
   });
   return {

@@ -17,7 +17,7 @@ export async function listCrossingEvents({ ctx, input }: { ctx: Ctx; input: { sa
     const [u] = await ctx.db.select({ name: users.name }).from(users).where(eq(users.id, id));
     if (u) names.set(id, u.name);
   }
-  const current = await currentCrossing(ctx.db, sample.id);
+  const current = await currentCrossing({ ctx, input: { sampleId: sample.id } });
   return {
     sampleId: sample.id,
     events: rows.map((e) => {

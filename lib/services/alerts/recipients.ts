@@ -1,6 +1,6 @@
 import "server-only";
 import { and, eq, sql } from "drizzle-orm";
-import type { DbOrTx } from "@/db/client";
+import type { DbCtx } from "@/lib/base/context";
 import { memberships, subscriptions, users } from "@/db/schema";
 
 /**
@@ -8,8 +8,9 @@ import { memberships, subscriptions, users } from "@/db/schema";
  * it. A collaborator limited to chosen samples (rows in sample_access) sees only those, the same
  * rule as lib/services/samples/visibility.ts, written here for any user rather than the actor.
  */
-export async function recipientsOf(db: DbOrTx, sampleId: string): Promise<{ userId: string; email: string; name: string }[]> {
-  return db
+export async function recipientsOf({ ctx, input }: { ctx: DbCtx; input: { sampleId: string } }): Promise<{ userId: string; email: string; name: string }[]> {
+  const { sampleId } = input;
+  return ctx.db
     .select({ userId: users.id, email: users.email, name: users.name })
     .from(subscriptions)
     .innerJoin(memberships, and(eq(memberships.userId, subscriptions.userId), eq(memberships.labId, subscriptions.labId)))

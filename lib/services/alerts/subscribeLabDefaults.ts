@@ -7,7 +7,8 @@ import type { Ctx } from "@/lib/base/context";
 export const DEFAULT_WATCHER_ROLES: readonly MemberRole[] = ["owner", "analyst"];
 
 /** Subscribes the lab's owners and analysts to a sample just created (called by createSample). */
-export async function subscribeLabDefaults(ctx: Ctx, sampleId: string): Promise<number> {
+export async function subscribeLabDefaults({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }): Promise<number> {
+  const { sampleId } = input;
   const members = await ctx.db
     .select({ userId: memberships.userId })
     .from(memberships)

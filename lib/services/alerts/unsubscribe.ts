@@ -1,6 +1,6 @@
 import "server-only";
 import { and, eq } from "drizzle-orm";
-import type { DbOrTx } from "@/db/client";
+import type { SystemCtx } from "@/lib/base/context";
 import { labs, samples, subscriptions, users } from "@/db/schema";
 import { signToken, verifyToken } from "@/lib/auth/secrets";
 import { env } from "@/lib/env";
@@ -27,8 +27,9 @@ function readToken(token: string): { userId: string; sampleId: string } | null {
 }
 
 /** For the unsubscribe page (GET, no change): whose link it is, for which sample, and whether they still watch it. */
-export async function describeUnsubscribe({ db, token }: { db: DbOrTx; token: string }) {
-  const t = readToken(token);
+export async function describeUnsubscribe({ ctx, input }: { ctx: SystemCtx; input: { token: string } }) {
+  const { db } = ctx;
+  const t = readToken(input.token);
   if (!t) return null;
   const [row] = await db
     .select({ sampleName: samples.name, labName: labs.name, email: users.email })
@@ -42,9 +43,9 @@ export async function describeUnsubscribe({ db, token }: { db: DbOrTx; token: st
 }
 
 /** The one click on the unsubscribe page (a POST): removes the subscription. Idempotent. */
-export async function unsubscribeByToken({ db, token }: { db: DbOrTx; token: string }): Promise<{ ok: boolean }> {
-  const t = readToken(token);
+export async function unsubscribeByToken({ ctx, input }: { ctx: SystemCtx; input: { token: string } }): Promise<{ ok: boolean }> {
+  const t = readToken(input.token);
   if (!t) return { ok: false };
-  await db.delete(subscriptions).where(and(eq(subscriptions.userId, t.userId), eq(subscriptions.sampleId, t.sampleId)));
+  await ctx.db.delete(subscriptions).where(and(eq(subscriptions.userId, t.userId), eq(subscriptions.sampleId, t.sampleId)));
   return { ok: true };
 }

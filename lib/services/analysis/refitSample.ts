@@ -1,5 +1,6 @@
 import "server-only";
 import { and, eq, inArray, isNotNull, or, sql, type SQL } from "drizzle-orm";
+import type { DbCtx, SystemCtx } from "@/lib/base/context";
 import type { DbOrTx } from "@/db/client";
 import { analysisRuns, crossings, gapPicks, spectra, type Crossing, type FlaggedInFit } from "@/db/schema";
 import { fitSweep, type CrossingFit } from "@/lib/spectra";
@@ -20,15 +21,16 @@ export interface RefitResult {
  * Spectra whose automatic pick carries a quality flag enter unless the lab's setting says
  * `exclude` (`flaggedOutOfFit`); corrected picks always enter, an analyst has looked at them.
  */
-export async function refitSample(db: DbOrTx, sampleId: string): Promise<RefitResult> {
-  const result = await db.transaction(async (tx) => {
+export async function refitSample({ ctx, input }: { ctx: DbCtx; input: { sampleId: string } }): Promise<RefitResult> {
+  const { sampleId } = input;
+  const result = await ctx.db.transaction(async (tx) => {
     // One refit of a sample at a time (across every process): each reads all that was committed
     // before it took the lock, so the newest crossing row always covers the newest data.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`refit:${sampleId}`}, 0))`);
     return fitAndStore(tx, sampleId);
   });
   // Every refit ends here, so no caller can skip the crossing alerts (found, moved): see afterRefit.
-  await afterRefit(db, result);
+  await afterRefit({ ctx, input: { sampleId } });
   return result;
 }
 
@@ -37,24 +39,25 @@ export async function refitSample(db: DbOrTx, sampleId: string): Promise<RefitRe
  * spectrum count. A re-analysis that took the run over meanwhile (it covers every open run of
  * the sample, and ends in a refit itself) has marked it done already; that is left as it is.
  */
-export async function runRefit(db: DbOrTx, job: { sampleId: string; runId: string }): Promise<RefitResult> {
+export async function runRefit({ ctx, input: job }: { ctx: SystemCtx; input: { sampleId: string; runId: string } }): Promise<RefitResult> {
+  const { db } = ctx;
   const open = and(eq(analysisRuns.id, job.runId), inArray(analysisRuns.status, ["queued", "running"]));
   const [{ n }] = await db.select({ n: sql<number>`count(*)::int` }).from(spectra).where(eq(spectra.sampleId, job.sampleId));
   await db.update(analysisRuns).set({ status: "running", total: n, done: 0, updatedAt: new Date() }).where(open);
-  const result = await refitSample(db, job.sampleId);
+  const result = await refitSample({ ctx, input: { sampleId: job.sampleId } });
   await db.update(analysisRuns).set({ status: "done", done: n, updatedAt: new Date() }).where(open);
   return result;
 }
 
 async function fitAndStore(db: DbOrTx, sampleId: string): Promise<RefitResult> {
-  const analysis = await loadSampleAnalysis(db, sampleId);
+  const analysis = await loadSampleAnalysis({ ctx: { db }, input: { sampleId } });
   const rows = await db
     .select({ field: spectra.fieldVPerNm, fieldSigma: spectra.fieldSigmaVPerNm, gap: gapPicks.gapEv, gapSigma: gapPicks.uncertaintyEv })
     .from(spectra)
     .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
     .where(and(eq(spectra.sampleId, sampleId), eq(gapPicks.excluded, false), eq(gapPicks.status, "ok"), isNotNull(spectra.fieldVPerNm), isNotNull(gapPicks.gapEv), inFitByFlags(analysis.lab.flaggedInFit)));
   const fit = fitSweep(rows.map((r) => ({ field_V_per_nm: r.field!, fieldSigma_V_per_nm: r.fieldSigma, gap_eV: r.gap!, gapSigma_eV: r.gapSigma })));
-  const previous = await currentCrossing(db, sampleId);
+  const previous = await currentCrossing({ ctx: { db }, input: { sampleId } });
   const ci = fit.ci95Total_V_per_nm ?? fit.ci95_V_per_nm;
   // A refit that changes nothing (a failed file, a tag that moves no point) keeps the current row:
   // the history of crossings records changes, not every time someone asked.

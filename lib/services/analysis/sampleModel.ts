@@ -1,6 +1,6 @@
 import "server-only";
 import { desc, eq } from "drizzle-orm";
-import type { DbOrTx } from "@/db/client";
+import type { DbCtx } from "@/lib/base/context";
 import { extractionSettingsVersions, fieldModelVersions, labs, samples, type Tip } from "@/db/schema";
 import { resolveExtractionSettings, resolveFieldModel, type ExtractionSettings, type FieldModel } from "@/lib/spectra";
 import { notFound } from "@/lib/base/errors";
@@ -27,7 +27,9 @@ export interface SampleAnalysis {
 }
 
 /** Everything the analysis of one sample needs, with the current settings and field-model versions. */
-export async function loadSampleAnalysis(db: DbOrTx, sampleId: string): Promise<SampleAnalysis> {
+export async function loadSampleAnalysis({ ctx, input }: { ctx: DbCtx; input: { sampleId: string } }): Promise<SampleAnalysis> {
+  const { db } = ctx;
+  const { sampleId } = input;
   const [row] = await db.select({ sample: samples, lab: labs }).from(samples).innerJoin(labs, eq(labs.id, samples.labId)).where(eq(samples.id, sampleId));
   if (!row) throw notFound("sample");
   let [sv] = await db.select().from(extractionSettingsVersions).where(eq(extractionSettingsVersions.sampleId, sampleId)).orderBy(desc(extractionSettingsVersions.version)).limit(1);
@@ -37,7 +39,7 @@ export async function loadSampleAnalysis(db: DbOrTx, sampleId: string): Promise<
     const rows = initialVersionRows(row.sample.labId, sampleId, null);
     if (!sv) [sv] = await db.insert(extractionSettingsVersions).values(rows.settings).onConflictDoNothing().returning();
     if (!fv) [fv] = await db.insert(fieldModelVersions).values(rows.field).onConflictDoNothing().returning();
-    if (!sv || !fv) return loadSampleAnalysis(db, sampleId);
+    if (!sv || !fv) return loadSampleAnalysis({ ctx, input });
   }
   const settings = resolveExtractionSettings(sv.settings as never);
   const fieldStored = fv.model as unknown as StoredFieldModel;

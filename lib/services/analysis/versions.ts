@@ -12,14 +12,16 @@ import { parseInput } from "../parse";
 import { getSample } from "../samples/getSample";
 
 /** Queues a background re-analysis of a sample (fields and automatic picks), with a run to show its progress. */
-export async function queueReanalysis(ctx: Ctx, sampleId: string, reason: string) {
+export async function queueReanalysis({ ctx, input }: { ctx: Ctx; input: { sampleId: string; reason: string } }) {
+  const { sampleId, reason } = input;
   const [run] = await ctx.db.insert(analysisRuns).values({ labId: ctx.actor.labId, sampleId, reason, createdBy: ctx.actor.userId }).returning();
   await enqueueReanalyzeSample({ sampleId, labId: ctx.actor.labId, reason });
   return run;
 }
 
 /** Queues a background refit of a sample from its stored picks, with a run to show its progress. */
-export async function queueRefit(ctx: Ctx, sampleId: string, reason: string) {
+export async function queueRefit({ ctx, input }: { ctx: Ctx; input: { sampleId: string; reason: string } }) {
+  const { sampleId, reason } = input;
   const [run] = await ctx.db.insert(analysisRuns).values({ labId: ctx.actor.labId, sampleId, reason, createdBy: ctx.actor.userId }).returning();
   await enqueueRefitSample({ sampleId, labId: ctx.actor.labId, runId: run.id, reason });
   return run;
@@ -44,7 +46,7 @@ export async function saveExtractionSettings({ ctx, input }: { ctx: Ctx; input: 
     return row;
   });
   await recordAudit(ctx, "settings.extraction", { type: "sample", id: sample.id }, { version: version.version });
-  const run = await queueReanalysis(ctx, sample.id, `extraction settings v${version.version}`);
+  const run = await queueReanalysis({ ctx, input: { sampleId: sample.id, reason: `extraction settings v${version.version}` } });
   return { version: version.version, id: version.id, settings, runId: run.id };
 }
 
@@ -66,7 +68,7 @@ export async function saveFieldModel({ ctx, input }: { ctx: Ctx; input: { sample
     return row;
   });
   await recordAudit(ctx, "settings.field-model", { type: "sample", id: sample.id }, { version: version.version });
-  const run = await queueReanalysis(ctx, sample.id, `field model v${version.version}`);
+  const run = await queueReanalysis({ ctx, input: { sampleId: sample.id, reason: `field model v${version.version}` } });
   return { id: version.id, version: version.version, model: stored, runId: run.id, createdAt: version.createdAt.toISOString() };
 }
 

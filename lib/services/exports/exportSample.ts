@@ -41,7 +41,7 @@ export async function phaseCsv({ ctx, input }: { ctx: Ctx; input: { sampleId: st
     "pick_source", "pick_method", "excluded", "excluded_reason", "extraction_settings_version", "field_model_version",
     "flags", "flag_messages", "excluded_by_flag",
   ];
-  const setting = await labFlaggedInFit(ctx);
+  const setting = await labFlaggedInFit({ ctx });
   const body = rows.map(({ s, p, sv, fv, tip }) => [
     s.id, s.sourceName, s.indexInFile, s.label, s.rawSha256, s.region, tip,
     s.setpointBiasV, s.setpointCurrentA, s.zOffsetPm, s.temperatureK, s.lockinModulationMvRms,
@@ -69,7 +69,7 @@ export async function spectraCsv({ ctx, input }: { ctx: Ctx; input: { sampleId: 
 
 export async function phaseJson({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }) {
   const phase = await getPhase({ ctx, input: { ...input, precise: true } });
-  const analysis = await loadSampleAnalysis(ctx.db, input.sampleId);
+  const analysis = await loadSampleAnalysis({ ctx, input });
   return {
     fileName: `${fileStem(phase.sample.name)}-phase.json`,
     body: {
@@ -102,7 +102,7 @@ function smoothingWords(s: ExtractionSettings): string {
 /** A methods paragraph built from the settings actually used, for a paper to cite. */
 export async function methodsText({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }) {
   const phase = await getPhase({ ctx, input });
-  const a = await loadSampleAnalysis(ctx.db, input.sampleId);
+  const a = await loadSampleAnalysis({ ctx, input });
   const model = a.modelFor(null);
   const s = a.settings;
   const c = phase.crossing;

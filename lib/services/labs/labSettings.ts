@@ -52,6 +52,6 @@ export async function setFlaggedInFit({ ctx, input }: { ctx: Ctx; input: unknown
     .innerJoin(spectra, eq(spectra.id, gapPicks.spectrumId))
     .where(and(eq(gapPicks.labId, ctx.actor.labId), eq(gapPicks.source, "auto"), sql`jsonb_array_length(${gapPicks.flags}) > 0`));
   const runIds: string[] = [];
-  for (const s of ids) runIds.push((await queueRefit(ctx, s.id, reason)).id);
+  for (const s of ids) runIds.push((await queueRefit({ ctx, input: { sampleId: s.id, reason } })).id);
   return { flaggedInFit, changed: true, runIds };
 }

@@ -1,6 +1,5 @@
 import "server-only";
 import { and, asc, desc, eq, gt, isNull, ne, sql } from "drizzle-orm";
-import type { DbOrTx } from "@/db/client";
 import { invitations, labs, memberships, users, type MemberRole } from "@/db/schema";
 import { hashPassword } from "@/lib/auth/password";
 import { assertCan, ROLE_LABEL } from "@/lib/base/permissions";
@@ -10,7 +9,7 @@ import { sendMail } from "@/lib/mail/client";
 import { inviteMail } from "@/lib/mail/templates/invite";
 import { acceptInviteInput, inviteInput, memberRoleSchema } from "@/lib/schemas/lab";
 import { recordAudit } from "../audit";
-import type { Ctx } from "@/lib/base/context";
+import type { Ctx, SystemCtx } from "@/lib/base/context";
 import { conflict, invalid, notFound } from "@/lib/base/errors";
 import { parseInput } from "../parse";
 import { isUuid } from "../samples/getSample";
@@ -78,12 +77,12 @@ export async function revokeInvitation({ ctx, input }: { ctx: Ctx; input: { id: 
 }
 
 /** What the invitation page shows before the person accepts (no actor: the link is the credential). */
-export async function describeInvitation({ db, token }: { db: DbOrTx; token: string }) {
-  const [row] = await db
+export async function describeInvitation({ ctx, input }: { ctx: SystemCtx; input: { token: string } }) {
+  const [row] = await ctx.db
     .select({ id: invitations.id, email: invitations.email, role: invitations.role, labName: labs.name, expiresAt: invitations.expiresAt, acceptedAt: invitations.acceptedAt, revokedAt: invitations.revokedAt, hasPassword: sql<boolean>`(select u.password_hash is not null from users u where u.email = ${invitations.email})` })
     .from(invitations)
     .innerJoin(labs, eq(labs.id, invitations.labId))
-    .where(eq(invitations.tokenHash, sha256Hex(token)));
+    .where(eq(invitations.tokenHash, sha256Hex(input.token)));
   if (!row || row.acceptedAt || row.revokedAt || row.expiresAt < new Date()) return null;
   return { email: row.email, role: row.role, labName: row.labName, existingAccount: Boolean(row.hasPassword) };
 }
@@ -92,10 +91,10 @@ export async function describeInvitation({ db, token }: { db: DbOrTx; token: str
  * Accepts an invitation: creates the account (or, for someone who already has one, keeps its
  * password) and the membership, and marks the link used, in one transaction.
  */
-export async function acceptInvitation({ db, input }: { db: DbOrTx; input: unknown }) {
+export async function acceptInvitation({ ctx, input }: { ctx: SystemCtx; input: unknown }) {
   const data = parseInput(acceptInviteInput, input);
   const passwordHash = await hashPassword(data.password);
-  return db.transaction(async (tx) => {
+  return ctx.db.transaction(async (tx) => {
     const [invite] = await tx
       .select()
       .from(invitations)

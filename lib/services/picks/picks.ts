@@ -58,7 +58,7 @@ async function lockPick(tx: DbOrTx, ctx: Ctx, spectrumId: string, version: numbe
 
 /** Refits the sample (which also decides its crossing alerts). */
 async function finish(ctx: Ctx, sampleId: string) {
-  return refitSample(ctx.db, sampleId);
+  return refitSample({ ctx, input: { sampleId } });
 }
 
 /** An analyst moves the band edges by hand. The automatic pick stays in auto_pick; the change goes to the history. */

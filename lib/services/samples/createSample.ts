@@ -26,8 +26,8 @@ export async function createSample({ ctx, input }: { ctx: Ctx; input: unknown })
         createdBy: ctx.actor.userId,
       })
       .returning();
-    await ensureSampleVersions(ctx, row.id);
-    await subscribeLabDefaults(ctx, row.id);
+    await ensureSampleVersions({ ctx, input: { sampleId: row.id } });
+    await subscribeLabDefaults({ ctx, input: { sampleId: row.id } });
     await recordAudit(ctx, "sample.create", { type: "sample", id: row.id }, { name: row.name });
     return row;
   } catch (e) {

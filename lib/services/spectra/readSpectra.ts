@@ -184,7 +184,7 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
     .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
     .where(and(eq(spectra.sampleId, sample.id), eq(gapPicks.status, "ok"), sql`${spectra.fieldVPerNm} is not null`, sql`${gapPicks.gapEv} is not null`))
     .orderBy(asc(spectra.fieldVPerNm));
-  const setting = await labFlaggedInFit(ctx);
+  const setting = await labFlaggedInFit({ ctx });
   // Plot precision unless `precise` (the exports and the spectrum endpoint keep every digit): fields to 6
   // significant digits, gaps to 0.1 µeV — far below any uncertainty here, and a third less to send.
   const sig = input.precise ? (x: number) => x : sigDigits;
@@ -244,7 +244,7 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
 }
 
 /** The actor's lab's setting for flagged spectra in the critical-field fit. */
-export async function labFlaggedInFit(ctx: Ctx): Promise<FlaggedInFit> {
+export async function labFlaggedInFit({ ctx }: { ctx: Ctx }): Promise<FlaggedInFit> {
   const [lab] = await ctx.db.select({ v: labs.flaggedInFit }).from(labs).where(eq(labs.id, ctx.actor.labId));
   return lab?.v ?? "include";
 }

@@ -67,7 +67,7 @@ export async function updateTip({ ctx, input }: { ctx: Ctx; input: { id: string;
     // Spectra measured with this tip estimate their field from its work function.
     if (before.workFunctionEv !== row.workFunctionEv || before.workFunctionSigmaEv !== row.workFunctionSigmaEv) {
       const used = await ctx.db.selectDistinct({ sampleId: spectra.sampleId }).from(spectra).where(eq(spectra.tipId, row.id));
-      for (const u of used) await queueReanalysis(ctx, u.sampleId, `tip ${row.label} work function changed`);
+      for (const u of used) await queueReanalysis({ ctx, input: { sampleId: u.sampleId, reason: `tip ${row.label} work function changed` } });
     }
     return row;
   } catch (e) {

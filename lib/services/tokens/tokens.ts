@@ -6,7 +6,7 @@ import { assertCan } from "@/lib/base/permissions";
 import { newSecret, sha256Hex } from "@/lib/auth/secrets";
 import { tokenInput } from "@/lib/schemas/lab";
 import { recordAudit } from "../audit";
-import type { Ctx } from "@/lib/base/context";
+import type { Ctx, SystemCtx } from "@/lib/base/context";
 import { notFound } from "@/lib/base/errors";
 import { parseInput } from "../parse";
 import { isUuid } from "../samples/getSample";
@@ -58,7 +58,9 @@ export async function revokeToken({ ctx, input }: { ctx: Ctx; input: { id: strin
  * For the server-side command line (`bandcross token create --lab SLUG [--email E]`): a token for
  * a member of the lab, by default its first owner. Whoever can run this already holds the database.
  */
-export async function createTokenForLab({ db, labSlug, email, name }: { db: DbOrTx; labSlug: string; email?: string; name?: string }) {
+export async function createTokenForLab({ ctx, input }: { ctx: SystemCtx; input: { labSlug: string; email?: string; name?: string } }) {
+  const { db } = ctx;
+  const { labSlug, email, name } = input;
   const [lab] = await db.select().from(labs).where(eq(labs.slug, labSlug));
   if (!lab) throw notFound("lab");
   const rows = await db

@@ -1,6 +1,7 @@
 import "server-only";
 import { and, eq, inArray, ne, sql } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
+import type { SystemCtx } from "@/lib/base/context";
 import { gapPicks, measurementSessions, spectra, tips, uploads } from "@/db/schema";
 import { sha256Hex } from "@/lib/auth/secrets";
 import { importSpectra, pickGap, type ParsedSpectrum } from "@/lib/spectra";
@@ -25,11 +26,13 @@ export type ProcessOutcome =
  * parser's message; its raw bytes stay in storage. Infrastructure errors (storage or database
  * unreachable) are thrown, so the queue retries with backoff.
  */
-export async function processUpload(db: DbOrTx, uploadId: string, hooks: { afterRead?: () => Promise<void>; afterParse?: () => Promise<void> } = {}): Promise<ProcessOutcome> {
+export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { uploadId: string } }): Promise<ProcessOutcome> {
+  const { db, faults = {} } = ctx;
+  const { uploadId } = input;
   const [u] = await db.select().from(uploads).where(eq(uploads.id, uploadId));
   if (!u) return { status: "skipped", reason: "no such upload" };
   if (u.status === "done") return { status: "skipped", reason: "already done" };
-  await hooks.afterRead?.();
+  await faults.afterRead?.();
   // Marked in flight only while not done: a plain write here, from a run that read the row just
   // before another run stored the file, turned "done" back into "processing" and the file was
   // stored a second time under new ids.
@@ -45,7 +48,7 @@ export async function processUpload(db: DbOrTx, uploadId: string, hooks: { after
     return fail(db, u.id, "The stored bytes do not match the file's SHA-256: the transfer was damaged. Upload the file again.");
   }
   const files = importSpectra(u.fileName, bytes);
-  await hooks.afterParse?.();
+  await faults.afterParse?.();
   const good = files.filter((f) => f.status === "ok" && f.spectra.length > 0);
   const bad = files.filter((f) => f.status === "error");
   if (good.length === 0) {
@@ -54,7 +57,7 @@ export async function processUpload(db: DbOrTx, uploadId: string, hooks: { after
   }
 
   const [session] = await db.select().from(measurementSessions).where(eq(measurementSessions.id, u.sessionId));
-  const analysis = await loadSampleAnalysis(db, session.sampleId);
+  const analysis = await loadSampleAnalysis({ ctx, input: { sampleId: session.sampleId } });
   const [tip] = session.tipId ? await db.select().from(tips).where(eq(tips.id, session.tipId)) : [];
   const model = analysis.modelFor(tip ?? null);
 
@@ -124,7 +127,7 @@ export async function processUpload(db: DbOrTx, uploadId: string, hooks: { after
     return true;
   });
   if (!stored) return { status: "skipped", reason: "already done by another run" };
-  const refit = await refitSample(db, session.sampleId);
+  const refit = await refitSample({ ctx, input: { sampleId: session.sampleId } });
   return { status: "done", spectra: prepared.length, refit };
 }
 
@@ -139,12 +142,14 @@ async function fail(db: DbOrTx, id: string, message: string, retryable = false):
   // The sample's alerts wait while any of its files is in flight; this one no longer is, so refit
   // (nothing changed in the data) to let the decision be made if it was the last.
   const [session] = await db.select({ sampleId: measurementSessions.sampleId }).from(measurementSessions).where(eq(measurementSessions.id, u.sessionId));
-  if (session) await refitSample(db, session.sampleId);
+  if (session) await refitSample({ ctx: { db }, input: { sampleId: session.sampleId } });
   return { status: "failed", message };
 }
 
 /** After the queue's last retry: the file is marked failed with the reason, and its bytes are kept. */
-export async function markUploadFailed(db: DbOrTx, id: string, error: unknown): Promise<void> {
+export async function markUploadFailed({ ctx, input }: { ctx: SystemCtx; input: { uploadId: string; error: unknown } }): Promise<void> {
+  const { db } = ctx;
+  const { uploadId: id, error } = input;
   const reason = error instanceof Error ? error.message : String(error);
   await fail(db, id, `Processing failed after several attempts (${reason}). The raw file is kept; retry once the problem is fixed.`, true);
 }

@@ -31,7 +31,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
     // The same cached JSON the phase endpoint serves (a 5,000-spectrum sample is built once, not per visit).
     getPhaseJson({ ctx, input: { sampleId: s.id } }).then((r) => JSON.parse(r.body!) as PhaseData),
     getSampleVersions({ ctx, input: { sampleId: s.id } }),
-    loadSampleAnalysis(ctx.db, s.id),
+    loadSampleAnalysis({ ctx, input: { sampleId: s.id } }),
     getGapMap({ ctx, input: { sampleId: s.id } }),
     tipsOfSample({ ctx, input: { sampleId: s.id } }),
   ]);

@@ -1,14 +1,9 @@
-/**
- * Seeds the demo lab once (slug "demo"): an invented group, its people (one per role), samples,
- * tips and sessions. Running it again changes nothing. The passwords are listed in README.md.
- */
+import "server-only";
 import { eq } from "drizzle-orm";
-import { drizzle } from "drizzle-orm/node-postgres";
-import { Pool } from "pg";
 import bcrypt from "bcryptjs";
-import * as schema from "./schema";
-import { extractionSettingsVersions, fieldModelVersions, labs, subscriptions, measurementSessions, memberships, samples, tips, users, type MemberRole } from "./schema";
-import { initialVersionRows } from "../lib/services/samples/initialVersions";
+import { extractionSettingsVersions, fieldModelVersions, labs, subscriptions, measurementSessions, memberships, samples, tips, users, type MemberRole } from "@/db/schema";
+import type { SystemCtx } from "@/lib/base/context";
+import { initialVersionRows } from "../samples/initialVersions";
 
 export const DEMO_LAB = { slug: "demo", name: "Halvorsen Surface Physics Group", institution: "Lindqvist Institute (invented)" };
 
@@ -19,7 +14,12 @@ export const DEMO_PEOPLE: { name: string; email: string; password: string; role:
   { name: "Pablo Ferreira", email: "pablo@ferreira-theory.example", password: "demo-collaborator-2026", role: "collaborator" },
 ];
 
-export async function seedDemo(db: ReturnType<typeof drizzle<typeof schema>>) {
+/**
+ * Seeds the demo lab once (slug "demo"): an invented group, its people (one per role), samples,
+ * tips and sessions. Running it again changes nothing. The passwords are listed in README.md.
+ */
+export async function seedDemoLab({ ctx }: { ctx: SystemCtx; input?: undefined }): Promise<{ created: boolean }> {
+  const { db } = ctx;
   const [existing] = await db.select().from(labs).where(eq(labs.slug, DEMO_LAB.slug));
   if (existing) return { created: false };
   await db.transaction(async (tx) => {
@@ -58,34 +58,4 @@ export async function seedDemo(db: ReturnType<typeof drizzle<typeof schema>>) {
     await tx.insert(measurementSessions).values({ labId: lab.id, sampleId: film.id, tipId: tipW.id, label: "GX-12 approach series A", date: "2026-11-20", instrument: "LT-STM bay 2", temperatureK: 4.6, operatorId: people.microscopist, createdBy: people.microscopist });
   });
   return { created: true };
-}
-
-async function main() {
-  const url = process.env.DATABASE_URL;
-  if (!url) throw new Error("DATABASE_URL is not set");
-  const pool = new Pool({ connectionString: url, max: 2 });
-  try {
-    const result = await seedDemo(drizzle(pool, { schema }));
-    console.log(result.created ? "seed: demo lab created (slug demo)" : "seed: demo lab already present, nothing changed");
-    if (result.created && process.env.BANDCROSS_DEMO_SPECTRA !== "0") {
-      // Through the real upload path; the worker processes them once it starts.
-      const [{ seedDemoSpectra }, { db, closeDb }, { stopBoss }] = await Promise.all([import("../lib/services/demo/seedDemoSpectra"), import("./client"), import("../lib/jobs/queue")]);
-      try {
-        const n = await seedDemoSpectra(db(), DEMO_LAB.slug);
-        console.log(`seed: ${n} demo spectrum files uploaded and queued`);
-      } finally {
-        await stopBoss();
-        await closeDb();
-      }
-    }
-  } finally {
-    await pool.end();
-  }
-}
-
-if (import.meta.url === `file://${process.argv[1]}`) {
-  main().catch((err) => {
-    console.error(`seed: ${err instanceof Error ? err.message : String(err)}`);
-    process.exit(1);
-  });
 }

@@ -1,17 +1,17 @@
 /**
- * The background worker: `npm start` runs one; run more on any machine with the same environment
- * (`node --import tsx lib/jobs/worker.ts`) and they share the queue. SIGINT/SIGTERM finish the
- * current jobs and stop.
+ * The background worker, an entry point above the services: it takes jobs from the queue
+ * (lib/jobs/queue.ts) and runs each as one service verb in a system context. `npm start` runs one;
+ * run more on any machine with the same environment (`node --import tsx lib/worker/worker.ts`) and
+ * they share the queue. SIGINT/SIGTERM finish the current jobs and stop.
  */
 import type PgBoss from "pg-boss";
-import { closeDb, db } from "@/db/client";
-import { reanalyzeSample } from "@/lib/services/analysis/reanalyzeSample";
-import { runRefit } from "@/lib/services/analysis/refitSample";
-import { markUploadFailed, processUpload } from "@/lib/services/uploads/processUpload";
+import type { Faults } from "@/lib/base/context";
+import { boss, QUEUES, stopBoss, type NotifyEventJob, type ProcessUploadJob, type ReanalyzeSampleJob, type RefitSampleJob } from "@/lib/jobs/queue";
 import { deliverEvent } from "@/lib/services/alerts/deliverEvent";
-import { boss, QUEUES, stopBoss, type NotifyEventJob, type ProcessUploadJob, type ReanalyzeSampleJob, type RefitSampleJob } from "./queue";
-import { analysisRuns } from "@/db/schema";
-import { and, eq, inArray } from "drizzle-orm";
+import { runRefit } from "@/lib/services/analysis/refitSample";
+import { runReanalysis } from "@/lib/services/analysis/runReanalysis";
+import { closeSystemContext, systemContext } from "@/lib/services/system";
+import { markUploadFailed, processUpload } from "@/lib/services/uploads/processUpload";
 
 const log = (msg: string) => console.log(`[worker ${process.pid}] ${msg}`);
 
@@ -21,22 +21,23 @@ const lastTry = (job: PgBoss.JobWithMetadata<unknown>) => job.retryCount >= job.
  * Fault injection for the crash-recovery test only (NODE_ENV=test): WORKER_FAULT=hang-after-parse
  * makes this worker stop forever mid-job, as a killed process would, so the test can kill it.
  */
-function faultHooks() {
-  if (process.env.NODE_ENV !== "test" || process.env.WORKER_FAULT !== "hang-after-parse") return {};
+function testFaults(): Faults | undefined {
+  if (process.env.NODE_ENV !== "test" || process.env.WORKER_FAULT !== "hang-after-parse") return undefined;
   return { afterParse: () => new Promise<void>(() => log("fault injection: hanging mid-job")) };
 }
 
 export async function startWorker(): Promise<() => Promise<void>> {
   const b = await boss("worker");
+  const ctx = systemContext("worker", testFaults());
   const concurrency = Number(process.env.WORKER_CONCURRENCY ?? 2);
   const handleUpload = async (job: PgBoss.JobWithMetadata<ProcessUploadJob>) => {
     const started = Date.now();
     try {
-      const out = await processUpload(db(), job.data.uploadId, faultHooks());
+      const out = await processUpload({ ctx, input: { uploadId: job.data.uploadId } });
       log(`${QUEUES.processUpload} ${job.data.uploadId}: ${out.status}${out.status === "done" ? ` (${out.spectra} spectra, ${Date.now() - started} ms)` : ""}`);
     } catch (e) {
       log(`${QUEUES.processUpload} ${job.data.uploadId}: attempt ${job.retryCount + 1} failed: ${(e as Error).message}`);
-      if (lastTry(job)) return markUploadFailed(db(), job.data.uploadId, e);
+      if (lastTry(job)) return markUploadFailed({ ctx, input: { uploadId: job.data.uploadId, error: e } });
       // Only this job is retried (with backoff); pg-boss completes the rest of the batch, and a
       // failed job is no longer active, so that completion leaves it alone.
       await b.fail(QUEUES.processUpload, job.id, { message: (e as Error).message });
@@ -55,39 +56,26 @@ export async function startWorker(): Promise<() => Promise<void>> {
     );
   });
   await b.work<ReanalyzeSampleJob>(QUEUES.reanalyzeSample, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
-    const runs = await db()
-      .select({ id: analysisRuns.id })
-      .from(analysisRuns)
-      .where(and(eq(analysisRuns.sampleId, job.data.sampleId), inArray(analysisRuns.status, ["queued", "running", "fitting"])));
     const started = Date.now();
-    const runIds = runs.map((r) => r.id);
-    // Every run still queued or running is covered by this one (it reads the newest versions).
     let out;
     try {
-      out = await reanalyzeSample(db(), { sampleId: job.data.sampleId, runIds });
+      out = await runReanalysis({ ctx, input: { sampleId: job.data.sampleId, lastAttempt: lastTry(job) } });
     } catch (e) {
       log(`${QUEUES.reanalyzeSample} ${job.data.sampleId}: attempt ${job.retryCount + 1} failed: ${(e as Error).message}`);
-      // The last attempt ends the runs as failed, so no progress bar waits for work that stopped.
-      if (lastTry(job) && runIds.length) {
-        await db()
-          .update(analysisRuns)
-          .set({ status: "failed", message: `The re-analysis stopped: ${(e as Error).message}. Save the settings again to retry.`, updatedAt: new Date() })
-          .where(inArray(analysisRuns.id, runIds));
-      }
       throw e;
     }
     log(`${QUEUES.reanalyzeSample} ${job.data.sampleId}: ${out === "superseded" ? "superseded by a newer version" : "done"} in ${Date.now() - started} ms (${job.data.reason})`);
   });
   await b.work<RefitSampleJob>(QUEUES.refitSample, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
     const started = Date.now();
-    await runRefit(db(), job.data);
+    await runRefit({ ctx, input: job.data });
     log(`${QUEUES.refitSample} ${job.data.sampleId}: done in ${Date.now() - started} ms (${job.data.reason})`);
   });
   // Crossing alerts are decided inside every refit (refitSample → afterRefit); this queue only
   // e-mails them, so a mail-service outage is retried here without redoing any fit.
   await b.work<NotifyEventJob>(QUEUES.notifyEvent, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
     try {
-      const out = await deliverEvent(db(), job.data.eventId);
+      const out = await deliverEvent({ ctx, input: { eventId: job.data.eventId } });
       log(`${QUEUES.notifyEvent} ${job.data.eventId}: ${out.sent} sent, ${out.skipped} already sent or no longer watching`);
     } catch (e) {
       log(`${QUEUES.notifyEvent} ${job.data.eventId}: attempt ${job.retryCount + 1} failed: ${(e as Error).message}`);
@@ -97,11 +85,11 @@ export async function startWorker(): Promise<() => Promise<void>> {
   log(`listening on ${Object.values(QUEUES).join(", ")} (concurrency ${concurrency})`);
   return async () => {
     await stopBoss();
-    await closeDb();
+    await closeSystemContext();
   };
 }
 
-const isMain = process.argv[1] && /lib\/jobs\/worker\.ts$/.test(process.argv[1]);
+const isMain = process.argv[1] && /lib\/worker\/worker\.ts$/.test(process.argv[1]);
 if (isMain) {
   startWorker()
     .then((stop) => {

@@ -2,8 +2,8 @@ import "server-only";
 import { eq } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { users } from "@/db/schema";
-import { verifyPassword } from "@/lib/auth/password";
-import { clearFailures, isThrottled, recordFailure } from "@/lib/auth/throttle";
+import { verifyPassword } from "./password";
+import { clearFailures, isThrottled, recordFailure } from "./throttle";
 
 export type CredentialsResult =
   | { ok: true; user: { id: string; email: string; name: string } }
