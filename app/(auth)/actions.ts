@@ -6,7 +6,7 @@ import { z } from "zod";
 import { signIn, signOut } from "@/lib/auth";
 import { checkRequestHost, untrustedHostMessage } from "@/lib/auth/here";
 import type { ActionState } from "@/lib/actions/types";
-import { acceptInvitation } from "@/lib/services/members/members";
+import { acceptInvitation } from "@/lib/services/members/acceptInvitation";
 import { isServiceError } from "@/lib/base/errors";
 import { systemContext } from "@/lib/services/system";
 

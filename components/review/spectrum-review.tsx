@@ -12,7 +12,7 @@ import { EdgeBox } from "./edge-box";
 import { api, ApiError } from "@/lib/api-client";
 import { fileStem, formatGap, pickMethodInWords } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
-import type { getSpectrum } from "@/lib/services/spectra/readSpectra";
+import type { getSpectrum } from "@/lib/services/spectra/getSpectrum";
 
 export type SpectrumData = Awaited<ReturnType<typeof getSpectrum>>;
 type History = { id: string; action: string; reason: string | null; at: string; actorName: string | null; before: Record<string, unknown>; after: Record<string, unknown> }[];

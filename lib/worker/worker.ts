@@ -8,10 +8,11 @@ import type PgBoss from "pg-boss";
 import type { Faults } from "@/lib/base/context";
 import { boss, QUEUES, stopBoss, type NotifyEventJob, type ProcessUploadJob, type ReanalyzeSampleJob, type RefitSampleJob } from "@/lib/jobs/queue";
 import { deliverEvent } from "@/lib/services/alerts/deliverEvent";
-import { runRefit } from "@/lib/services/analysis/refitSample";
+import { runRefit } from "@/lib/services/analysis/runRefit";
 import { runReanalysis } from "@/lib/services/analysis/runReanalysis";
 import { closeSystemContext, systemContext } from "@/lib/services/system";
-import { markUploadFailed, processUpload } from "@/lib/services/uploads/processUpload";
+import { markUploadFailed } from "@/lib/services/uploads/markUploadFailed";
+import { processUpload } from "@/lib/services/uploads/processUpload";
 
 const log = (msg: string) => console.log(`[worker ${process.pid}] ${msg}`);
 

@@ -1,15 +1,15 @@
-import type { Browser, BrowserContext, Page } from "playwright-core";
+import type { Browser, Page } from "playwright-core";
 import { and, asc, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
 import { gapPicks, spectra } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
 import { createSample } from "@/lib/services/samples/createSample";
-import { createSession } from "@/lib/services/sessions/sessions";
+import { createSession } from "@/lib/services/sessions/createSession";
 import { tagSpectra } from "@/lib/services/spectra/tagSpectra";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { columnsToCsv, makeSpectrum } from "@/lib/spectra";
-import { APP_URL, launch, shot, SHOTS_DIR, SignInPage, signedIn as signedInAs } from "../support/browser";
+import { APP_URL, launch, shot, SHOTS_DIR, signedIn as signedInAs } from "../support/browser";
 import { makeLab, TEST_PASSWORD, type LabFixture, system } from "../support/fixtures";
 import { bytesOf, sweepSample, uploadFile } from "../support/pipeline";
 

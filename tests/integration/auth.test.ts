@@ -4,8 +4,11 @@ import { closeDb, db } from "@/db/client";
 import { apiTokens, invitations, users } from "@/db/schema";
 import { MAX_FAILURES } from "@/lib/auth/throttle";
 import { verifyCredentials } from "@/lib/auth/credentials";
-import { acceptInvitation, describeInvitation, inviteMember, listMembers } from "@/lib/services/members/members";
-import { createToken } from "@/lib/services/tokens/tokens";
+import { acceptInvitation } from "@/lib/services/members/acceptInvitation";
+import { describeInvitation } from "@/lib/services/members/describeInvitation";
+import { inviteMember } from "@/lib/services/members/inviteMember";
+import { listMembers } from "@/lib/services/members/listMembers";
+import { createToken } from "@/lib/services/tokens/createToken";
 import { makeLab, rejection, TEST_PASSWORD, system } from "../support/fixtures";
 import { linkIn, mailsTo } from "../support/outbox";
 

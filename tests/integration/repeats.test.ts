@@ -4,7 +4,7 @@ import { closeDb, db } from "@/db/client";
 import { gapPicks, spectra } from "@/db/schema";
 import { reanalyzeSample } from "@/lib/services/analysis/reanalyzeSample";
 import { createSample } from "@/lib/services/samples/createSample";
-import { createSession } from "@/lib/services/sessions/sessions";
+import { createSession } from "@/lib/services/sessions/createSession";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { columnsToCsv, makeRepeats, type QualityFlag } from "@/lib/spectra";
 import { makeLab, type LabFixture, system } from "../support/fixtures";

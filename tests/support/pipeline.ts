@@ -10,12 +10,12 @@ import { db } from "@/db/client";
 import { spectra, uploads } from "@/db/schema";
 import type { Ctx } from "@/lib/base/context";
 import { createSample } from "@/lib/services/samples/createSample";
-import { createSession } from "@/lib/services/sessions/sessions";
-import { createTip } from "@/lib/services/tips/tips";
+import { createSession } from "@/lib/services/sessions/createSession";
+import { createTip } from "@/lib/services/tips/createTip";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { makeSweep, spectrumToCsv } from "@/lib/spectra";
 import { createUploads } from "@/lib/services/uploads/createUploads";
-import { completeUpload } from "@/lib/services/uploads/uploadStatus";
+import { completeUpload } from "@/lib/services/uploads/completeUpload";
 import { system } from "./fixtures";
 
 export const sha256 = (b: Uint8Array) => createHash("sha256").update(b).digest("hex");

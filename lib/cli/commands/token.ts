@@ -49,7 +49,7 @@ export const token: Command = {
       io.err("bandcross token: DATABASE_URL is not set and .data/env.local was not found (start the stack with npm start first)\n");
       return 1;
     }
-    const [{ createTokenForLab }, { systemContext, closeSystemContext }] = await Promise.all([import("../../services/tokens/tokens"), import("../../services/system")]);
+    const [{ createTokenForLab }, { systemContext, closeSystemContext }] = await Promise.all([import("../../services/tokens/createTokenForLab"), import("../../services/system")]);
     try {
       const made = await createTokenForLab({ ctx: systemContext("token command"), input: { labSlug: lab, email: values.email as string | undefined, name: values.name as string | undefined } });
       io.err(`token "${made.row.name}" for ${made.member.email} (${made.member.role}) in lab ${made.lab.slug}; it is shown once:\n`);

@@ -3,7 +3,11 @@ import type { DbCtx } from "@/lib/base/context";
 import type { DbOrTx } from "@/db/client";
 import type { Crossing, CrossingEvent, CrossingEventKind } from "@/db/schema";
 import { sql } from "drizzle-orm";
-import { currentCrossing, intervalOf, latestEvent, lockSample, recordEvent } from "./recordEvent";
+import { currentCrossing } from "./currentCrossing";
+import { intervalOf } from "./shared";
+import { latestEvent } from "./latestEvent";
+import { lockSample } from "./lockSample";
+import { recordEvent } from "./recordEvent";
 
 async function uploadsInFlight(db: DbOrTx, sampleId: string): Promise<boolean> {
   const r = await db.execute(sql`select 1 from uploads u join measurement_sessions s on s.id = u.session_id

@@ -10,7 +10,10 @@ import { numberInput } from "@/lib/schemas/number";
 import { parseInput } from "../parse";
 import { getSample } from "../samples/getSample";
 import { isCrossed } from "./afterRefit";
-import { currentCrossing, intervalOf, lockSample, recordEvent } from "./recordEvent";
+import { currentCrossing } from "./currentCrossing";
+import { intervalOf } from "./shared";
+import { lockSample } from "./lockSample";
+import { recordEvent } from "./recordEvent";
 
 export const confirmCrossingInput = z.object({
   sampleId: z.string().uuid("sampleId must be a sample id."),

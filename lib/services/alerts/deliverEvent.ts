@@ -5,10 +5,10 @@ import { crossingEvents, crossings, fieldModelVersions, labs, notifications, sam
 import { env } from "@/lib/env";
 import { sendMail } from "@/lib/mail/client";
 import { crossingMail, type CrossingMailInput } from "@/lib/mail/templates/crossing";
-import type { StoredFieldModel } from "../analysis/sampleModel";
-import { recipientsOf } from "./recipients";
-import { intervalOf } from "./recordEvent";
-import { unsubscribeUrl } from "./unsubscribe";
+import type { StoredFieldModel } from "../analysis/loadSampleAnalysis";
+import { recipientsOf } from "./recipientsOf";
+import { intervalOf } from "./shared";
+import { unsubscribeUrl } from "./unsubscribeLink";
 
 /** The idempotency key of one crossing e-mail: one per event and person, checked in mail_log and by the mail service. */
 export const eventMailKey = (eventId: string, userId: string) => `crossing-event:${eventId}:${userId}`;

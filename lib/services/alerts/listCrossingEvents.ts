@@ -5,7 +5,8 @@ import { can } from "@/lib/base/permissions";
 import type { Ctx } from "@/lib/base/context";
 import { getSample } from "../samples/getSample";
 import { isCrossed } from "./afterRefit";
-import { currentCrossing, intervalOf } from "./recordEvent";
+import { currentCrossing } from "./currentCrossing";
+import { intervalOf } from "./shared";
 
 /** A sample's crossing events, newest first, with its current fit and whether the actor may confirm it: the timeline. */
 export async function listCrossingEvents({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }) {

@@ -1,40 +1,11 @@
 import "server-only";
-import { and, desc, eq, isNull, sql } from "drizzle-orm";
+import { eq, sql } from "drizzle-orm";
 import type { DbCtx } from "@/lib/base/context";
-import { crossingEvents, crossings, extractionSettingsVersions, fieldModelVersions, labs, notifications, samples, type Crossing, type CrossingEvent, type CrossingEventKind } from "@/db/schema";
+import { crossingEvents, extractionSettingsVersions, fieldModelVersions, labs, notifications, samples, type Crossing, type CrossingEvent, type CrossingEventKind } from "@/db/schema";
 import { enqueueNotifyEvent } from "@/lib/jobs/queue";
 import { crossingHeadline } from "@/lib/mail/templates/crossing";
-import { recipientsOf } from "./recipients";
-
-/**
- * Serialises every "is this a new event?" decision about one sample: a row lock on the sample,
- * held until the caller's transaction ends. Two workers refitting the same sample at once (or a
- * refit racing a confirmation) take turns here, and the second one sees the event the first one
- * stored. The unique index on (crossing_id, kind) backs this up for the same crossing row.
- */
-export async function lockSample({ ctx, input }: { ctx: DbCtx; input: { sampleId: string } }): Promise<void> {
-  await ctx.db.execute(sql`select id from ${samples} where ${samples.id} = ${input.sampleId} for update`);
-}
-
-/** The sample's newest crossing of all regions together: the current fit. */
-export async function currentCrossing({ ctx, input }: { ctx: DbCtx; input: { sampleId: string } }): Promise<Crossing | null> {
-  const [c] = await ctx.db
-    .select()
-    .from(crossings)
-    .where(and(eq(crossings.sampleId, input.sampleId), isNull(crossings.region)))
-    .orderBy(desc(crossings.createdAt))
-    .limit(1);
-  return c ?? null;
-}
-
-/** The sample's latest event of any kind, or null. */
-export async function latestEvent({ ctx, input }: { ctx: DbCtx; input: { sampleId: string } }): Promise<CrossingEvent | null> {
-  const [e] = await ctx.db.select().from(crossingEvents).where(eq(crossingEvents.sampleId, input.sampleId)).orderBy(desc(crossingEvents.createdAt)).limit(1);
-  return e ?? null;
-}
-
-export const intervalOf = (r: { ci95LoVPerNm: number | null; ci95HiVPerNm: number | null }): [number, number] | null =>
-  r.ci95LoVPerNm != null && r.ci95HiVPerNm != null ? [r.ci95LoVPerNm, r.ci95HiVPerNm] : null;
+import { recipientsOf } from "./recipientsOf";
+import { intervalOf } from "./shared";
 
 /**
  * Stores one event about a crossing, inside the caller's transaction (which holds lockSample):

@@ -28,10 +28,3 @@ export async function watchSample({ ctx, input }: { ctx: Ctx; input: unknown }):
   }
   return { sampleId: sample.id, watching: data.watching };
 }
-
-/** Whether the actor watches a sample they can see. */
-export async function watchState({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }): Promise<{ sampleId: string; watching: boolean }> {
-  const sample = await getSample({ ctx, input: { id: input.sampleId } });
-  const [row] = await ctx.db.select({ id: subscriptions.id }).from(subscriptions).where(and(eq(subscriptions.sampleId, sample.id), eq(subscriptions.userId, ctx.actor.userId)));
-  return { sampleId: sample.id, watching: Boolean(row) };
-}

@@ -5,8 +5,9 @@ import type { DbCtx } from "@/lib/base/context";
 import { analysisRuns, gapPicks, measurementSessions, spectra, tips } from "@/db/schema";
 import { pickGap, repeatGroups as repeatGroupsOf, type QualityFlag } from "@/lib/spectra";
 import { fieldFor, metaOfRow, pickColumns, repeatFlags, type RepeatCandidate } from "./analyzeSpectrum";
-import { refitSample, type RefitResult } from "./refitSample";
-import { loadSampleAnalysis } from "./sampleModel";
+import { refitSample } from "./refitSample";
+import type { RefitResult } from "./shared";
+import { loadSampleAnalysis } from "./loadSampleAnalysis";
 
 const CHUNK = 250;
 

@@ -1,53 +1,13 @@
 import "server-only";
-import { and, eq, inArray, isNotNull, or, sql, type SQL } from "drizzle-orm";
-import type { DbCtx, SystemCtx } from "@/lib/base/context";
+import { and, eq, isNotNull, sql } from "drizzle-orm";
+import type { DbCtx } from "@/lib/base/context";
 import type { DbOrTx } from "@/db/client";
-import { analysisRuns, crossings, gapPicks, spectra, type Crossing, type FlaggedInFit } from "@/db/schema";
+import { crossings, gapPicks, spectra, type Crossing } from "@/db/schema";
 import { fitSweep, type CrossingFit } from "@/lib/spectra";
 import { afterRefit } from "../alerts/afterRefit";
-import { currentCrossing } from "../alerts/recordEvent";
-import { loadSampleAnalysis } from "./sampleModel";
-
-export interface RefitResult {
-  previous: Crossing | null;
-  current: Crossing;
-  fit: CrossingFit;
-}
-
-
-/**
- * Refits a sample's gap versus field over its included spectra and stores the result as its
- * current crossing, then decides the crossing alerts for it (lib/services/alerts/afterRefit.ts).
- * Spectra whose automatic pick carries a quality flag enter unless the lab's setting says
- * `exclude` (`flaggedOutOfFit`); corrected picks always enter, an analyst has looked at them.
- */
-export async function refitSample({ ctx, input }: { ctx: DbCtx; input: { sampleId: string } }): Promise<RefitResult> {
-  const { sampleId } = input;
-  const result = await ctx.db.transaction(async (tx) => {
-    // One refit of a sample at a time (across every process): each reads all that was committed
-    // before it took the lock, so the newest crossing row always covers the newest data.
-    await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`refit:${sampleId}`}, 0))`);
-    return fitAndStore(tx, sampleId);
-  });
-  // Every refit ends here, so no caller can skip the crossing alerts (found, moved): see afterRefit.
-  await afterRefit({ ctx, input: { sampleId } });
-  return result;
-}
-
-/**
- * A queued refit (refit-sample job) with its progress run: running, then done with the sample's
- * spectrum count. A re-analysis that took the run over meanwhile (it covers every open run of
- * the sample, and ends in a refit itself) has marked it done already; that is left as it is.
- */
-export async function runRefit({ ctx, input: job }: { ctx: SystemCtx; input: { sampleId: string; runId: string } }): Promise<RefitResult> {
-  const { db } = ctx;
-  const open = and(eq(analysisRuns.id, job.runId), inArray(analysisRuns.status, ["queued", "running"]));
-  const [{ n }] = await db.select({ n: sql<number>`count(*)::int` }).from(spectra).where(eq(spectra.sampleId, job.sampleId));
-  await db.update(analysisRuns).set({ status: "running", total: n, done: 0, updatedAt: new Date() }).where(open);
-  const result = await refitSample({ ctx, input: { sampleId: job.sampleId } });
-  await db.update(analysisRuns).set({ status: "done", done: n, updatedAt: new Date() }).where(open);
-  return result;
-}
+import { currentCrossing } from "../alerts/currentCrossing";
+import { loadSampleAnalysis } from "./loadSampleAnalysis";
+import { inFitByFlags, type RefitResult } from "./shared";
 
 async function fitAndStore(db: DbOrTx, sampleId: string): Promise<RefitResult> {
   const analysis = await loadSampleAnalysis({ ctx: { db }, input: { sampleId } });
@@ -102,16 +62,26 @@ async function fitAndStore(db: DbOrTx, sampleId: string): Promise<RefitResult> {
   return { previous: previous ?? null, current, fit };
 }
 
-/** The picks a lab's flagged-spectra setting lets into the fit: all, or the unflagged and the corrected. */
-export function inFitByFlags(setting: FlaggedInFit): SQL | undefined {
-  return setting === "exclude" ? or(eq(gapPicks.source, "corrected"), sql`jsonb_array_length(${gapPicks.flags}) = 0`) : undefined;
+/**
+ * Refits a sample's gap versus field over its included spectra and stores the result as its
+ * current crossing, then decides the crossing alerts for it (lib/services/alerts/afterRefit.ts).
+ * Spectra whose automatic pick carries a quality flag enter unless the lab's setting says
+ * `exclude` (`flaggedOutOfFit`); corrected picks always enter, an analyst has looked at them.
+ */
+export async function refitSample({ ctx, input }: { ctx: DbCtx; input: { sampleId: string } }): Promise<RefitResult> {
+  const { sampleId } = input;
+  const result = await ctx.db.transaction(async (tx) => {
+    // One refit of a sample at a time (across every process): each reads all that was committed
+    // before it took the lock, so the newest crossing row always covers the newest data.
+    await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`refit:${sampleId}`}, 0))`);
+    return fitAndStore(tx, sampleId);
+  });
+  // Every refit ends here, so no caller can skip the crossing alerts (found, moved): see afterRefit.
+  await afterRefit({ ctx, input: { sampleId } });
+  return result;
 }
 
-/** Whether a pick is left out of the fit by the lab's flagged-spectra setting alone (not excluded by hand). */
-export function flaggedOutOfFit(setting: FlaggedInFit, p: { source: "auto" | "corrected"; excluded: boolean; flags: readonly unknown[] }): boolean {
-  return setting === "exclude" && p.source === "auto" && !p.excluded && p.flags.length > 0;
-}
-
+/** A new fit keeps a confirmation while its field stays inside the confirmed crossing's 95% interval. */
 function sameCrossing(prev: Crossing, fit: CrossingFit): boolean {
   if (prev.state !== fit.state || fit.field_V_per_nm == null || prev.ci95LoVPerNm == null || prev.ci95HiVPerNm == null) return false;
   return fit.field_V_per_nm >= prev.ci95LoVPerNm && fit.field_V_per_nm <= prev.ci95HiVPerNm;

@@ -3,7 +3,7 @@ import { and, eq, inArray } from "drizzle-orm";
 import { analysisRuns } from "@/db/schema";
 import type { SystemCtx } from "@/lib/base/context";
 import { reanalyzeSample } from "./reanalyzeSample";
-import type { RefitResult } from "./refitSample";
+import type { RefitResult } from "./shared";
 
 /**
  * The reanalyze-sample job: one re-analysis covers every run of the sample still queued or running

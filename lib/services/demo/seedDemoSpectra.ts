@@ -5,9 +5,9 @@ import type { SystemCtx } from "@/lib/base/context";
 import { labs, measurementSessions, memberships, samples, tips, users } from "@/db/schema";
 import { actorForUser } from "@/lib/auth/actor";
 import { columnsToCsv, makeSpectrum, makeSweep, spectrumToCsv } from "@/lib/spectra";
-import { createSession } from "../sessions/sessions";
+import { createSession } from "../sessions/createSession";
 import { createUploads } from "../uploads/createUploads";
-import { completeUpload } from "../uploads/uploadStatus";
+import { completeUpload } from "../uploads/completeUpload";
 
 /**
  * Spectra for the invented demo lab, from the project's physical model (lib/spectra/synthetic.ts):

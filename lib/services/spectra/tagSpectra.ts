@@ -1,11 +1,11 @@
 import "server-only";
 import { and, eq, inArray } from "drizzle-orm";
-import { measurementSessions, spectra, tips } from "@/db/schema";
+import { spectra, tips } from "@/db/schema";
 import { assertCan } from "@/lib/base/permissions";
 import { tagSpectraInput } from "@/lib/schemas/uploads";
 import { fieldFor } from "../analysis/analyzeSpectrum";
 import { refitSample } from "../analysis/refitSample";
-import { loadSampleAnalysis } from "../analysis/sampleModel";
+import { loadSampleAnalysis } from "../analysis/loadSampleAnalysis";
 import { recordAudit } from "../audit";
 import type { Ctx } from "@/lib/base/context";
 import { notFound } from "@/lib/base/errors";

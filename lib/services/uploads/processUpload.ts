@@ -1,21 +1,16 @@
 import "server-only";
 import { and, eq, inArray, ne, sql } from "drizzle-orm";
-import type { DbOrTx } from "@/db/client";
 import type { SystemCtx } from "@/lib/base/context";
 import { gapPicks, measurementSessions, spectra, tips, uploads } from "@/db/schema";
 import { sha256Hex } from "@/lib/auth/secrets";
 import { importSpectra, pickGap, type ParsedSpectrum } from "@/lib/spectra";
 import { getObjectBytes } from "@/lib/storage/s3";
 import { fieldFor, pickColumns, repeatFlags } from "../analysis/analyzeSpectrum";
-import { refitSample, type RefitResult } from "../analysis/refitSample";
-import { loadSampleAnalysis } from "../analysis/sampleModel";
+import { refitSample } from "../analysis/refitSample";
+import { loadSampleAnalysis } from "../analysis/loadSampleAnalysis";
+import { ProcessOutcome, fail } from "./shared";
 
 const INSERT_BATCH = 400;
-
-export type ProcessOutcome =
-  | { status: "done"; spectra: number; refit: RefitResult }
-  | { status: "failed"; message: string }
-  | { status: "skipped"; reason: string };
 
 /**
  * The worker's job for one raw file: read it from storage, parse it with the analysis core, store
@@ -129,27 +124,4 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
   if (!stored) return { status: "skipped", reason: "already done by another run" };
   const refit = await refitSample({ ctx, input: { sampleId: session.sampleId } });
   return { status: "done", spectra: prepared.length, refit };
-}
-
-/** Marks the file failed with its message; `retryable` when processing it again can help (not a file that cannot be read). */
-async function fail(db: DbOrTx, id: string, message: string, retryable = false): Promise<ProcessOutcome> {
-  const [u] = await db
-    .update(uploads)
-    .set({ status: "failed", message, retryable, updatedAt: new Date() })
-    .where(and(eq(uploads.id, id), ne(uploads.status, "done")))
-    .returning({ sessionId: uploads.sessionId });
-  if (!u) return { status: "skipped", reason: "already done by another run" };
-  // The sample's alerts wait while any of its files is in flight; this one no longer is, so refit
-  // (nothing changed in the data) to let the decision be made if it was the last.
-  const [session] = await db.select({ sampleId: measurementSessions.sampleId }).from(measurementSessions).where(eq(measurementSessions.id, u.sessionId));
-  if (session) await refitSample({ ctx: { db }, input: { sampleId: session.sampleId } });
-  return { status: "failed", message };
-}
-
-/** After the queue's last retry: the file is marked failed with the reason, and its bytes are kept. */
-export async function markUploadFailed({ ctx, input }: { ctx: SystemCtx; input: { uploadId: string; error: unknown } }): Promise<void> {
-  const { db } = ctx;
-  const { uploadId: id, error } = input;
-  const reason = error instanceof Error ? error.message : String(error);
-  await fail(db, id, `Processing failed after several attempts (${reason}). The raw file is kept; retry once the problem is fixed.`, true);
 }

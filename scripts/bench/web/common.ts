@@ -10,7 +10,7 @@ import path from "node:path";
 import bcrypt from "bcryptjs";
 import { db } from "@/db/client";
 import { labs, memberships, users } from "@/db/schema";
-import { createTokenForLab } from "@/lib/services/tokens/tokens";
+import { createTokenForLab } from "@/lib/services/tokens/createTokenForLab";
 import { makeSweep, type SyntheticSweepPoint } from "@/lib/spectra";
 
 export const line = (s = "") => process.stdout.write(s + "\n");

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { ROLE_LABEL, ROLE_SUMMARY } from "@/lib/base/permissions";
-import { describeInvitation } from "@/lib/services/members/members";
+import { describeInvitation } from "@/lib/services/members/describeInvitation";
 import { systemContext } from "@/lib/services/system";
 import { AcceptInviteForm } from "./accept-form";
 

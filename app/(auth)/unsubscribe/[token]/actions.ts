@@ -1,7 +1,7 @@
 "use server";
 
 import type { ActionState } from "@/lib/actions/types";
-import { unsubscribeByToken } from "@/lib/services/alerts/unsubscribe";
+import { unsubscribeByToken } from "@/lib/services/alerts/unsubscribeByToken";
 import { systemContext } from "@/lib/services/system";
 
 /** The one click of the unsubscribe page. The signed token is the only credential it needs. */

@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { describeUnsubscribe } from "@/lib/services/alerts/unsubscribe";
+import { describeUnsubscribe } from "@/lib/services/alerts/describeUnsubscribe";
 import { systemContext } from "@/lib/services/system";
 import { ConfirmUnsubscribe } from "./confirm";
 

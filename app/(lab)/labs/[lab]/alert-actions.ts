@@ -4,7 +4,7 @@ import { revalidatePath } from "next/cache";
 import type { ActionState } from "@/lib/actions/types";
 import { runAction } from "@/lib/actions/validated";
 import { confirmCrossing } from "@/lib/services/alerts/confirmCrossing";
-import { markNotificationsRead } from "@/lib/services/alerts/notifications";
+import { markNotificationsRead } from "@/lib/services/alerts/markNotificationsRead";
 import { watchSample } from "@/lib/services/alerts/watchSample";
 
 /*

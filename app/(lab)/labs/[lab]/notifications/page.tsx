@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { Card, EmptyState, PageHeader } from "@/components/ui/card";
 import { pageCtx } from "@/lib/actions/validated";
-import { listNotifications } from "@/lib/services/alerts/notifications";
+import { listNotifications } from "@/lib/services/alerts/listNotifications";
 import { MarkAllRead, MarkRead } from "./mark-read";
 
 export const metadata: Metadata = { title: "Alerts" };

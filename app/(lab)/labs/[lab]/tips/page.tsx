@@ -3,7 +3,7 @@ import { ButtonLink } from "@/components/ui/button";
 import { PageHeader } from "@/components/ui/card";
 import { pageCtx } from "@/lib/actions/validated";
 import { can } from "@/lib/base/permissions";
-import { listTips } from "@/lib/services/tips/tips";
+import { listTips } from "@/lib/services/tips/listTips";
 import { TipsTable } from "./tips-table";
 
 export const metadata: Metadata = { title: "Tips" };

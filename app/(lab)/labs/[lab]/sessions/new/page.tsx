@@ -6,7 +6,7 @@ import { SafetyNote } from "@/components/ui/safety";
 import { pageCtx } from "@/lib/actions/validated";
 import { can } from "@/lib/base/permissions";
 import { listSamples } from "@/lib/services/samples/listSamples";
-import { listTips } from "@/lib/services/tips/tips";
+import { listTips } from "@/lib/services/tips/listTips";
 import { createSessionAction } from "../../actions";
 
 export default async function NewSessionPage({ params, searchParams }: { params: Promise<{ lab: string }>; searchParams: Promise<{ sample?: string }> }) {

@@ -3,7 +3,7 @@ import { SpectrumReview } from "@/components/review/spectrum-review";
 import { PageHeader } from "@/components/ui/card";
 import { orNotFound, pageCtx } from "@/lib/actions/validated";
 import { can } from "@/lib/base/permissions";
-import { getSpectrum } from "@/lib/services/spectra/readSpectra";
+import { getSpectrum } from "@/lib/services/spectra/getSpectrum";
 
 export const metadata: Metadata = { title: "Review" };
 

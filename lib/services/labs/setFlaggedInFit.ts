@@ -2,34 +2,11 @@ import "server-only";
 import { and, eq, sql } from "drizzle-orm";
 import { gapPicks, labs, spectra } from "@/db/schema";
 import { assertCan } from "@/lib/base/permissions";
-import { flaggedInFitInput, labDefaultsInput } from "@/lib/schemas/lab";
-import { queueRefit } from "../analysis/versions";
+import { flaggedInFitInput } from "@/lib/schemas/lab";
+import { queueRefit } from "../analysis/queueRefit";
 import { recordAudit } from "../audit";
 import type { Ctx } from "@/lib/base/context";
 import { parseInput } from "../parse";
-
-export async function getLab({ ctx }: { ctx: Ctx }) {
-  const [lab] = await ctx.db.select().from(labs).where(eq(labs.id, ctx.actor.labId));
-  return lab;
-}
-
-export async function updateLabDefaults({ ctx, input }: { ctx: Ctx; input: unknown }) {
-  assertCan(ctx.actor, "lab:configure");
-  const d = parseInput(labDefaultsInput, input);
-  const [row] = await ctx.db
-    .update(labs)
-    .set({
-      name: d.name,
-      defaultTipWorkFunctionEv: d.defaultTipWorkFunction_eV,
-      defaultTipWorkFunctionSigmaEv: d.defaultTipWorkFunctionSigma_eV,
-      defaultSampleWorkFunctionEv: d.defaultSampleWorkFunction_eV,
-      defaultSampleWorkFunctionSigmaEv: d.defaultSampleWorkFunctionSigma_eV,
-    })
-    .where(eq(labs.id, ctx.actor.labId))
-    .returning();
-  await recordAudit(ctx, "lab.defaults", { type: "lab", id: row.id }, d);
-  return row;
-}
 
 /**
  * Whether spectra whose automatic pick carries a quality flag enter the critical-field fit

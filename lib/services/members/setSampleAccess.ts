@@ -6,15 +6,6 @@ import { recordAudit } from "../audit";
 import type { Ctx } from "@/lib/base/context";
 import { invalid, notFound } from "@/lib/base/errors";
 
-/** Which samples each collaborator is limited to (none listed: they see every sample of the lab). */
-export async function listSampleAccess({ ctx }: { ctx: Ctx }) {
-  assertCan(ctx.actor, "members:manage");
-  const rows = await ctx.db.select({ userId: sampleAccess.userId, sampleId: sampleAccess.sampleId }).from(sampleAccess).where(eq(sampleAccess.labId, ctx.actor.labId));
-  const out: Record<string, string[]> = {};
-  for (const r of rows) (out[r.userId] ??= []).push(r.sampleId);
-  return out;
-}
-
 /**
  * An owner limits a collaborator to chosen samples (an empty list gives back access to all).
  * Only collaborators can be limited: the other roles work on the whole lab.

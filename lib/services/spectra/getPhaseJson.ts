@@ -3,7 +3,7 @@ import { createHash } from "node:crypto";
 import { sql } from "drizzle-orm";
 import type { Ctx } from "@/lib/base/context";
 import { getSample } from "../samples/getSample";
-import { getPhase } from "./readSpectra";
+import { getPhase } from "./getPhase";
 
 /**
  * The phase endpoint's JSON, kept per sample in this process while nothing it shows has changed.
