@@ -2,7 +2,7 @@
 
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { useState, useTransition } from "react";
-import { confirmCrossingAction } from "@/app/(lab)/labs/[lab]/alert-actions";
+import { confirmCrossingAction } from "@/lib/actions/alerts";
 import { usePhaseOf } from "@/components/review/sample-queries";
 import type { PhaseData } from "@/components/review/phase-figure";
 import { queryKeys } from "@/lib/query-keys";

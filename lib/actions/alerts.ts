@@ -1,8 +1,8 @@
 "use server";
 
 import { revalidatePath } from "next/cache";
-import type { ActionState } from "@/lib/actions/types";
-import { runAction } from "@/lib/actions/validated";
+import type { ActionState } from "./types";
+import { runAction } from "./validated";
 import { confirmCrossing } from "@/lib/services/alerts/confirmCrossing";
 import { markNotificationsRead } from "@/lib/services/alerts/markNotificationsRead";
 import { watchSample } from "@/lib/services/alerts/watchSample";
