@@ -3,8 +3,8 @@ import { and, asc, eq, gt, inArray, sql } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import type { DbCtx } from "@/lib/base/context";
 import { analysisRuns, gapPicks, measurementSessions, spectra, tips } from "@/db/schema";
-import { pickGap, repeatGroups as repeatGroupsOf, type QualityFlag } from "@/lib/spectra";
-import { fieldFor, metaOfRow, pickColumns, repeatFlags, type RepeatCandidate } from "./analyzeSpectrum";
+import { repeatGroups as repeatGroupsOf, type QualityFlag } from "@/lib/spectra";
+import { analyzeSpectrum, metaOfRow, pickColumns, repeatFlags, type RepeatCandidate } from "./analyzeSpectrum";
 import { refitSample } from "./refitSample";
 import type { RefitResult } from "./shared";
 import { loadSampleAnalysis } from "./loadSampleAnalysis";
@@ -47,11 +47,10 @@ export async function reanalyzeSample({ ctx, input }: { ctx: DbCtx; input: { sam
     if (latest.settingsVersion.id !== analysis.settingsVersion.id || latest.fieldVersion.id !== analysis.fieldVersion.id) return "superseded";
     await db.transaction(async (tx) => {
       for (const { s, pickId, source } of rows) {
-        const meta = metaOfRow(s, sessionT.get(s.sessionId));
-        const field = fieldFor(analysis.modelFor(s.tipId ? (tipById.get(s.tipId) ?? null) : null), meta);
+        const model = analysis.modelFor(s.tipId ? (tipById.get(s.tipId) ?? null) : null);
+        const { pick, field } = analyzeSpectrum({ bias_V: s.biasV, didv: s.didv, meta: metaOfRow(s, sessionT.get(s.sessionId)) }, { settings: analysis.settings, model });
         const { warning: _w, ...fieldCols } = field;
         await tx.update(spectra).set({ ...fieldCols, fieldModelVersionId: analysis.fieldVersion.id, updatedAt: new Date() }).where(eq(spectra.id, s.id));
-        const pick = pickGap({ bias_V: s.biasV, didv: s.didv, meta }, analysis.settings);
         const cols = pickColumns(pick, analysis.settingsVersion.id);
         if (source === "auto") {
           await tx.update(gapPicks).set({ ...cols, version: sql`${gapPicks.version} + 1`, updatedAt: new Date() }).where(eq(gapPicks.id, pickId));

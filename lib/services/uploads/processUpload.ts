@@ -3,9 +3,9 @@ import { and, eq, inArray, ne, sql } from "drizzle-orm";
 import type { SystemCtx } from "@/lib/base/context";
 import { gapPicks, measurementSessions, spectra, tips, uploads } from "@/db/schema";
 import { sha256Hex } from "@/lib/auth/secrets";
-import { importSpectra, pickGap, type ParsedSpectrum } from "@/lib/spectra";
+import { importSpectra, type ParsedSpectrum } from "@/lib/spectra";
 import { getObjectBytes } from "@/lib/storage/s3";
-import { fieldFor, pickColumns, repeatFlags } from "../analysis/analyzeSpectrum";
+import { analyzeSpectrum, pickColumns, repeatFlags } from "../analysis/analyzeSpectrum";
 import { refitSample } from "../analysis/refitSample";
 import { loadSampleAnalysis } from "../analysis/loadSampleAnalysis";
 import { ProcessOutcome, fail } from "./shared";
@@ -59,9 +59,7 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
   const warnings = [...files.flatMap((f) => f.warnings.map((w) => (files.length > 1 ? `${f.file}: ${w}` : w))), ...bad.map((f) => `${f.file} skipped: ${f.message}`)];
   const all: ParsedSpectrum[] = good.flatMap((f) => f.spectra);
   const prepared = all.map((s) => {
-    const meta = { ...s.meta, temperature_K: s.meta.temperature_K ?? session.temperatureK ?? undefined };
-    const pick = pickGap({ bias_V: s.bias_V, didv: s.didv, meta }, analysis.settings);
-    const field = fieldFor(model, meta);
+    const { meta, pick, field } = analyzeSpectrum(s, { settings: analysis.settings, model, sessionTemperatureK: session.temperatureK });
     const spectrumWarnings = [...s.warnings, ...pick.warnings, ...(field.warning ? [field.warning] : [])];
     return { s, meta, pick, field, spectrumWarnings };
   });
