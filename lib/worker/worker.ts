@@ -4,6 +4,7 @@
  * run more on any machine with the same environment (`node --import tsx lib/worker/worker.ts`) and
  * they share the queue. SIGINT/SIGTERM finish the current jobs and stop.
  */
+import pLimit from "p-limit";
 import type PgBoss from "pg-boss";
 import type { Faults } from "@/lib/base/context";
 import { boss, QUEUES, stopBoss, type NotifyEventJob, type ProcessUploadJob, type ReanalyzeSampleJob, type RefitSampleJob } from "@/lib/jobs/queue";
@@ -49,12 +50,8 @@ export async function startWorker(): Promise<() => Promise<void>> {
   // and works it `concurrency` files at a time.
   const batchSize = Math.max(concurrency, Number(process.env.WORKER_BATCH ?? 4 * concurrency));
   await b.work<ProcessUploadJob>(QUEUES.processUpload, { includeMetadata: true, batchSize, pollingIntervalSeconds: 0.5 }, async (jobs) => {
-    let next = 0;
-    await Promise.all(
-      Array.from({ length: Math.min(concurrency, jobs.length) }, async () => {
-        while (next < jobs.length) await handleUpload(jobs[next++]);
-      }),
-    );
+    const limit = pLimit(concurrency);
+    await Promise.all(jobs.map((job) => limit(() => handleUpload(job))));
   });
   await b.work<ReanalyzeSampleJob>(QUEUES.reanalyzeSample, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
     const started = Date.now();
