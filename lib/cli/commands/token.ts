@@ -15,16 +15,6 @@ const usage = `usage: bandcross token create --lab SLUG [--email EMAIL] [--name 
   --name NAME     a label shown in lab settings (default "command line")
 Needs DATABASE_URL, or the local stack's .data/env.local (written by npm start).`;
 
-/** Reads KEY=VALUE lines (optionally quoted) into process.env, without overriding what is set. */
-export function loadEnvFile(file: string): boolean {
-  if (!fs.existsSync(file)) return false;
-  for (const line of fs.readFileSync(file, "utf8").split(/\r?\n/)) {
-    const m = /^([A-Z][A-Z0-9_]*)=(.*)$/.exec(line.trim());
-    if (!m || process.env[m[1]] !== undefined) continue;
-    process.env[m[1]] = m[2].replace(/^'(.*)'$/, "$1").replace(/^"(.*)"$/, "$1");
-  }
-  return true;
-}
 
 export const token: Command = {
   name: "token",
@@ -44,7 +34,9 @@ export const token: Command = {
     }
     const lab = values.lab as string | undefined;
     if (!lab) throw new CliUsageError("--lab is required");
-    if (!process.env.DATABASE_URL) loadEnvFile(path.join(process.cwd(), ".data", "env.local"));
+    const local = path.join(process.cwd(), ".data", "env.local");
+    // Node's own reader (KEY=value, quoted or not); what the environment sets already is kept.
+    if (!process.env.DATABASE_URL && fs.existsSync(local)) process.loadEnvFile(local);
     if (!process.env.DATABASE_URL) {
       io.err("bandcross token: DATABASE_URL is not set and .data/env.local was not found (start the stack with npm start first)\n");
       return 1;
