@@ -1,5 +1,6 @@
 import "server-only";
 import { and, eq } from "drizzle-orm";
+import { addDays } from "date-fns";
 import { invitations, memberships, users } from "@/db/schema";
 import { assertCan, ROLE_LABEL } from "@/lib/base/permissions";
 import { newSecret, sha256Hex } from "@/lib/auth/secrets";
@@ -33,7 +34,7 @@ export async function inviteMember({ ctx, input }: { ctx: Ctx; input: unknown })
       role: data.role,
       tokenHash: sha256Hex(secret),
       invitedBy: ctx.actor.userId,
-      expiresAt: new Date(Date.now() + INVITE_DAYS * 86_400_000),
+      expiresAt: addDays(new Date(), INVITE_DAYS),
     })
     .returning();
   const link = `${env().APP_URL}/invite/${secret}`;

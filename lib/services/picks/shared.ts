@@ -1,4 +1,5 @@
 import "server-only";
+import { formatUtc } from "@/lib/format";
 import { and, eq } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
 import { gapPicks, spectra, users, type GapPickRow } from "@/db/schema";
@@ -40,7 +41,7 @@ export async function lockPick(tx: DbOrTx, ctx: Ctx, spectrumId: string, version
   if (row.p.version !== version) {
     const [who] = row.p.updatedBy ? await tx.select({ name: users.name }).from(users).where(eq(users.id, row.p.updatedBy)) : [];
     const by = who?.name ?? "the automatic re-analysis";
-    throw conflict(`This pick was changed by ${by} at ${row.p.updatedAt.toISOString().replace("T", " ").slice(0, 16)} UTC (now version ${row.p.version}; you edited version ${version}). Your edit is kept: look at the new pick and save again.`, {
+    throw conflict(`This pick was changed by ${by} at ${formatUtc(row.p.updatedAt)} (now version ${row.p.version}; you edited version ${version}). Your edit is kept: look at the new pick and save again.`, {
       currentVersion: row.p.version,
       updatedBy: by,
       updatedAt: row.p.updatedAt.toISOString(),

@@ -1,3 +1,4 @@
+import { formatISO } from "date-fns";
 import { notFound } from "next/navigation";
 import { EntityForm } from "@/components/forms/entity-form";
 import { sessionFields } from "@/components/forms/specs";
@@ -24,7 +25,7 @@ export default async function NewSessionPage({ params, searchParams }: { params:
           schema="session"
           submitLabel="Create session"
           testId="session-form"
-          fields={sessionFields({ samples, tips }, { sampleId: sample ?? "", date: new Date().toISOString().slice(0, 10) })}
+          fields={sessionFields({ samples, tips }, { sampleId: sample ?? "", date: formatISO(new Date(), { representation: "date" }) })}
         />
       </Card>
       <div className="mt-5">
