@@ -1,11 +1,10 @@
 import "server-only";
 import { eq } from "drizzle-orm";
 import type { SystemCtx } from "@/lib/base/context";
-import { crossingEvents, crossings, fieldModelVersions, labs, notifications, samples, users } from "@/db/schema";
+import { crossingEvents, crossings, fieldModelVersions, labs, notifications, samples, users, type StoredFieldModel } from "@/db/schema";
 import { env } from "@/lib/env";
 import { sendMail } from "@/lib/mail/client";
 import { crossingMail, type CrossingMailInput } from "@/lib/mail/templates/crossing";
-import type { StoredFieldModel } from "../analysis/loadSampleAnalysis";
 import { recipientsOf } from "./recipientsOf";
 import { intervalOf } from "./shared";
 import { unsubscribeUrl } from "./unsubscribeLink";

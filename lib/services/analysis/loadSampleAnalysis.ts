@@ -1,19 +1,10 @@
 import "server-only";
 import { desc, eq } from "drizzle-orm";
 import type { DbCtx } from "@/lib/base/context";
-import { extractionSettingsVersions, fieldModelVersions, labs, samples, type Tip } from "@/db/schema";
+import { extractionSettingsVersions, fieldModelVersions, labs, samples, type StoredFieldModel, type Tip } from "@/db/schema";
 import { resolveExtractionSettings, resolveFieldModel, type ExtractionSettings, type FieldModel } from "@/lib/spectra";
 import { notFound } from "@/lib/base/errors";
 import { initialVersionRows } from "../samples/initialVersions";
-
-/** The stored part of a field model version: the work functions come from the sample and each spectrum's tip. */
-export interface StoredFieldModel {
-  contactDistance_nm: number;
-  contactDistanceSigma_nm: number;
-  /** Measured apparent barrier height, eV; null = mean of the two work functions. */
-  barrierHeight_eV: number | null;
-  screening: number;
-}
 
 export interface SampleAnalysis {
   sample: typeof samples.$inferSelect;

@@ -7,7 +7,7 @@ import { recordAudit } from "../audit";
 import type { Ctx } from "@/lib/base/context";
 import { invalid } from "@/lib/base/errors";
 import { getSample } from "../samples/getSample";
-import { queueReanalysis } from "./queueReanalysis";
+import { queueReanalysis } from "../runs/queueReanalysis";
 
 /** Saves a new version of a sample's extraction settings and re-runs its automatic picks in the background. */
 export async function saveExtractionSettings({ ctx, input }: { ctx: Ctx; input: { sampleId: string; settings: unknown; note?: string } }) {

@@ -7,7 +7,7 @@ import { recordAudit } from "../audit";
 import type { Ctx } from "@/lib/base/context";
 import { parseInput } from "../parse";
 import { getSample } from "../samples/getSample";
-import { queueReanalysis } from "./queueReanalysis";
+import { queueReanalysis } from "../runs/queueReanalysis";
 
 /** Saves a new field-model version (contact distance, decay-constant source, screening) and re-estimates every field. */
 export async function saveFieldModel({ ctx, input }: { ctx: Ctx; input: { sampleId: string; model: unknown } }) {

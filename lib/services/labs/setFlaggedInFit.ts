@@ -3,7 +3,7 @@ import { and, eq, sql } from "drizzle-orm";
 import { gapPicks, labs, spectra } from "@/db/schema";
 import { assertCan } from "@/lib/base/permissions";
 import { flaggedInFitInput } from "@/lib/schemas/lab";
-import { queueRefit } from "../analysis/queueRefit";
+import { queueRefit } from "../runs/queueRefit";
 import { recordAudit } from "../audit";
 import type { Ctx } from "@/lib/base/context";
 import { parseInput } from "../parse";

@@ -6,7 +6,7 @@ import { recordAudit } from "../audit";
 import type { Ctx } from "@/lib/base/context";
 import { conflict, isUniqueViolation } from "@/lib/base/errors";
 import { parseInput } from "../parse";
-import { subscribeLabDefaults } from "../alerts/subscribeLabDefaults";
+import { subscribeLabDefaults } from "./subscribeLabDefaults";
 import { ensureSampleVersions } from "./ensureSampleVersions";
 
 export async function createSample({ ctx, input }: { ctx: Ctx; input: unknown }) {

@@ -7,7 +7,7 @@ import { recordAudit } from "../audit";
 import type { Ctx } from "@/lib/base/context";
 import { conflict, isUniqueViolation, notFound } from "@/lib/base/errors";
 import { parseInput } from "../parse";
-import { queueReanalysis } from "../analysis/queueReanalysis";
+import { queueReanalysis } from "../runs/queueReanalysis";
 import { isUuid } from "./getSample";
 
 export async function updateSample({ ctx, input }: { ctx: Ctx; input: { id: string; patch: unknown } }) {

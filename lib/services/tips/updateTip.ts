@@ -8,7 +8,7 @@ import type { Ctx } from "@/lib/base/context";
 import { conflict, isUniqueViolation, notFound } from "@/lib/base/errors";
 import { parseInput } from "../parse";
 import { isUuid } from "../samples/getSample";
-import { queueReanalysis } from "../analysis/queueReanalysis";
+import { queueReanalysis } from "../runs/queueReanalysis";
 import { values } from "./shared";
 
 export async function updateTip({ ctx, input }: { ctx: Ctx; input: { id: string; patch: unknown } }) {
