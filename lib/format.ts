@@ -1,4 +1,14 @@
 /** Display helpers shared by pages and e-mails. Numbers keep their units in the text. */
+import { UTCDate } from "@date-fns/utc";
+import { format } from "date-fns";
+
+/**
+ * A moment to the minute in UTC, "2026-12-04 20:04 UTC": the one way pages, messages and e-mails
+ * write a time (the same text on the server and in every browser, whatever their time zone).
+ */
+export function formatUtc(at: Date | string): string {
+  return `${format(new UTCDate(typeof at === "string" ? at : at.getTime()), "yyyy-MM-dd HH:mm")} UTC`;
+}
 export function formatGap(gapEv: number | null | undefined, closed?: boolean | null): string {
   if (closed) return "closed";
   if (gapEv == null || !Number.isFinite(gapEv)) return "—";

@@ -347,12 +347,12 @@ async function serve(env: Record<string, string | undefined>) {
     echo: !quiet,
     graceMs: 10_000,
   });
-  if (exists("lib/jobs/worker.ts")) {
+  if (exists("lib/worker/worker.ts")) {
     workerSpec = {
       name: "worker",
       cmd: NODE,
       // react-server: the worker imports server-only modules, which refuse to load elsewhere.
-      args: ["--conditions=react-server", ...TSX, "lib/jobs/worker.ts"],
+      args: ["--conditions=react-server", ...TSX, "lib/worker/worker.ts"],
       env: appEnv,
       logFile: path.join(logDir, "worker.log"),
       echo: !quiet,
@@ -360,7 +360,7 @@ async function serve(env: Record<string, string | undefined>) {
     };
     sup.start(workerSpec);
   } else if (!quiet) {
-    say("lib/jobs/worker.ts not found yet — no background worker");
+    say("lib/worker/worker.ts not found yet — no background worker");
   }
   await waitFor("the app", () => httpReady(`http://127.0.0.1:${cfg.ports.app}/`), "app", 90_000);
 }
@@ -405,7 +405,7 @@ async function startMode() {
     env = await bringUpServices();
     const childEnv = { ...process.env, ...env };
     await oneShot("migrate", "scripts/migrate.ts", childEnv);
-    await oneShot("seed", "db/seed.ts", childEnv);
+    await oneShot("seed", "scripts/seed.ts", childEnv);
     const built = await build(childEnv);
     await checkpoint();
     if (!built) return shutdown(1);
@@ -488,7 +488,7 @@ async function testMode() {
   try {
     env = await bringUpServices();
     await oneShot("migrate", "scripts/migrate.ts", { ...process.env, ...env });
-    if (process.env.BANDCROSS_TEST_SEED === "1") await oneShot("seed", "db/seed.ts", { ...process.env, ...env });
+    if (process.env.BANDCROSS_TEST_SEED === "1") await oneShot("seed", "scripts/seed.ts", { ...process.env, ...env });
     steps.push({ name: "setup", ok: true });
   } catch (e) {
     await checkpoint();

@@ -3,12 +3,12 @@
 import { AuthError } from "next-auth";
 import { redirect } from "next/navigation";
 import { z } from "zod";
-import { db } from "@/db/client";
 import { signIn, signOut } from "@/lib/auth";
 import { checkRequestHost, untrustedHostMessage } from "@/lib/auth/here";
 import type { ActionState } from "@/lib/actions/types";
-import { acceptInvitation } from "@/lib/services/members/members";
-import { isServiceError } from "@/lib/services/errors";
+import { acceptInvitation } from "@/lib/services/members/acceptInvitation";
+import { isServiceError } from "@/lib/base/errors";
+import { systemContext } from "@/lib/services/system";
 
 const signInInput = z.object({
   email: z.string().trim().toLowerCase().email("Enter your e-mail address."),
@@ -70,7 +70,7 @@ export async function acceptInviteAction(token: string, _prev: ActionState, form
   const input = { token, name: formData.get("name"), password: formData.get("password") };
   let email: string;
   try {
-    ({ email } = await acceptInvitation({ db: db(), input }));
+    ({ email } = await acceptInvitation({ ctx: systemContext("invitation link"), input }));
   } catch (e) {
     if (isServiceError(e)) return { ok: false, message: e.message, fieldErrors: e.fieldErrors, values: { name: String(formData.get("name") ?? "") } };
     throw e;

@@ -2,7 +2,8 @@
 
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { useState, useTransition } from "react";
-import { confirmCrossingAction } from "@/app/(lab)/labs/[lab]/alert-actions";
+import { formatUtc } from "@/lib/format";
+import { confirmCrossingAction } from "@/lib/actions/alerts";
 import { usePhaseOf } from "@/components/review/sample-queries";
 import type { PhaseData } from "@/components/review/phase-figure";
 import { queryKeys } from "@/lib/query-keys";
@@ -33,7 +34,7 @@ const MARK: Record<Kind, { sign: string; tone: string }> = {
 };
 
 const field = (v: number | null, ci: [number, number] | null, digits = 2) => (v == null ? "—" : `${v.toFixed(digits)} V/nm${ci ? ` [${ci[0].toFixed(digits)}, ${ci[1].toFixed(digits)}]` : ""}`);
-const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
+const when = formatUtc;
 
 type PhaseCrossing = PhaseData["crossing"];
 /** The crossing Confirm acts on, from the phase query the critical-field card and the plot read: null when there is nothing to confirm. */

@@ -2,7 +2,7 @@
 
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { useState, useTransition } from "react";
-import { watchSampleAction } from "@/app/(lab)/labs/[lab]/alert-actions";
+import { watchSampleAction } from "@/lib/actions/alerts";
 import { alertKeys, getJson } from "./query";
 
 /**

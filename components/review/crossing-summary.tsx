@@ -1,7 +1,7 @@
 "use client";
 
 import { CrossingBadge } from "@/components/ui/badge";
-import { deltaBicInWords } from "@/lib/format";
+import { deltaBicInWords, formatUtc } from "@/lib/format";
 import { outOfFit } from "./phase-figure";
 import type { PhaseData } from "./phase-plot";
 import { usePhaseOf } from "./sample-queries";
@@ -73,7 +73,7 @@ export function CrossingSummary({ lab, sampleId, initial }: { lab: string; sampl
           <span className="text-muted">(the line&apos;s BIC minus the V&apos;s: above 0 favours the V, 6 or more strongly)</span>
         </p>
       ) : null}
-      {"n" in c ? <p className="text-xs text-muted">{c.n} spectra in the fit · fitted {"fittedAt" in c && c.fittedAt ? `${c.fittedAt.slice(0, 16).replace("T", " ")} UTC` : ""}</p> : null}
+      {"n" in c ? <p className="text-xs text-muted">{c.n} spectra in the fit · fitted {"fittedAt" in c && c.fittedAt ? formatUtc(c.fittedAt) : ""}</p> : null}
       {"settingsVersion" in c ? (
         <p className="num text-xs text-muted" data-testid="crossing-versions">
           fitted with extraction settings v{c.settingsVersion ?? "?"}, field model v{c.fieldModelVersion ?? "?"}

@@ -1,5 +1,5 @@
 import { axis, baseLayout } from "@/components/plots/plot";
-import type { getGapMap } from "@/lib/services/spectra/gapMap";
+import type { getGapMap } from "@/lib/services/spectra/getGapMap";
 
 export type MapData = Awaited<ReturnType<typeof getGapMap>>;
 type Cell = MapData["cells"][number];

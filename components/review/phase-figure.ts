@@ -1,6 +1,6 @@
 import { COLORS } from "@/components/plots/plot";
 import { paddedRange } from "@/components/plots/ranges";
-import type { getPhase } from "@/lib/services/spectra/readSpectra";
+import type { getPhase } from "@/lib/services/spectra/getPhase";
 import { QUALITY_FLAG_LABELS } from "@/lib/spectra/edges/flags";
 
 /**

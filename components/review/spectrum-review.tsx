@@ -10,9 +10,9 @@ import { Notice } from "@/components/ui/card";
 import { FlagList } from "./quality-flags";
 import { EdgeBox } from "./edge-box";
 import { api, ApiError } from "@/lib/api-client";
-import { fileStem, formatGap, pickMethodInWords } from "@/lib/format";
+import { fileStem, formatGap, pickMethodInWords, formatUtc } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
-import type { getSpectrum } from "@/lib/services/spectra/readSpectra";
+import type { getSpectrum } from "@/lib/services/spectra/getSpectrum";
 
 export type SpectrumData = Awaited<ReturnType<typeof getSpectrum>>;
 type History = { id: string; action: string; reason: string | null; at: string; actorName: string | null; before: Record<string, unknown>; after: Record<string, unknown> }[];
@@ -453,7 +453,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
                 {history.map((h) => (
                   <li key={h.id}>
                     <span className="font-medium">{h.actorName ?? "someone"}</span> · {h.action === "accept" ? `accepted pick v${String(h.after.version)}` : h.action} ·{" "}
-                    <span className="num text-muted">{h.at.slice(0, 16).replace("T", " ")}</span>
+                    <span className="num text-muted">{formatUtc(h.at)}</span>
                     {h.action === "correct" ? (
                       <span className="num block text-ink-soft">
                         {mv(h.before.vbEdgeV as number)}–{mv(h.before.cbEdgeV as number)} → {mv(h.after.vbEdgeV as number)}–{mv(h.after.cbEdgeV as number)}

@@ -2,6 +2,7 @@
 
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { useCallback, useRef, useState, type DragEvent } from "react";
+import pLimit from "p-limit";
 import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
@@ -64,26 +65,23 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
         return;
       }
       const work = hashed.map((h, i) => ({ ...h, ticket: tickets[i] }));
-      let next = 0;
-      const runOne = async () => {
-        while (next < work.length) {
-          const { key, file, ticket } = work[next++];
-          patch(key, { uploadId: ticket.id, duplicate: ticket.duplicate });
-          if (ticket.duplicate) {
-            patch(key, { phase: "sent", progress: 1 });
-            continue;
-          }
-          try {
-            patch(key, { phase: "uploading" });
-            await putWithProgress(ticket.url!, file, ticket.headers, (p) => patch(key, { progress: p }));
-            await api(lab, "POST", `/uploads/${ticket.id}/complete`);
-            patch(key, { phase: "sent", progress: 1 });
-          } catch (e) {
-            patch(key, { phase: "error", message: e instanceof Error ? e.message : String(e) });
-          }
+      const sendOne = async ({ key, file, ticket }: (typeof work)[number]) => {
+        patch(key, { uploadId: ticket.id, duplicate: ticket.duplicate });
+        if (ticket.duplicate) {
+          patch(key, { phase: "sent", progress: 1 });
+          return;
+        }
+        try {
+          patch(key, { phase: "uploading" });
+          await putWithProgress(ticket.url!, file, ticket.headers, (p) => patch(key, { progress: p }));
+          await api(lab, "POST", `/uploads/${ticket.id}/complete`);
+          patch(key, { phase: "sent", progress: 1 });
+        } catch (e) {
+          patch(key, { phase: "error", message: e instanceof Error ? e.message : String(e) });
         }
       };
-      await Promise.all(Array.from({ length: Math.min(PUT_CONCURRENCY, work.length) }, runOne));
+      const limit = pLimit(PUT_CONCURRENCY);
+      await Promise.all(work.map((w) => limit(() => sendOne(w))));
       await qc.invalidateQueries({ queryKey: queryKeys.sessionUploads(sessionId) });
     },
     [lab, sessionId, patch, qc],

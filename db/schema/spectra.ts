@@ -66,6 +66,15 @@ export const extractionSettingsVersions = pgTable(
 export type ExtractionSettingsVersion = typeof extractionSettingsVersions.$inferSelect;
 
 /** Versioned field model of a sample (contact distance, decay-constant source, screening; work functions from tip and sample). */
+/** The stored part of a field model version: the work functions come from the sample and each spectrum's tip. */
+export interface StoredFieldModel {
+  contactDistance_nm: number;
+  contactDistanceSigma_nm: number;
+  /** Measured apparent barrier height, eV; null = mean of the two work functions. */
+  barrierHeight_eV: number | null;
+  screening: number;
+}
+
 export const fieldModelVersions = pgTable(
   "field_model_versions",
   {

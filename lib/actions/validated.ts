@@ -1,11 +1,10 @@
 import "server-only";
 import { notFound, redirect } from "next/navigation";
 import { cache } from "react";
-import { db } from "@/db/client";
 import { auth } from "@/lib/auth";
-import { actorForUser } from "@/lib/auth/actor";
-import type { Ctx } from "@/lib/services/context";
-import { isServiceError } from "@/lib/services/errors";
+import { contextForUser } from "@/lib/auth/actor";
+import type { Ctx } from "@/lib/base/context";
+import { isServiceError } from "@/lib/base/errors";
 import { getSample } from "@/lib/services/samples/getSample";
 
 import type { ActionState } from "./types";
@@ -15,8 +14,7 @@ export type { ActionState };
 export async function labCtx(labSlug: string): Promise<Ctx> {
   const session = await auth();
   if (!session?.user?.id) redirect("/sign-in");
-  const database = db();
-  return { db: database, actor: await actorForUser(database, session.user.id, labSlug) };
+  return contextForUser(session.user.id, labSlug);
 }
 
 /**

@@ -1,9 +1,9 @@
 import "server-only";
 import { and, eq, isNull, lt, or } from "drizzle-orm";
-import type { DbOrTx } from "@/db/client";
+import { db as database, type DbOrTx } from "@/db/client";
 import { apiTokens, labs, memberships, users } from "@/db/schema";
-import type { Actor } from "@/lib/services/context";
-import { badRequest, notFound, unauthorized } from "@/lib/services/errors";
+import type { Actor, Ctx } from "@/lib/base/context";
+import { badRequest, notFound, unauthorized } from "@/lib/base/errors";
 import { sha256Hex } from "./secrets";
 
 /**
@@ -77,4 +77,16 @@ export async function actorForRequest(
     .where(eq(memberships.userId, userId));
   if (mine.length === 1) return actorForUser(db, userId, mine[0].slug);
   throw badRequest("You belong to several labs: name one with the 'x-bandcross-lab' header or '?lab=<slug>'.");
+}
+
+/** The service context of a signed-in user in one of their labs (server pages and actions). */
+export async function contextForUser(userId: string, labSlug: string): Promise<Ctx> {
+  const db = database();
+  return { db, actor: await actorForUser(db, userId, labSlug) };
+}
+
+/** The service context of an HTTP API request (bearer token or browser session, as `actorForRequest`). */
+export async function contextForRequest(request: Request, sessionUserId: () => Promise<string | undefined>): Promise<Ctx> {
+  const db = database();
+  return { db, actor: await actorForRequest(db, request, sessionUserId) };
 }

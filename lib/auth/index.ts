@@ -3,8 +3,8 @@ import NextAuth, { CredentialsSignin, type DefaultSession } from "next-auth";
 import Credentials from "next-auth/providers/credentials";
 import { z } from "zod";
 import { db } from "@/db/client";
-import { verifyCredentials } from "@/lib/services/auth/verifyCredentials";
-import { listMembershipsOfUser } from "@/lib/services/labs/listMembershipsOfUser";
+import { verifyCredentials } from "./credentials";
+import { listMembershipsOfUser } from "./memberships";
 import type { MemberRole } from "@/db/schema";
 
 declare module "next-auth" {

@@ -12,7 +12,12 @@ export function newSecret(prefix: string, bytes = 32): string {
 
 /**
  * A signed, single-purpose token (e.g. an unsubscribe link that works without signing in):
- * `purpose.payload.signature`, HMAC-SHA-256 over purpose and payload with TOKEN_SECRET.
+ * `payload.signature`, HMAC-SHA-256 over purpose and payload with TOKEN_SECRET.
+ *
+ * Kept as HMAC by hand rather than a JWS library (jose): these links sit in e-mails already sent
+ * and never expire, so their format cannot change without breaking them; one fixed algorithm and
+ * one fixed purpose need no header or algorithm choice (where JWS mistakes happen), and the
+ * comparison is constant-time (timingSafeEqual). A format with expiry or rotation would be jose.
  */
 export function signToken(secret: string, purpose: string, payload: Record<string, string>): string {
   const body = Buffer.from(JSON.stringify(payload)).toString("base64url");

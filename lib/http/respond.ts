@@ -1,10 +1,9 @@
 import "server-only";
 import { NextResponse } from "next/server";
-import { db } from "@/db/client";
 import { auth } from "@/lib/auth";
-import { actorForRequest } from "@/lib/auth/actor";
-import type { Ctx } from "@/lib/services/context";
-import { badRequest, isServiceError, tooLarge } from "@/lib/services/errors";
+import { contextForRequest } from "@/lib/auth/actor";
+import type { Ctx } from "@/lib/base/context";
+import { badRequest, isServiceError, tooLarge } from "@/lib/base/errors";
 
 /** The JSON error body every API route returns: `{ error: { code, message, fields? } }`. */
 export function errorResponse(status: number, code: string, message: string, extra?: Record<string, unknown>) {
@@ -48,10 +47,9 @@ export function apiRoute<P = Record<string, never>>(
 ) {
   return async (request: Request, route: RouteArgs<P>) => {
     try {
-      const database = db();
-      const actor = await actorForRequest(database, request, async () => (await auth())?.user?.id);
+      const ctx = await contextForRequest(request, async () => (await auth())?.user?.id);
       const params = (await route?.params) ?? ({} as P);
-      return await fn({ ctx: { db: database, actor }, request, params });
+      return await fn({ ctx, request, params });
     } catch (e) {
       return toErrorResponse(e);
     }

@@ -1,6 +1,6 @@
 import "server-only";
 import { auditEvents } from "@/db/schema";
-import type { Ctx } from "./context";
+import type { Ctx } from "@/lib/base/context";
 
 /** Appends one audit event in the caller's transaction. */
 export async function recordAudit(

@@ -1,6 +1,6 @@
 import type { z } from "zod";
 import { fieldErrorsOf } from "@/lib/schemas/lab";
-import { invalid } from "./errors";
+import { invalid } from "@/lib/base/errors";
 
 /** Validates service input with its schema; a failure is a 422 with field errors. */
 export function parseInput<S extends z.ZodType>(schema: S, input: unknown): z.infer<S> {

@@ -8,10 +8,9 @@ need_node() {
     bx_say "Node.js 20 (or newer) is required: https://nodejs.org/ or 'apt-get install -y nodejs npm'" >&2
     exit 1
   fi
-  local major
-  major="$(node -p 'process.versions.node.split(".")[0]')"
-  if [ "$major" -lt 20 ]; then
-    bx_say "Node.js $(node -v) is too old; Bandcross needs Node.js 20.11 or newer" >&2
+  # 20.12 brought process.loadEnvFile (the token command reads the local stack's env file with it).
+  if ! node -e 'const [a, b] = process.versions.node.split(".").map(Number); process.exit(a > 20 || (a === 20 && b >= 12) ? 0 : 1)'; then
+    bx_say "Node.js $(node -v) is too old; Bandcross needs Node.js 20.12 or newer" >&2
     exit 1
   fi
 }

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/db/client";
 import type { MemberRole } from "@/db/schema";
 import { createSample } from "@/lib/services/samples/createSample";
-import { createToken } from "@/lib/services/tokens/tokens";
+import { createToken } from "@/lib/services/tokens/createToken";
 import { APP_URL } from "../support/browser";
 import { makeLab, sampleBody, tipBody, type LabFixture } from "../support/fixtures";
 

@@ -5,12 +5,12 @@ import { closeDb, db } from "@/db/client";
 import { gapPicks, spectra } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
 import { createSample } from "@/lib/services/samples/createSample";
-import { createSession } from "@/lib/services/sessions/sessions";
-import { createTip } from "@/lib/services/tips/tips";
+import { createSession } from "@/lib/services/sessions/createSession";
+import { createTip } from "@/lib/services/tips/createTip";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { makeSweep, spectrumToCsv } from "@/lib/spectra";
 import { APP_URL, launch, shot, SHOTS_DIR, signedIn as signedInAs } from "../support/browser";
-import { makeLab, TEST_PASSWORD, withSpikeAtZero, type LabFixture } from "../support/fixtures";
+import { makeLab, TEST_PASSWORD, withSpikeAtZero, type LabFixture, system } from "../support/fixtures";
 import { bytesOf, uploadFile } from "../support/pipeline";
 
 /**
@@ -38,7 +38,7 @@ beforeAll(async () => {
   const earlier = (await createSession({ ctx: owner, input: { sampleId, tipId: tip.id, label: "approach", date: "2026-11-24", temperature_K: 4.5 } })).id;
   for (const [i, s] of makeSweep({ n: 12, seed: 11 }).spectra.entries()) {
     const { id } = await uploadFile(owner, earlier, `sweep-${String(i).padStart(2, "0")}.csv`, bytesOf(spectrumToCsv(i === 3 || i === 9 ? withSpikeAtZero(s) : s)));
-    await processUpload(db(), id);
+    await processUpload({ ctx: system(), input: { uploadId: id } });
   }
   dropSessionId = (await createSession({ ctx: owner, input: { sampleId, tipId: tip.id, label: "drop", date: "2026-11-25", temperature_K: 4.5 } })).id;
 }, 90_000);

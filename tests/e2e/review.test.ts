@@ -1,16 +1,16 @@
-import type { Browser, BrowserContext, Page } from "playwright-core";
+import type { Browser, Page } from "playwright-core";
 import { and, asc, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
 import { gapPicks, spectra } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
 import { createSample } from "@/lib/services/samples/createSample";
-import { createSession } from "@/lib/services/sessions/sessions";
+import { createSession } from "@/lib/services/sessions/createSession";
 import { tagSpectra } from "@/lib/services/spectra/tagSpectra";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { columnsToCsv, makeSpectrum } from "@/lib/spectra";
-import { APP_URL, launch, shot, SHOTS_DIR, SignInPage, signedIn as signedInAs } from "../support/browser";
-import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
+import { APP_URL, launch, shot, SHOTS_DIR, signedIn as signedInAs } from "../support/browser";
+import { makeLab, TEST_PASSWORD, type LabFixture, system } from "../support/fixtures";
 import { bytesOf, sweepSample, uploadFile } from "../support/pipeline";
 
 let browser: Browser;
@@ -258,7 +258,7 @@ describe("review in the browser", () => {
     }
     const csv = columnsToCsv(bias!, cols, { setpoint_bias_V: 0.6, setpoint_current_A: 2e-10, temperature_K: 4.5, lockin_modulation_mV_rms: 2, extra: { grid: "4 x 4", grid_step_nm: "0.5" } });
     const { id: uploadId } = await uploadFile(owner, sessionId, "grid-4x4.csv", bytesOf(csv));
-    await processUpload(db(), uploadId);
+    await processUpload({ ctx: system(), input: { uploadId: uploadId } });
     const [corner] = await db().select({ id: spectra.id }).from(spectra).where(and(eq(spectra.sampleId, mapId), eq(spectra.xNm, 0), eq(spectra.yNm, 0))).orderBy(asc(spectra.id));
     expect(corner).toBeDefined();
 

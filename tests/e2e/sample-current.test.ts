@@ -4,10 +4,10 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
 import { analysisRuns } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
-import { currentCrossing } from "@/lib/services/alerts/recordEvent";
-import { saveFieldModel } from "@/lib/services/analysis/versions";
+import { currentCrossing } from "@/lib/services/alerts/currentCrossing";
+import { saveFieldModel } from "@/lib/services/analysis/saveFieldModel";
 import { APP_URL, launch, shot, signedIn as signedInAs } from "../support/browser";
-import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
+import { makeLab, TEST_PASSWORD, type LabFixture, system } from "../support/fixtures";
 import { sweepSample } from "../support/pipeline";
 
 /**
@@ -77,7 +77,7 @@ describe("the sample page stays current", () => {
     await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
     await page.waitForSelector('[data-testid="phase-plot"] .main-svg');
     await page.waitForSelector('[data-testid="confirm-crossing"]');
-    const before = (await currentCrossing(db(), sampleId))!;
+    const before = (await currentCrossing({ ctx: system(), input: { sampleId: sampleId } }))!;
     expect(before.state).toBe("crossed");
     expect((await readCards(page)).criticalField).toBe(before.fieldVPerNm!.toFixed(3));
     const [runBefore] = await db().select().from(analysisRuns).where(eq(analysisRuns.sampleId, sampleId)).orderBy(desc(analysisRuns.createdAt)).limit(1);
@@ -88,7 +88,7 @@ describe("the sample page stays current", () => {
     await page.click("text=Save field model as v3");
     const run = await waitForLatestRunDone(runBefore.id);
     const ended = Date.now();
-    const after = (await currentCrossing(db(), sampleId))!;
+    const after = (await currentCrossing({ ctx: system(), input: { sampleId: sampleId } }))!;
     expect(after.id).not.toBe(before.id);
     const want = after.fieldVPerNm!.toFixed(3);
     expect(want).not.toBe(before.fieldVPerNm!.toFixed(3));
@@ -128,7 +128,7 @@ describe("the sample page stays current", () => {
     // Confirm on the page confirms the crossing it shows.
     await page.click('[data-testid="confirm-crossing"]');
     await page.waitForSelector('[data-testid="crossing-event-confirmed"]');
-    const confirmed = (await currentCrossing(db(), sampleId))!;
+    const confirmed = (await currentCrossing({ ctx: system(), input: { sampleId: sampleId } }))!;
     expect(confirmed.id).toBe(after.id);
     expect(confirmed.status).toBe("confirmed");
     await page.waitForSelector('[data-testid="crossing-summary"] >> text=confirmed by an analyst');

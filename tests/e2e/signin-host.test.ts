@@ -1,7 +1,7 @@
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/db/client";
-import { inviteMember } from "@/lib/services/members/members";
+import { inviteMember } from "@/lib/services/members/inviteMember";
 import { APP_URL, launch, shot, SignInPage } from "../support/browser";
 import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
 import { linkIn, mailsTo } from "../support/outbox";

@@ -9,16 +9,21 @@ import { afterRefit } from "@/lib/services/alerts/afterRefit";
 import { confirmCrossing } from "@/lib/services/alerts/confirmCrossing";
 import { deliverEvent } from "@/lib/services/alerts/deliverEvent";
 import { listCrossingEvents } from "@/lib/services/alerts/listCrossingEvents";
-import { listNotifications, markNotificationsRead, unreadCount } from "@/lib/services/alerts/notifications";
-import { describeUnsubscribe, unsubscribeByToken } from "@/lib/services/alerts/unsubscribe";
-import { watchSample, watchState } from "@/lib/services/alerts/watchSample";
-import { saveExtractionSettings, saveFieldModel } from "@/lib/services/analysis/versions";
+import { listNotifications } from "@/lib/services/alerts/listNotifications";
+import { markNotificationsRead } from "@/lib/services/alerts/markNotificationsRead";
+import { unreadCount } from "@/lib/services/alerts/unreadCount";
+import { describeUnsubscribe } from "@/lib/services/alerts/describeUnsubscribe";
+import { unsubscribeByToken } from "@/lib/services/alerts/unsubscribeByToken";
+import { watchSample } from "@/lib/services/alerts/watchSample";
+import { watchState } from "@/lib/services/alerts/watchState";
+import { saveExtractionSettings } from "@/lib/services/analysis/saveExtractionSettings";
+import { saveFieldModel } from "@/lib/services/analysis/saveFieldModel";
 import { createSample } from "@/lib/services/samples/createSample";
-import { createSession } from "@/lib/services/sessions/sessions";
-import { getPhase } from "@/lib/services/spectra/readSpectra";
-import { createTip } from "@/lib/services/tips/tips";
+import { createSession } from "@/lib/services/sessions/createSession";
+import { getPhase } from "@/lib/services/spectra/getPhase";
+import { createTip } from "@/lib/services/tips/createTip";
 import { makeSweep, spectrumToCsv } from "@/lib/spectra";
-import { makeLab, rejection, type LabFixture } from "../support/fixtures";
+import { makeLab, rejection, type LabFixture, system } from "../support/fixtures";
 import { linkIn, mailsTo, type OutboxMail } from "../support/outbox";
 import { bytesOf, startWorkerProcess, stopWorkerProcess, uploadFile, waitForUploads } from "../support/pipeline";
 
@@ -221,7 +226,7 @@ describe("crossing alerts through the pipeline", () => {
     expect(c.fieldVPerNm!).toBeLessThanOrEqual(found.hi);
 
     // The same decision again, a second delivery job for the same event, and a direct second delivery.
-    expect(await afterRefit(db(), { current: c })).toBeNull();
+    expect(await afterRefit({ ctx: system(), input: { sampleId: c.sampleId } })).toBeNull();
     const b = await boss();
     const dupJob = await b.send(QUEUES.notifyEvent, { eventId: foundEventId });
     const deadline = Date.now() + 30_000;
@@ -229,7 +234,7 @@ describe("crossing alerts through the pipeline", () => {
       if (Date.now() > deadline) throw new Error("duplicate job did not complete");
       await sleep(250);
     }
-    expect(await deliverEvent(db(), foundEventId)).toEqual({ sent: 0, skipped: 3 });
+    expect(await deliverEvent({ ctx: system(), input: { eventId: foundEventId } })).toEqual({ sent: 0, skipped: 3 });
     await waitForQuietQueue();
 
     for (const who of [lab.people.owner.email, lab.people.analyst.email, pablo.email]) expect((await mailsTo(who)).filter(about(sampleName))).toHaveLength(1);
@@ -255,11 +260,11 @@ describe("crossing alerts through the pipeline", () => {
   it("the unsubscribe link needs no sign-in, changes nothing until confirmed, and stops the e-mails", async () => {
     const [mail] = (await mailsTo(lab.people.owner.email)).filter(about(sampleName));
     const token = decodeURIComponent(linkIn(mail.text, "/unsubscribe/").split("/unsubscribe/")[1]);
-    expect(await unsubscribeByToken({ db: db(), token: token.slice(0, -2) + "xx" })).toEqual({ ok: false });
-    const seen = await describeUnsubscribe({ db: db(), token });
+    expect(await unsubscribeByToken({ ctx: system(), input: { token: token.slice(0, -2) + "xx" } })).toEqual({ ok: false });
+    const seen = await describeUnsubscribe({ ctx: system(), input: { token } });
     expect(seen).toMatchObject({ sampleName, email: lab.people.owner.email, watching: true });
-    expect((await describeUnsubscribe({ db: db(), token }))!.watching).toBe(true);
-    expect(await unsubscribeByToken({ db: db(), token })).toEqual({ ok: true });
+    expect((await describeUnsubscribe({ ctx: system(), input: { token } }))!.watching).toBe(true);
+    expect(await unsubscribeByToken({ ctx: system(), input: { token } })).toEqual({ ok: true });
     expect((await watchState({ ctx: lab.ctx("owner"), input: { sampleId } })).watching).toBe(false);
 
     // Back to the first contact distance: the field moves back, outside the second interval.
@@ -329,9 +334,9 @@ describe("race-free event decisions", () => {
       const [c1] = await db().insert(crossings).values(fit(1.0)).returning();
       const later = (async () => {
         const [c2] = await db().insert(crossings).values(fit(1.5)).returning();
-        return afterRefit(db(), { current: c2 });
+        return afterRefit({ ctx: system(), input: { sampleId: c2.sampleId } });
       })();
-      await Promise.all([afterRefit(db(), { current: c1 }), afterRefit(db(), { current: c1 }), later, afterRefit(db(), { current: c1 })]);
+      await Promise.all([afterRefit({ ctx: system(), input: { sampleId: c1.sampleId } }), afterRefit({ ctx: system(), input: { sampleId: c1.sampleId } }), later, afterRefit({ ctx: system(), input: { sampleId: c1.sampleId } })]);
       const events = await db().select().from(crossingEvents).where(and(eq(crossingEvents.sampleId, race.id))).orderBy(crossingEvents.createdAt);
       expect(events.filter((e) => e.kind === "found")).toHaveLength(1);
       expect(events.length).toBeLessThanOrEqual(2);
@@ -347,9 +352,9 @@ describe("race-free event decisions", () => {
     await db().transaction(async (tx) => {
       await tx.execute(sql`select 1`); // this transaction has begun: its now() is fixed from here
       await new Promise((r) => setTimeout(r, 20));
-      expect((await afterRefit(db(), { current: c1 }))?.kind).toBe("found"); // another connection, committed
+      expect((await afterRefit({ ctx: system(), input: { sampleId: c1.sampleId } }))?.kind).toBe("found"); // another connection, committed
       const [c2] = await tx.insert(crossings).values(row(1.5)).returning();
-      expect((await afterRefit(tx, { current: c2 }))?.kind).toBe("moved"); // decided after 'found', in the older transaction
+      expect((await afterRefit({ ctx: { db: tx }, input: { sampleId: c2.sampleId } }))?.kind).toBe("moved"); // decided after 'found', in the older transaction
     });
     const events = await db().select().from(crossingEvents).where(eq(crossingEvents.sampleId, s.id)).orderBy(crossingEvents.createdAt);
     expect(events.map((e) => e.kind)).toEqual(["found", "moved"]);

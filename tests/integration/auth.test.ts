@@ -3,10 +3,13 @@ import { afterAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
 import { apiTokens, invitations, users } from "@/db/schema";
 import { MAX_FAILURES } from "@/lib/auth/throttle";
-import { verifyCredentials } from "@/lib/services/auth/verifyCredentials";
-import { acceptInvitation, describeInvitation, inviteMember, listMembers } from "@/lib/services/members/members";
-import { createToken } from "@/lib/services/tokens/tokens";
-import { makeLab, rejection, TEST_PASSWORD } from "../support/fixtures";
+import { verifyCredentials } from "@/lib/auth/credentials";
+import { acceptInvitation } from "@/lib/services/members/acceptInvitation";
+import { describeInvitation } from "@/lib/services/members/describeInvitation";
+import { inviteMember } from "@/lib/services/members/inviteMember";
+import { listMembers } from "@/lib/services/members/listMembers";
+import { createToken } from "@/lib/services/tokens/createToken";
+import { makeLab, rejection, TEST_PASSWORD, system } from "../support/fixtures";
 import { linkIn, mailsTo } from "../support/outbox";
 
 afterAll(closeDb);
@@ -59,15 +62,15 @@ describe("invitations", () => {
     expect(stored[0].tokenHash).not.toContain(token);
     expect(stored[0].tokenHash).toMatch(/^[0-9a-f]{64}$/);
 
-    expect(await describeInvitation({ db: db(), token })).toEqual({ email, role: "microscopist", labName: f.lab.name, existingAccount: false });
-    await acceptInvitation({ db: db(), input: { token, name: "New Person", password: "a long new password" } });
+    expect(await describeInvitation({ ctx: system(), input: { token } })).toEqual({ email, role: "microscopist", labName: f.lab.name, existingAccount: false });
+    await acceptInvitation({ ctx: system(), input: { token, name: "New Person", password: "a long new password" } });
     expect((await verifyCredentials({ db: db(), input: { email, password: "a long new password" } })).ok).toBe(true);
     const { members } = await listMembers({ ctx: f.ctx("owner") });
     expect(members.find((m) => m.email === email)?.role).toBe("microscopist");
 
     // The link works once.
-    expect(await describeInvitation({ db: db(), token })).toBeNull();
-    expect((await rejection(acceptInvitation({ db: db(), input: { token, name: "Again", password: "another long password" } }))).status).toBe(422);
+    expect(await describeInvitation({ ctx: system(), input: { token } })).toBeNull();
+    expect((await rejection(acceptInvitation({ ctx: system(), input: { token, name: "Again", password: "another long password" } }))).status).toBe(422);
     const [u] = await db().select().from(users).where(eq(users.email, email));
     expect(u.name).toBe("New Person");
   });

@@ -1,14 +1,26 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/db/client";
 import { actorForToken, actorForUser } from "@/lib/auth/actor";
-import { changeRole, inviteMember, listMembers, removeMember, revokeInvitation } from "@/lib/services/members/members";
+import { changeRole } from "@/lib/services/members/changeRole";
+import { inviteMember } from "@/lib/services/members/inviteMember";
+import { listMembers } from "@/lib/services/members/listMembers";
+import { removeMember } from "@/lib/services/members/removeMember";
+import { revokeInvitation } from "@/lib/services/members/revokeInvitation";
 import { createSample } from "@/lib/services/samples/createSample";
 import { getSample } from "@/lib/services/samples/getSample";
 import { listSamples } from "@/lib/services/samples/listSamples";
 import { updateSample } from "@/lib/services/samples/updateSample";
-import { createSession, getSession, listSessions, updateSession } from "@/lib/services/sessions/sessions";
-import { createTip, getTip, listTips, updateTip } from "@/lib/services/tips/tips";
-import { createToken, listTokens, revokeToken } from "@/lib/services/tokens/tokens";
+import { createSession } from "@/lib/services/sessions/createSession";
+import { getSession } from "@/lib/services/sessions/getSession";
+import { listSessions } from "@/lib/services/sessions/listSessions";
+import { updateSession } from "@/lib/services/sessions/updateSession";
+import { createTip } from "@/lib/services/tips/createTip";
+import { getTip } from "@/lib/services/tips/getTip";
+import { listTips } from "@/lib/services/tips/listTips";
+import { updateTip } from "@/lib/services/tips/updateTip";
+import { createToken } from "@/lib/services/tokens/createToken";
+import { listTokens } from "@/lib/services/tokens/listTokens";
+import { revokeToken } from "@/lib/services/tokens/revokeToken";
 import { makeLab, rejection, sampleBody, tipBody, type LabFixture } from "../support/fixtures";
 
 /** A member of lab A, even its owner, never reads or changes lab B's records: always 403 or 404, never data. */
@@ -34,9 +46,9 @@ describe("lab A's owner against lab B's records", () => {
     "read sample": () => getSample({ ctx: a.ctx("owner"), input: { id: B.sample } }),
     "edit sample": () => updateSample({ ctx: a.ctx("owner"), input: { id: B.sample, patch: { notes: "x" } } }),
     "read tip": () => getTip({ ctx: a.ctx("owner"), input: { id: B.tip } }),
-    "edit tip": () => updateTip({ ctx: a.ctx("owner"), input: { id: B.tip, data: tipBody("hijack") } }),
+    "edit tip": () => updateTip({ ctx: a.ctx("owner"), input: { id: B.tip, patch: tipBody("hijack") } }),
     "read session": () => getSession({ ctx: a.ctx("owner"), input: { id: B.session } }),
-    "edit session": () => updateSession({ ctx: a.ctx("owner"), input: { id: B.session, data: { sampleId: B.sample, label: "x", date: "2026-11-02" } } }),
+    "edit session": () => updateSession({ ctx: a.ctx("owner"), input: { id: B.session, patch: { sampleId: B.sample, label: "x", date: "2026-11-02" } } }),
     "create a session on B's sample": () => createSession({ ctx: a.ctx("owner"), input: { sampleId: B.sample, label: "x", date: "2026-11-02" } }),
     "revoke B's token": () => revokeToken({ ctx: a.ctx("owner"), input: { id: B.token } }),
     "make a token acting as B's member": () => createToken({ ctx: a.ctx("owner"), input: { name: "x", userId: b.people.owner.id } }),

@@ -5,18 +5,21 @@ import { closeDb, db } from "@/db/client";
 import { analysisRuns, crossings, gapPicks, spectra } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
 import { reanalyzeSample } from "@/lib/services/analysis/reanalyzeSample";
-import { methodsText, phaseCsv } from "@/lib/services/exports/exportSample";
-import { setFlaggedInFit } from "@/lib/services/labs/labSettings";
-import { correctPick } from "@/lib/services/picks/picks";
+import { methodsText } from "@/lib/services/exports/methodsText";
+import { phaseCsv } from "@/lib/services/exports/phaseCsv";
+import { setFlaggedInFit } from "@/lib/services/labs/setFlaggedInFit";
+import { correctPick } from "@/lib/services/picks/correctPick";
 import { createSample } from "@/lib/services/samples/createSample";
-import { createSession } from "@/lib/services/sessions/sessions";
-import { getPhaseJson } from "@/lib/services/spectra/phaseCache";
-import { getPhase, getSpectrum, listSessionSpectra } from "@/lib/services/spectra/readSpectra";
-import { createTip } from "@/lib/services/tips/tips";
+import { createSession } from "@/lib/services/sessions/createSession";
+import { getPhaseJson } from "@/lib/services/spectra/getPhaseJson";
+import { getPhase } from "@/lib/services/spectra/getPhase";
+import { getSpectrum } from "@/lib/services/spectra/getSpectrum";
+import { listSessionSpectra } from "@/lib/services/spectra/listSessionSpectra";
+import { createTip } from "@/lib/services/tips/createTip";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { makeSweep, spectrumToCsv, type QualityFlag } from "@/lib/spectra";
 import { parseCsv } from "../support/csv";
-import { makeLab, rejection, withSpikeAtZero, type LabFixture } from "../support/fixtures";
+import { makeLab, rejection, withSpikeAtZero, type LabFixture, system } from "../support/fixtures";
 import { bytesOf, startWorkerProcess, stopWorkerProcess, uploadFile } from "../support/pipeline";
 
 /**
@@ -61,7 +64,7 @@ beforeAll(async () => {
   for (const [i, s] of makeSweep({ n: 12, seed: 5 }).spectra.entries()) {
     const spectrum = GLITCHED.includes(i) ? withSpikeAtZero(s) : s;
     const { id } = await uploadFile(owner, sessionId, `f-${String(i).padStart(2, "0")}.csv`, bytesOf(spectrumToCsv(spectrum)));
-    await processUpload(db(), id);
+    await processUpload({ ctx: system(), input: { uploadId: id } });
     ids.push((await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, id)))[0].id);
   }
   worker = await startWorkerProcess();
@@ -101,7 +104,7 @@ describe("stored with the pick", () => {
   it("a re-analysis writes the new automatic pick's flags, for corrected picks too", async () => {
     // Wipe two stored lists (one automatic, one corrected): a re-analysis must bring them back.
     await db().update(gapPicks).set({ flags: [] }).where(inArray(gapPicks.spectrumId, [ids[2], ids[5]]));
-    await reanalyzeSample(db(), { sampleId });
+    await reanalyzeSample({ ctx: system(), input: { sampleId } });
     expect(codes((await pickOf(2)).flags)).toContain("glitch");
     const corrected = await pickOf(5);
     expect(corrected.source).toBe("corrected");

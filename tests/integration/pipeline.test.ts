@@ -4,18 +4,23 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
 import { analysisRuns, gapPicks, spectra, uploads } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
-import { saveExtractionSettings, saveFieldModel } from "@/lib/services/analysis/versions";
+import { saveExtractionSettings } from "@/lib/services/analysis/saveExtractionSettings";
+import { saveFieldModel } from "@/lib/services/analysis/saveFieldModel";
 import { createSample } from "@/lib/services/samples/createSample";
-import { createSession } from "@/lib/services/sessions/sessions";
-import { getPhase, getSpectrum, listSessionSpectra } from "@/lib/services/spectra/readSpectra";
+import { createSession } from "@/lib/services/sessions/createSession";
+import { getPhase } from "@/lib/services/spectra/getPhase";
+import { getSpectrum } from "@/lib/services/spectra/getSpectrum";
+import { listSessionSpectra } from "@/lib/services/spectra/listSessionSpectra";
 import { tagSpectra } from "@/lib/services/spectra/tagSpectra";
-import { createTip } from "@/lib/services/tips/tips";
+import { createTip } from "@/lib/services/tips/createTip";
 import { createUploads } from "@/lib/services/uploads/createUploads";
 import { processUpload } from "@/lib/services/uploads/processUpload";
-import { completeUpload, getUpload, retryUpload } from "@/lib/services/uploads/uploadStatus";
+import { completeUpload } from "@/lib/services/uploads/completeUpload";
+import { getUpload } from "@/lib/services/uploads/getUpload";
+import { retryUpload } from "@/lib/services/uploads/retryUpload";
 import { estimateField, makeSweep, resolveFieldModel, spectrumToCsv } from "@/lib/spectra";
 import { objectSize } from "@/lib/storage/s3";
-import { makeLab, rejection, type LabFixture } from "../support/fixtures";
+import { makeLab, rejection, type LabFixture, system } from "../support/fixtures";
 import { bytesOf, sha256, startWorkerProcess, stopWorkerProcess, uploadFile, waitForUploads } from "../support/pipeline";
 
 /**
@@ -171,12 +176,12 @@ describe("bad files and crashes", () => {
     const bytes = bytesOf(spectrumToCsv(makeSweep({ n: 3, seed: 78 }).spectra[0]));
     const { id } = await uploadFile(lab.ctx("owner"), sessionId, "twice.csv", bytes);
     // The worker may take the queued job too: at most one of all the runs stores the file.
-    const outcomes = await Promise.all([processUpload(db(), id), processUpload(db(), id)]);
+    const outcomes = await Promise.all([processUpload({ ctx: system(), input: { uploadId: id } }), processUpload({ ctx: system(), input: { uploadId: id } })]);
     expect(outcomes.filter((o) => o.status === "done").length).toBeLessThanOrEqual(1);
     expect(outcomes.every((o) => o.status === "done" || (o.status === "skipped" && /already done/.test(o.reason)))).toBe(true);
     const stored = await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, id));
     expect(stored).toHaveLength(1);
-    expect(await processUpload(db(), id)).toEqual({ status: "skipped", reason: "already done" });
+    expect(await processUpload({ ctx: system(), input: { uploadId: id } })).toEqual({ status: "skipped", reason: "already done" });
     const [row] = await waitForUploads([id]);
     expect(row.status).toBe("done");
     expect(await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, id))).toEqual(stored);
@@ -187,7 +192,7 @@ describe("bad files and crashes", () => {
     const { id } = await uploadFile(lab.ctx("owner"), sessionId, "late.csv", bytes);
     let first: Awaited<ReturnType<typeof processUpload>> | undefined;
     // The late run reads the row (not done), then another run stores the whole file before it goes on.
-    const late = await processUpload(db(), id, { afterRead: async () => void (first = await processUpload(db(), id)) });
+    const late = await processUpload({ ctx: system({ afterRead: async () => void (first = await processUpload({ ctx: system(), input: { uploadId: id } })) }), input: { uploadId: id } });
     const stored = await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, id));
     expect(stored).toHaveLength(1);
     // The queued job may have stored it first; either way exactly one run stored it.

@@ -4,10 +4,10 @@ import { closeDb, db } from "@/db/client";
 import { gapPicks, spectra } from "@/db/schema";
 import { reanalyzeSample } from "@/lib/services/analysis/reanalyzeSample";
 import { createSample } from "@/lib/services/samples/createSample";
-import { createSession } from "@/lib/services/sessions/sessions";
+import { createSession } from "@/lib/services/sessions/createSession";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { columnsToCsv, makeRepeats, type QualityFlag } from "@/lib/spectra";
-import { makeLab, type LabFixture } from "../support/fixtures";
+import { makeLab, type LabFixture, system } from "../support/fixtures";
 import { bytesOf, uploadFile } from "../support/pipeline";
 
 /**
@@ -28,7 +28,7 @@ async function upload(name: string, reps: ReturnType<typeof makeRepeats>) {
     { setpoint_bias_V: 0.5, setpoint_current_A: 1e-10, temperature_K: 4.5, lockin_modulation_mV_rms: 2, x_nm: 12.5, y_nm: 3 },
   );
   const { id } = await uploadFile(lab.ctx("owner"), sessionId, name, bytesOf(csv));
-  await processUpload(db(), id);
+  await processUpload({ ctx: system(), input: { uploadId: id } });
   return (await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, id)).orderBy(spectra.indexInFile)).map((r) => r.id);
 }
 const flagsOf = async (ids: string[]) => {
@@ -58,7 +58,7 @@ describe("repeats at one point", () => {
     expect((await flagsOf(steady)).every((c) => !c.includes("tip-change") && !c.includes("drift"))).toBe(true);
   });
   it("a re-analysis compares the repeats again and keeps the flags", async () => {
-    await reanalyzeSample(db(), { sampleId });
+    await reanalyzeSample({ ctx: system(), input: { sampleId } });
     expect((await flagsOf(changed)).every((c) => c.includes("tip-change"))).toBe(true);
     expect((await flagsOf(steady)).every((c) => !c.includes("tip-change"))).toBe(true);
   });

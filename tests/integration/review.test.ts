@@ -3,16 +3,21 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
 import { crossings, gapPicks, spectra } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
-import { methodsText, phaseCsv } from "@/lib/services/exports/exportSample";
-import { correctPick, pickHistoryOf, setExcluded, undoPickChange } from "@/lib/services/picks/picks";
+import { methodsText } from "@/lib/services/exports/methodsText";
+import { phaseCsv } from "@/lib/services/exports/phaseCsv";
+import { correctPick } from "@/lib/services/picks/correctPick";
+import { pickHistoryOf } from "@/lib/services/picks/pickHistoryOf";
+import { setExcluded } from "@/lib/services/picks/setExcluded";
+import { undoPickChange } from "@/lib/services/picks/undoPickChange";
 import { createSample } from "@/lib/services/samples/createSample";
-import { createSession } from "@/lib/services/sessions/sessions";
-import { getPhase, getSpectrum } from "@/lib/services/spectra/readSpectra";
+import { createSession } from "@/lib/services/sessions/createSession";
+import { getPhase } from "@/lib/services/spectra/getPhase";
+import { getSpectrum } from "@/lib/services/spectra/getSpectrum";
 import { tagSpectra } from "@/lib/services/spectra/tagSpectra";
-import { createTip } from "@/lib/services/tips/tips";
+import { createTip } from "@/lib/services/tips/createTip";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { makeSweep, spectrumToCsv } from "@/lib/spectra";
-import { makeLab, rejection, type LabFixture } from "../support/fixtures";
+import { makeLab, rejection, type LabFixture, system } from "../support/fixtures";
 import { bytesOf, uploadFile } from "../support/pipeline";
 
 /** Review of band edges: corrections with reasons and history, stale saves, exclusion, undo, exports. */
@@ -32,7 +37,7 @@ beforeAll(async () => {
   for (const [i, s] of sweep.spectra.entries()) {
     const { id } = await uploadFile(owner, sessionId, `r-${i}.csv`, bytesOf(spectrumToCsv({ ...s, meta: { ...s.meta, region: i === 0 ? "=cmd|' /C calc'!A0" : "terrace A" } })));
     // Processed here, in this process, so the test does not depend on a worker's timing.
-    await processUpload(db(), id);
+    await processUpload({ ctx: system(), input: { uploadId: id } });
   }
   const rows = await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.sampleId, sampleId)).orderBy(spectra.fieldVPerNm);
   ids = rows.map((r) => r.id);

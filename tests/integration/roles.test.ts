@@ -1,13 +1,19 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/db/client";
 import type { MemberRole } from "@/db/schema";
-import { updateLabDefaults } from "@/lib/services/labs/labSettings";
-import { changeRole, inviteMember, listMembers, removeMember } from "@/lib/services/members/members";
+import { updateLabDefaults } from "@/lib/services/labs/updateLabDefaults";
+import { changeRole } from "@/lib/services/members/changeRole";
+import { inviteMember } from "@/lib/services/members/inviteMember";
+import { listMembers } from "@/lib/services/members/listMembers";
+import { removeMember } from "@/lib/services/members/removeMember";
 import { createSample } from "@/lib/services/samples/createSample";
 import { updateSample } from "@/lib/services/samples/updateSample";
-import { createSession, updateSession } from "@/lib/services/sessions/sessions";
-import { createTip, updateTip } from "@/lib/services/tips/tips";
-import { createToken, revokeToken } from "@/lib/services/tokens/tokens";
+import { createSession } from "@/lib/services/sessions/createSession";
+import { updateSession } from "@/lib/services/sessions/updateSession";
+import { createTip } from "@/lib/services/tips/createTip";
+import { updateTip } from "@/lib/services/tips/updateTip";
+import { createToken } from "@/lib/services/tokens/createToken";
+import { revokeToken } from "@/lib/services/tokens/revokeToken";
 import { makeLab, rejection, sampleBody, tipBody, type LabFixture } from "../support/fixtures";
 
 /**
@@ -49,9 +55,9 @@ const OPERATIONS: Record<string, (role: MemberRole) => Promise<unknown>> = {
   "create sample": (r) => createSample({ ctx: f.ctx(r), input: sampleBody() }),
   "edit sample": (r) => updateSample({ ctx: f.ctx(r), input: { id: sampleId, patch: { notes: `by ${r}` } } }),
   "create tip": (r) => createTip({ ctx: f.ctx(r), input: tipBody() }),
-  "edit tip": (r) => updateTip({ ctx: f.ctx(r), input: { id: tipId, data: { ...tipBody(`W-edit-${r}`) } } }),
+  "edit tip": (r) => updateTip({ ctx: f.ctx(r), input: { id: tipId, patch: { ...tipBody(`W-edit-${r}`) } } }),
   "create session": (r) => createSession({ ctx: f.ctx(r), input: { sampleId, label: `by ${r}`, date: "2026-11-21" } }),
-  "edit session": (r) => updateSession({ ctx: f.ctx(r), input: { id: sessionId, data: { sampleId, label: `edited by ${r}`, date: "2026-11-21" } } }),
+  "edit session": (r) => updateSession({ ctx: f.ctx(r), input: { id: sessionId, patch: { sampleId, label: `edited by ${r}`, date: "2026-11-21" } } }),
   "invite member": (r) => inviteMember({ ctx: f.ctx(r), input: { email: `invitee-${r}-${Date.now()}@lab.example`, role: "analyst" } }),
   "change role": async (r) => {
     const { members } = await listMembers({ ctx: f.ctx("owner") });

@@ -3,17 +3,20 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
 import { spectra } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
-import { setSampleAccess } from "@/lib/services/members/sampleAccess";
-import { pickHistoryOf } from "@/lib/services/picks/picks";
+import { setSampleAccess } from "@/lib/services/members/setSampleAccess";
+import { pickHistoryOf } from "@/lib/services/picks/pickHistoryOf";
 import { createSample } from "@/lib/services/samples/createSample";
 import { getSample } from "@/lib/services/samples/getSample";
 import { listSamples } from "@/lib/services/samples/listSamples";
-import { createSession, listSessions } from "@/lib/services/sessions/sessions";
-import { getPhase, getSpectrum, listSessionSpectra } from "@/lib/services/spectra/readSpectra";
+import { createSession } from "@/lib/services/sessions/createSession";
+import { listSessions } from "@/lib/services/sessions/listSessions";
+import { getPhase } from "@/lib/services/spectra/getPhase";
+import { getSpectrum } from "@/lib/services/spectra/getSpectrum";
+import { listSessionSpectra } from "@/lib/services/spectra/listSessionSpectra";
 import { processUpload } from "@/lib/services/uploads/processUpload";
-import { getUpload } from "@/lib/services/uploads/uploadStatus";
+import { getUpload } from "@/lib/services/uploads/getUpload";
 import { makeSweep, spectrumToCsv } from "@/lib/spectra";
-import { makeLab, rejection, type LabFixture } from "../support/fixtures";
+import { makeLab, rejection, type LabFixture, system } from "../support/fixtures";
 import { bytesOf, uploadFile } from "../support/pipeline";
 
 /** An owner can limit a collaborator to chosen samples; everything about the other samples is then "not found" for them. */
@@ -28,7 +31,7 @@ beforeAll(async () => {
     target.sample = (await createSample({ ctx: owner, input: { name, material: "stanene", workFunction_eV: 4.3, workFunctionSigma_eV: 0.1 } })).id;
     target.session = (await createSession({ ctx: owner, input: { sampleId: target.sample, label: `${name} session`, date: "2026-11-24" } })).id;
     const { id } = await uploadFile(owner, target.session, `${name}.csv`, bytesOf(spectrumToCsv(makeSweep({ n: 1, seed: name.length }).spectra[0])));
-    await processUpload(db(), id);
+    await processUpload({ ctx: system(), input: { uploadId: id } });
     target.upload = id;
     target.spectrum = (await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, id)))[0].id;
   }

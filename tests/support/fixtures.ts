@@ -7,7 +7,12 @@ import { randomUUID } from "node:crypto";
 import bcrypt from "bcryptjs";
 import { db } from "@/db/client";
 import { labs, memberships, users, type MemberRole } from "@/db/schema";
-import type { Actor, Ctx } from "@/lib/services/context";
+import type { Actor, Ctx, Faults, SystemCtx } from "@/lib/base/context";
+
+/** A system context (the worker's, a link's) on the test database, with the pauses a test puts in. */
+export function system(faults?: Faults): SystemCtx {
+  return { db: db(), task: "test", ...(faults && { faults }) };
+}
 
 export const TEST_PASSWORD = "correct horse battery";
 let cachedHash: string | undefined;

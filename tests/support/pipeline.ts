@@ -8,14 +8,15 @@ import { createHash } from "node:crypto";
 import { eq } from "drizzle-orm";
 import { db } from "@/db/client";
 import { spectra, uploads } from "@/db/schema";
-import type { Ctx } from "@/lib/services/context";
+import type { Ctx } from "@/lib/base/context";
 import { createSample } from "@/lib/services/samples/createSample";
-import { createSession } from "@/lib/services/sessions/sessions";
-import { createTip } from "@/lib/services/tips/tips";
+import { createSession } from "@/lib/services/sessions/createSession";
+import { createTip } from "@/lib/services/tips/createTip";
 import { processUpload } from "@/lib/services/uploads/processUpload";
 import { makeSweep, spectrumToCsv } from "@/lib/spectra";
 import { createUploads } from "@/lib/services/uploads/createUploads";
-import { completeUpload } from "@/lib/services/uploads/uploadStatus";
+import { completeUpload } from "@/lib/services/uploads/completeUpload";
+import { system } from "./fixtures";
 
 export const sha256 = (b: Uint8Array) => createHash("sha256").update(b).digest("hex");
 export const bytesOf = (text: string) => new TextEncoder().encode(text);
@@ -42,7 +43,7 @@ export async function waitForUploads(ids: string[], { timeoutMs = 60_000, until 
 
 /** Starts a worker process with the test environment (plus overrides); resolves once it listens. */
 export function startWorkerProcess(extraEnv: Record<string, string> = {}): Promise<ChildProcess> {
-  const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "lib/jobs/worker.ts"], {
+  const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "lib/worker/worker.ts"], {
     env: { ...process.env, NODE_ENV: "test", JOB_MAINTENANCE_SECONDS: "1", ...extraEnv },
     stdio: ["ignore", "pipe", "pipe"],
   });
@@ -88,7 +89,7 @@ export async function sweepSample(
   const sessionId = (await createSession({ ctx: owner, input: { sampleId, tipId: tip.id, label: "approach", date: "2026-11-22", temperature_K: 4.5 } })).id;
   for (const [i, s] of makeSweep({ n: o.n, seed: o.seed }).spectra.entries()) {
     const { id } = await uploadFile(owner, sessionId, `s-${String(i).padStart(2, "0")}.csv`, bytesOf(spectrumToCsv(s)));
-    await processUpload(db(), id);
+    await processUpload({ ctx: system(), input: { uploadId: id } });
   }
   const ids = (await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.sampleId, sampleId)).orderBy(spectra.fieldVPerNm)).map((r) => r.id);
   return { sampleId, ids };

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { deltaBicInWords, fileStem, formatField, formatGap, pickMethodInWords } from "@/lib/format";
+import { deltaBicInWords, fileStem, formatField, formatGap, formatUtc, pickMethodInWords } from "@/lib/format";
 
 describe("fileStem", () => {
   it("keeps letters and digits, lower-cased, joined by single hyphens", () => {
@@ -40,5 +40,20 @@ describe("pickMethodInWords", () => {
     expect(pickMethodInWords("fit-separate")).toBe("each edge fitted");
     expect(pickMethodInWords("fit-joint")).toBe("both edges fitted together");
     expect(pickMethodInWords("some-new-method")).toBe("some new method");
+  });
+});
+
+describe("formatUtc", () => {
+  it("writes a moment to the minute in UTC, whatever the process's time zone", () => {
+    const before = process.env.TZ;
+    try {
+      // A zone nine hours ahead: a local formatter would write 2026-12-05 05:04.
+      process.env.TZ = "Asia/Tokyo";
+      expect(formatUtc(new Date("2026-12-04T20:04:59.900Z"))).toBe("2026-12-04 20:04 UTC");
+      expect(formatUtc("2026-01-31T23:59:00Z")).toBe("2026-01-31 23:59 UTC");
+    } finally {
+      if (before === undefined) delete process.env.TZ;
+      else process.env.TZ = before;
+    }
   });
 });

@@ -3,7 +3,7 @@ import { redirect } from "next/navigation";
 import { BrandMark } from "@/components/brand";
 import { EmptyState } from "@/components/ui/card";
 import { auth } from "@/lib/auth";
-import { ROLE_LABEL } from "@/lib/auth/permissions";
+import { ROLE_LABEL } from "@/lib/base/permissions";
 
 export default async function LabsPage() {
   const session = await auth();

@@ -7,6 +7,7 @@
 import { createHash } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
+import pLimit from "p-limit";
 import type { Command, Io } from "../io";
 import { CliUsageError } from "../io";
 import { parse, table } from "../shared";
@@ -95,10 +96,8 @@ function progress(io: Io, tty: boolean) {
 }
 
 async function pool<T>(items: T[], n: number, fn: (item: T) => Promise<void>) {
-  let i = 0;
-  await Promise.all(Array.from({ length: Math.min(n, items.length) }, async () => {
-    while (i < items.length) await fn(items[i++]);
-  }));
+  const limit = pLimit(n);
+  await Promise.all(items.map((item) => limit(() => fn(item))));
 }
 
 export const push: Command = {

@@ -15,16 +15,6 @@ const usage = `usage: bandcross token create --lab SLUG [--email EMAIL] [--name 
   --name NAME     a label shown in lab settings (default "command line")
 Needs DATABASE_URL, or the local stack's .data/env.local (written by npm start).`;
 
-/** Reads KEY=VALUE lines (optionally quoted) into process.env, without overriding what is set. */
-export function loadEnvFile(file: string): boolean {
-  if (!fs.existsSync(file)) return false;
-  for (const line of fs.readFileSync(file, "utf8").split(/\r?\n/)) {
-    const m = /^([A-Z][A-Z0-9_]*)=(.*)$/.exec(line.trim());
-    if (!m || process.env[m[1]] !== undefined) continue;
-    process.env[m[1]] = m[2].replace(/^'(.*)'$/, "$1").replace(/^"(.*)"$/, "$1");
-  }
-  return true;
-}
 
 export const token: Command = {
   name: "token",
@@ -44,14 +34,16 @@ export const token: Command = {
     }
     const lab = values.lab as string | undefined;
     if (!lab) throw new CliUsageError("--lab is required");
-    if (!process.env.DATABASE_URL) loadEnvFile(path.join(process.cwd(), ".data", "env.local"));
+    const local = path.join(process.cwd(), ".data", "env.local");
+    // Node's own reader (KEY=value, quoted or not); what the environment sets already is kept.
+    if (!process.env.DATABASE_URL && fs.existsSync(local)) process.loadEnvFile(local);
     if (!process.env.DATABASE_URL) {
       io.err("bandcross token: DATABASE_URL is not set and .data/env.local was not found (start the stack with npm start first)\n");
       return 1;
     }
-    const [{ createTokenForLab }, { db, closeDb }] = await Promise.all([import("../../services/tokens/tokens"), import("../../../db/client")]);
+    const [{ createTokenForLab }, { systemContext, closeSystemContext }] = await Promise.all([import("../../services/tokens/createTokenForLab"), import("../../services/system")]);
     try {
-      const made = await createTokenForLab({ db: db(), labSlug: lab, email: values.email as string | undefined, name: values.name as string | undefined });
+      const made = await createTokenForLab({ ctx: systemContext("token command"), input: { labSlug: lab, email: values.email as string | undefined, name: values.name as string | undefined } });
       io.err(`token "${made.row.name}" for ${made.member.email} (${made.member.role}) in lab ${made.lab.slug}; it is shown once:\n`);
       io.out(`${made.token}\n`);
       return 0;
@@ -60,7 +52,7 @@ export const token: Command = {
       io.err(`bandcross token: ${code === "not_found" ? (e as Error).message : `could not create the token: ${(e as Error).message}`}\n`);
       return 1;
     } finally {
-      await closeDb();
+      await closeSystemContext();
     }
   },
 };

@@ -1,3 +1,4 @@
+import { formatUtc } from "@/lib/format";
 import { button, esc, frame } from "./layout";
 
 export type CrossingEventKindText = "found" | "moved" | "confirmed";
@@ -81,7 +82,7 @@ ${rows.map(([k, v]) => `<tr><td style="padding:6px 12px 6px 0;color:#6b6557;whit
 ${table}
 <p style="font-size:13px;color:#6b6557;margin-top:14px"><strong>The field is an estimate, not a measurement:</strong> ${esc(input.assumptions)}</p>
 ${button(input.sampleUrl, "Open the phase plot")}
-<p style="font-size:13px;color:#6b6557">Lab: ${esc(input.labName)} · ${esc(input.at.slice(0, 16).replace("T", " "))} UTC</p>`,
+<p style="font-size:13px;color:#6b6557">Lab: ${esc(input.labName)} · ${esc(formatUtc(input.at))}</p>`,
     `You get this because you watch ${esc(input.sampleName)} in Bandcross. <a href="${esc(input.unsubscribeUrl)}" style="color:#6b6557">Stop e-mails about this sample</a>.`,
   );
   const text = `${subject}
@@ -94,7 +95,7 @@ The field is an estimate, not a measurement: ${input.assumptions}
 
 Open the phase plot: ${input.sampleUrl}
 
-Lab: ${input.labName} · ${input.at.slice(0, 16).replace("T", " ")} UTC
+Lab: ${input.labName} · ${formatUtc(input.at)}
 You get this because you watch ${input.sampleName} in Bandcross.
 Stop e-mails about this sample: ${input.unsubscribeUrl}
 `;

@@ -1,9 +1,13 @@
 import "server-only";
+import type { DbCtx } from "@/lib/base/context";
 import type { DbOrTx } from "@/db/client";
 import type { Crossing, CrossingEvent, CrossingEventKind } from "@/db/schema";
-import type { RefitResult } from "../analysis/refitSample";
 import { sql } from "drizzle-orm";
-import { currentCrossing, intervalOf, latestEvent, lockSample, recordEvent } from "./recordEvent";
+import { currentCrossing } from "./currentCrossing";
+import { intervalOf } from "./shared";
+import { latestEvent } from "./latestEvent";
+import { lockSample } from "./lockSample";
+import { recordEvent } from "./recordEvent";
 
 async function uploadsInFlight(db: DbOrTx, sampleId: string): Promise<boolean> {
   const r = await db.execute(sql`select 1 from uploads u join measurement_sessions s on s.id = u.session_id
@@ -31,7 +35,8 @@ export function decideEvent(current: Crossing | null, last: CrossingEvent | null
 }
 
 /**
- * Runs after every refit of a sample (refitSample calls it, so no path can skip it): decides
+ * Runs after every refit of a sample (refitSample calls it, so no path can skip it; it needs only
+ * the sample, and reads the current fit itself, so it knows nothing of the refit): decides
  * whether the sample's fit is an event the people watching it must hear about, and records it
  * with its notifications and e-mail job.
  *
@@ -41,18 +46,19 @@ export function decideEvent(current: Crossing | null, last: CrossingEvent | null
  * about the newest fit, and the second sees the first one's event; calling this twice for the same
  * fit is a no-op (also guarded by the unique key on crossing and kind).
  */
-export async function afterRefit(db: DbOrTx, result: Pick<RefitResult, "current">): Promise<CrossingEvent | null> {
-  const sampleId = result.current.sampleId;
-  return db.transaction(async (tx) => {
-    await lockSample(tx, sampleId);
+export async function afterRefit({ ctx, input }: { ctx: DbCtx; input: { sampleId: string } }): Promise<CrossingEvent | null> {
+  const { sampleId } = input;
+  return ctx.db.transaction(async (tx) => {
+    const locked = { ...ctx, db: tx };
+    await lockSample({ ctx: locked, input: { sampleId } });
     // While files of this sample are still queued or being processed, wait: the refit after the
     // last of them decides, so a folder pushed at once gives one alert about all of it.
     if (await uploadsInFlight(tx, sampleId)) return null;
-    const current = await currentCrossing(tx, sampleId);
-    const last = await latestEvent(tx, sampleId);
+    const current = await currentCrossing({ ctx: locked, input: { sampleId } });
+    const last = await latestEvent({ ctx: locked, input: { sampleId } });
     const kind = decideEvent(current, last);
     if (!kind || !current) return null;
     const extra = kind === "moved" && last ? { previousEventId: last.id, previousField_V_per_nm: last.fieldVPerNm, previousCi95_V_per_nm: intervalOf(last) } : {};
-    return recordEvent(tx, { crossing: current, kind, extra });
+    return recordEvent({ ctx: locked, input: { crossing: current, kind, extra } });
   });
 }

@@ -1,16 +1,19 @@
 import "server-only";
 import { z } from "zod";
 import { crossings } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { eq } from "drizzle-orm";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { conflict } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { conflict } from "@/lib/base/errors";
 import { numberInput } from "@/lib/schemas/number";
 import { parseInput } from "../parse";
 import { getSample } from "../samples/getSample";
 import { isCrossed } from "./afterRefit";
-import { currentCrossing, intervalOf, lockSample, recordEvent } from "./recordEvent";
+import { currentCrossing } from "./currentCrossing";
+import { intervalOf } from "./shared";
+import { lockSample } from "./lockSample";
+import { recordEvent } from "./recordEvent";
 
 export const confirmCrossingInput = z.object({
   sampleId: z.string().uuid("sampleId must be a sample id."),
@@ -39,8 +42,9 @@ export async function confirmCrossing({ ctx, input }: { ctx: Ctx; input: unknown
   const data = parseInput(confirmCrossingInput, input);
   const sample = await getSample({ ctx, input: { id: data.sampleId } });
   const out = await ctx.db.transaction(async (tx) => {
-    await lockSample(tx, sample.id);
-    const current = await currentCrossing(tx, sample.id);
+    const locked = { ...ctx, db: tx };
+    await lockSample({ ctx: locked, input: { sampleId: sample.id } });
+    const current = await currentCrossing({ ctx: locked, input: { sampleId: sample.id } });
     if (!isCrossed(current)) throw conflict("There is no critical field to confirm: the current fit of this sample does not close and reopen.");
     if ((data.crossingId && data.crossingId !== current.id) || (data.field_V_per_nm != null && !sameValue(data.field_V_per_nm, current.fieldVPerNm!))) {
       throw conflict(`The fit changed since you looked at it: the critical field is now ${currentInWords(current)}. Review it before confirming.`, {
@@ -55,13 +59,16 @@ export async function confirmCrossing({ ctx, input }: { ctx: Ctx; input: unknown
       .set({ status: "confirmed", confirmedBy: ctx.actor.userId, confirmedAt: new Date() })
       .where(eq(crossings.id, current.id))
       .returning();
-    const event = await recordEvent(tx, {
-      crossing: confirmed,
-      kind: "confirmed",
-      extra: { confirmedBy: ctx.actor.userId, confirmedByName: ctx.actor.name },
-      excludeUserId: ctx.actor.userId,
+    const event = await recordEvent({
+      ctx: locked,
+      input: {
+        crossing: confirmed,
+        kind: "confirmed",
+        extra: { confirmedBy: ctx.actor.userId, confirmedByName: ctx.actor.name },
+        excludeUserId: ctx.actor.userId,
+      },
     });
-    await recordAudit({ ...ctx, db: tx }, "crossing.confirm", { type: "sample", id: sample.id }, { crossingId: confirmed.id, field_V_per_nm: confirmed.fieldVPerNm });
+    await recordAudit(locked, "crossing.confirm", { type: "sample", id: sample.id }, { crossingId: confirmed.id, field_V_per_nm: confirmed.fieldVPerNm });
     return { crossing: confirmed, event, alreadyConfirmed: false };
   });
   return {

@@ -1,14 +1,13 @@
 import "server-only";
 import { eq } from "drizzle-orm";
-import type { DbOrTx } from "@/db/client";
-import { crossingEvents, crossings, fieldModelVersions, labs, notifications, samples, users } from "@/db/schema";
+import type { SystemCtx } from "@/lib/base/context";
+import { crossingEvents, crossings, fieldModelVersions, labs, notifications, samples, users, type StoredFieldModel } from "@/db/schema";
 import { env } from "@/lib/env";
 import { sendMail } from "@/lib/mail/client";
 import { crossingMail, type CrossingMailInput } from "@/lib/mail/templates/crossing";
-import type { StoredFieldModel } from "../analysis/sampleModel";
-import { recipientsOf } from "./recipients";
-import { intervalOf } from "./recordEvent";
-import { unsubscribeUrl } from "./unsubscribe";
+import { recipientsOf } from "./recipientsOf";
+import { intervalOf } from "./shared";
+import { unsubscribeUrl } from "./unsubscribeLink";
 
 /** The idempotency key of one crossing e-mail: one per event and person, checked in mail_log and by the mail service. */
 export const eventMailKey = (eventId: string, userId: string) => `crossing-event:${eventId}:${userId}`;
@@ -28,7 +27,9 @@ export function assumptionsLine(m: Partial<StoredFieldModel> & { decayConstantSo
  * a key already in mail_log is skipped, so a retried job or a second run never sends twice. One
  * failed address does not stop the others; the job then fails and is retried for the rest.
  */
-export async function deliverEvent(db: DbOrTx, eventId: string): Promise<{ sent: number; skipped: number }> {
+export async function deliverEvent({ ctx, input }: { ctx: SystemCtx; input: { eventId: string } }): Promise<{ sent: number; skipped: number }> {
+  const { db } = ctx;
+  const { eventId } = input;
   const [row] = await db
     .select({ event: crossingEvents, crossing: crossings, sample: samples, lab: labs })
     .from(crossingEvents)
@@ -40,7 +41,7 @@ export async function deliverEvent(db: DbOrTx, eventId: string): Promise<{ sent:
   const { event, crossing, sample, lab } = row;
   const [fv] = crossing.fieldModelVersionId ? await db.select().from(fieldModelVersions).where(eq(fieldModelVersions.id, crossing.fieldModelVersionId)) : [];
   const notified = new Set((await db.select({ userId: notifications.userId }).from(notifications).where(eq(notifications.eventId, eventId))).map((n) => n.userId));
-  const recipients = (await recipientsOf(db, sample.id)).filter((r) => notified.has(r.userId));
+  const recipients = (await recipientsOf({ ctx, input: { sampleId: sample.id } })).filter((r) => notified.has(r.userId));
   const d = event.data as Record<string, unknown>;
   const num = (v: unknown) => (typeof v === "number" ? v : null);
   let confirmedBy: string | null = null;

@@ -1,11 +1,12 @@
 import "server-only";
 import { desc, eq } from "drizzle-orm";
 import { crossingEvents, users } from "@/db/schema";
-import { can } from "@/lib/auth/permissions";
-import type { Ctx } from "../context";
+import { can } from "@/lib/base/permissions";
+import type { Ctx } from "@/lib/base/context";
 import { getSample } from "../samples/getSample";
 import { isCrossed } from "./afterRefit";
-import { currentCrossing, intervalOf } from "./recordEvent";
+import { currentCrossing } from "./currentCrossing";
+import { intervalOf } from "./shared";
 
 /** A sample's crossing events, newest first, with its current fit and whether the actor may confirm it: the timeline. */
 export async function listCrossingEvents({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }) {
@@ -17,7 +18,7 @@ export async function listCrossingEvents({ ctx, input }: { ctx: Ctx; input: { sa
     const [u] = await ctx.db.select({ name: users.name }).from(users).where(eq(users.id, id));
     if (u) names.set(id, u.name);
   }
-  const current = await currentCrossing(ctx.db, sample.id);
+  const current = await currentCrossing({ ctx, input: { sampleId: sample.id } });
   return {
     sampleId: sample.id,
     events: rows.map((e) => {

@@ -1,50 +1,25 @@
 import "server-only";
-import { and, desc, eq, isNull, sql } from "drizzle-orm";
-import type { DbOrTx } from "@/db/client";
-import { crossingEvents, crossings, extractionSettingsVersions, fieldModelVersions, labs, notifications, samples, type Crossing, type CrossingEvent, type CrossingEventKind } from "@/db/schema";
+import { eq, sql } from "drizzle-orm";
+import type { DbCtx } from "@/lib/base/context";
+import { crossingEvents, extractionSettingsVersions, fieldModelVersions, labs, notifications, samples, type Crossing, type CrossingEvent, type CrossingEventKind } from "@/db/schema";
 import { enqueueNotifyEvent } from "@/lib/jobs/queue";
 import { crossingHeadline } from "@/lib/mail/templates/crossing";
-import { recipientsOf } from "./recipients";
-
-/**
- * Serialises every "is this a new event?" decision about one sample: a row lock on the sample,
- * held until the caller's transaction ends. Two workers refitting the same sample at once (or a
- * refit racing a confirmation) take turns here, and the second one sees the event the first one
- * stored. The unique index on (crossing_id, kind) backs this up for the same crossing row.
- */
-export async function lockSample(tx: DbOrTx, sampleId: string): Promise<void> {
-  await tx.execute(sql`select id from ${samples} where ${samples.id} = ${sampleId} for update`);
-}
-
-/** The sample's newest crossing of all regions together: the current fit. */
-export async function currentCrossing(db: DbOrTx, sampleId: string): Promise<Crossing | null> {
-  const [c] = await db
-    .select()
-    .from(crossings)
-    .where(and(eq(crossings.sampleId, sampleId), isNull(crossings.region)))
-    .orderBy(desc(crossings.createdAt))
-    .limit(1);
-  return c ?? null;
-}
-
-/** The sample's latest event of any kind, or null. */
-export async function latestEvent(db: DbOrTx, sampleId: string): Promise<CrossingEvent | null> {
-  const [e] = await db.select().from(crossingEvents).where(eq(crossingEvents.sampleId, sampleId)).orderBy(desc(crossingEvents.createdAt)).limit(1);
-  return e ?? null;
-}
-
-export const intervalOf = (r: { ci95LoVPerNm: number | null; ci95HiVPerNm: number | null }): [number, number] | null =>
-  r.ci95LoVPerNm != null && r.ci95HiVPerNm != null ? [r.ci95LoVPerNm, r.ci95HiVPerNm] : null;
+import { recipientsOf } from "./recipientsOf";
+import { intervalOf } from "./shared";
 
 /**
  * Stores one event about a crossing, inside the caller's transaction (which holds lockSample):
  * the event row with its versions, one in-app notification per recipient, and the job that
  * e-mails them. Returns null when this crossing already has an event of this kind.
  */
-export async function recordEvent(
-  tx: DbOrTx,
-  input: { crossing: Crossing; kind: CrossingEventKind; extra?: Record<string, unknown>; excludeUserId?: string },
-): Promise<CrossingEvent | null> {
+export async function recordEvent({
+  ctx,
+  input,
+}: {
+  ctx: DbCtx;
+  input: { crossing: Crossing; kind: CrossingEventKind; extra?: Record<string, unknown>; excludeUserId?: string };
+}): Promise<CrossingEvent | null> {
+  const tx = ctx.db;
   const c = input.crossing;
   if (c.fieldVPerNm == null) return null;
   const [sv] = c.settingsVersionId ? await tx.select({ version: extractionSettingsVersions.version }).from(extractionSettingsVersions).where(eq(extractionSettingsVersions.id, c.settingsVersionId)) : [];
@@ -88,7 +63,7 @@ export async function recordEvent(
       : input.kind === "moved"
         ? `A new fit of ${c.nPoints} spectra lies outside the earlier 95% interval (settings v${sv?.version ?? "?"}, field model v${fv?.version ?? "?"}).`
         : `Confirmed${typeof input.extra?.confirmedByName === "string" ? ` by ${input.extra.confirmedByName}` : ""} (${c.nPoints} spectra, settings v${sv?.version ?? "?"}, field model v${fv?.version ?? "?"}).`;
-  const recipients = (await recipientsOf(tx, c.sampleId)).filter((r) => r.userId !== input.excludeUserId);
+  const recipients = (await recipientsOf({ ctx, input: { sampleId: c.sampleId } })).filter((r) => r.userId !== input.excludeUserId);
   if (recipients.length) {
     await tx
       .insert(notifications)

@@ -2,8 +2,8 @@ import "server-only";
 import { and, eq } from "drizzle-orm";
 import { z } from "zod";
 import { subscriptions } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
-import type { Ctx } from "../context";
+import { assertCan } from "@/lib/base/permissions";
+import type { Ctx } from "@/lib/base/context";
 import { parseInput } from "../parse";
 import { getSample } from "../samples/getSample";
 
@@ -27,11 +27,4 @@ export async function watchSample({ ctx, input }: { ctx: Ctx; input: unknown }):
     await ctx.db.delete(subscriptions).where(and(eq(subscriptions.sampleId, sample.id), eq(subscriptions.userId, ctx.actor.userId)));
   }
   return { sampleId: sample.id, watching: data.watching };
-}
-
-/** Whether the actor watches a sample they can see. */
-export async function watchState({ ctx, input }: { ctx: Ctx; input: { sampleId: string } }): Promise<{ sampleId: string; watching: boolean }> {
-  const sample = await getSample({ ctx, input: { id: input.sampleId } });
-  const [row] = await ctx.db.select({ id: subscriptions.id }).from(subscriptions).where(and(eq(subscriptions.sampleId, sample.id), eq(subscriptions.userId, ctx.actor.userId)));
-  return { sampleId: sample.id, watching: Boolean(row) };
 }

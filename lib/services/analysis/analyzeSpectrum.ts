@@ -1,5 +1,5 @@
 import type { Spectrum } from "@/db/schema";
-import { compareRepeats, estimateField, repeatGroups, type FieldModel, type GapPick, type QualityFlag, type SpectrumMeta } from "@/lib/spectra";
+import { compareRepeats, estimateField, pickGap, repeatGroups, type ExtractionSettings, type FieldModel, type GapPick, type PickInput, type QualityFlag, type SpectrumMeta } from "@/lib/spectra";
 
 export interface FieldValues {
   distanceNm: number | null;
@@ -7,6 +7,21 @@ export interface FieldValues {
   fieldVPerNm: number | null;
   fieldSigmaVPerNm: number | null;
   warning?: string;
+}
+
+/**
+ * The analysis of one spectrum with its sample's current versions, the same step for upload
+ * processing and re-analysis: the automatic pick with the extraction settings, and the distance
+ * and field with the field model of the spectrum's tip. A file without a temperature takes its
+ * session's. Pure: what it returns is stored by the caller.
+ */
+export function analyzeSpectrum<M extends Partial<SpectrumMeta>>(
+  spectrum: PickInput & { meta: M },
+  how: { settings: ExtractionSettings; model: FieldModel; sessionTemperatureK?: number | null },
+): { meta: M; pick: GapPick; field: FieldValues } {
+  const meta = { ...spectrum.meta, temperature_K: spectrum.meta.temperature_K ?? how.sessionTemperatureK ?? undefined };
+  const pick = pickGap({ bias_V: spectrum.bias_V, didv: spectrum.didv, meta }, how.settings);
+  return { meta, pick, field: fieldFor(how.model, meta) };
 }
 
 /** Distance and field for one spectrum's setpoint; missing setpoints give nulls and a warning, never an error. */
@@ -47,7 +62,7 @@ export function pickColumns(pick: GapPick, settingsVersionId: string) {
 
 
 /** The analysis metadata of a stored spectrum; its session's temperature stands in when the file had none. */
-export function metaOfRow(s: Pick<Spectrum, "setpointBiasV" | "setpointCurrentA" | "zOffsetPm" | "lockinModulationMvRms" | "temperatureK">, sessionTemperatureK: number | null | undefined): Partial<SpectrumMeta> {
+export function metaOfRow(s: Pick<Spectrum, "setpointBiasV" | "setpointCurrentA" | "zOffsetPm" | "lockinModulationMvRms" | "temperatureK">, sessionTemperatureK?: number | null): Partial<SpectrumMeta> {
   return {
     setpoint_bias_V: s.setpointBiasV ?? undefined,
     setpoint_current_A: s.setpointCurrentA ?? undefined,

@@ -1,11 +1,13 @@
 import "server-only";
 import { and, asc, eq, gt, inArray, sql } from "drizzle-orm";
 import type { DbOrTx } from "@/db/client";
+import type { DbCtx } from "@/lib/base/context";
 import { analysisRuns, gapPicks, measurementSessions, spectra, tips } from "@/db/schema";
-import { pickGap, repeatGroups as repeatGroupsOf, type QualityFlag } from "@/lib/spectra";
-import { fieldFor, metaOfRow, pickColumns, repeatFlags, type RepeatCandidate } from "./analyzeSpectrum";
-import { refitSample, type RefitResult } from "./refitSample";
-import { loadSampleAnalysis } from "./sampleModel";
+import { repeatGroups as repeatGroupsOf, type QualityFlag } from "@/lib/spectra";
+import { analyzeSpectrum, metaOfRow, pickColumns, repeatFlags, type RepeatCandidate } from "./analyzeSpectrum";
+import { refitSample } from "./refitSample";
+import type { RefitResult } from "./shared";
+import { loadSampleAnalysis } from "./loadSampleAnalysis";
 
 const CHUNK = 250;
 
@@ -17,8 +19,9 @@ const CHUNK = 250;
  * Progress is written to analysis_runs as it goes, in chunks, each its own transaction:
  * `running` with the spectra done, then `fitting` while the sample is refitted, then `done`.
  */
-export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; runIds?: string[] }): Promise<RefitResult | "superseded"> {
-  const analysis = await loadSampleAnalysis(db, input.sampleId);
+export async function reanalyzeSample({ ctx, input }: { ctx: DbCtx; input: { sampleId: string; runIds?: string[] } }): Promise<RefitResult | "superseded"> {
+  const { db } = ctx;
+  const analysis = await loadSampleAnalysis({ ctx, input });
   const [{ n }] = await db.select({ n: sql<number>`count(*)::int` }).from(spectra).where(eq(spectra.sampleId, input.sampleId));
   const runs = input.runIds?.length ? inArray(analysisRuns.id, input.runIds) : undefined;
   if (runs) await db.update(analysisRuns).set({ status: "running", total: n, done: 0, updatedAt: new Date() }).where(runs);
@@ -40,15 +43,14 @@ export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; run
     if (rows.length === 0) break;
     // A newer version saved meanwhile has its own run queued: stop, and leave the runs to it, so
     // two re-analyses of a sample never interleave with different versions.
-    const latest = await loadSampleAnalysis(db, input.sampleId);
+    const latest = await loadSampleAnalysis({ ctx, input });
     if (latest.settingsVersion.id !== analysis.settingsVersion.id || latest.fieldVersion.id !== analysis.fieldVersion.id) return "superseded";
     await db.transaction(async (tx) => {
       for (const { s, pickId, source } of rows) {
-        const meta = metaOfRow(s, sessionT.get(s.sessionId));
-        const field = fieldFor(analysis.modelFor(s.tipId ? (tipById.get(s.tipId) ?? null) : null), meta);
+        const model = analysis.modelFor(s.tipId ? (tipById.get(s.tipId) ?? null) : null);
+        const { pick, field } = analyzeSpectrum({ bias_V: s.biasV, didv: s.didv, meta: metaOfRow(s, sessionT.get(s.sessionId)) }, { settings: analysis.settings, model });
         const { warning: _w, ...fieldCols } = field;
         await tx.update(spectra).set({ ...fieldCols, fieldModelVersionId: analysis.fieldVersion.id, updatedAt: new Date() }).where(eq(spectra.id, s.id));
-        const pick = pickGap({ bias_V: s.biasV, didv: s.didv, meta }, analysis.settings);
         const cols = pickColumns(pick, analysis.settingsVersion.id);
         if (source === "auto") {
           await tx.update(gapPicks).set({ ...cols, version: sql`${gapPicks.version} + 1`, updatedAt: new Date() }).where(eq(gapPicks.id, pickId));
@@ -65,7 +67,7 @@ export async function reanalyzeSample(db: DbOrTx, input: { sampleId: string; run
   // decision) come next, and the run says so until it has ended, so no one reads "25 of 25" as finished.
   if (runs) await db.update(analysisRuns).set({ status: "fitting", done, updatedAt: new Date() }).where(runs);
   await reflagRepeats(db, input.sampleId);
-  const refit = await refitSample(db, input.sampleId);
+  const refit = await refitSample({ ctx, input });
   if (runs) await db.update(analysisRuns).set({ status: "done", done, updatedAt: new Date() }).where(runs);
   return refit;
 }

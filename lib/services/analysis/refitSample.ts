@@ -1,60 +1,23 @@
 import "server-only";
-import { and, eq, inArray, isNotNull, or, sql, type SQL } from "drizzle-orm";
+import { and, eq, isNotNull, sql } from "drizzle-orm";
+import type { DbCtx } from "@/lib/base/context";
 import type { DbOrTx } from "@/db/client";
-import { analysisRuns, crossings, gapPicks, spectra, type Crossing, type FlaggedInFit } from "@/db/schema";
+import { crossings, gapPicks, spectra, type Crossing } from "@/db/schema";
 import { fitSweep, type CrossingFit } from "@/lib/spectra";
 import { afterRefit } from "../alerts/afterRefit";
-import { currentCrossing } from "../alerts/recordEvent";
-import { loadSampleAnalysis } from "./sampleModel";
-
-export interface RefitResult {
-  previous: Crossing | null;
-  current: Crossing;
-  fit: CrossingFit;
-}
-
-
-/**
- * Refits a sample's gap versus field over its included spectra and stores the result as its
- * current crossing, then decides the crossing alerts for it (lib/services/alerts/afterRefit.ts).
- * Spectra whose automatic pick carries a quality flag enter unless the lab's setting says
- * `exclude` (`flaggedOutOfFit`); corrected picks always enter, an analyst has looked at them.
- */
-export async function refitSample(db: DbOrTx, sampleId: string): Promise<RefitResult> {
-  const result = await db.transaction(async (tx) => {
-    // One refit of a sample at a time (across every process): each reads all that was committed
-    // before it took the lock, so the newest crossing row always covers the newest data.
-    await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`refit:${sampleId}`}, 0))`);
-    return fitAndStore(tx, sampleId);
-  });
-  // Every refit ends here, so no caller can skip the crossing alerts (found, moved): see afterRefit.
-  await afterRefit(db, result);
-  return result;
-}
-
-/**
- * A queued refit (refit-sample job) with its progress run: running, then done with the sample's
- * spectrum count. A re-analysis that took the run over meanwhile (it covers every open run of
- * the sample, and ends in a refit itself) has marked it done already; that is left as it is.
- */
-export async function runRefit(db: DbOrTx, job: { sampleId: string; runId: string }): Promise<RefitResult> {
-  const open = and(eq(analysisRuns.id, job.runId), inArray(analysisRuns.status, ["queued", "running"]));
-  const [{ n }] = await db.select({ n: sql<number>`count(*)::int` }).from(spectra).where(eq(spectra.sampleId, job.sampleId));
-  await db.update(analysisRuns).set({ status: "running", total: n, done: 0, updatedAt: new Date() }).where(open);
-  const result = await refitSample(db, job.sampleId);
-  await db.update(analysisRuns).set({ status: "done", done: n, updatedAt: new Date() }).where(open);
-  return result;
-}
+import { currentCrossing } from "../alerts/currentCrossing";
+import { loadSampleAnalysis } from "./loadSampleAnalysis";
+import { inFitByFlags, type RefitResult } from "./shared";
 
 async function fitAndStore(db: DbOrTx, sampleId: string): Promise<RefitResult> {
-  const analysis = await loadSampleAnalysis(db, sampleId);
+  const analysis = await loadSampleAnalysis({ ctx: { db }, input: { sampleId } });
   const rows = await db
     .select({ field: spectra.fieldVPerNm, fieldSigma: spectra.fieldSigmaVPerNm, gap: gapPicks.gapEv, gapSigma: gapPicks.uncertaintyEv })
     .from(spectra)
     .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
     .where(and(eq(spectra.sampleId, sampleId), eq(gapPicks.excluded, false), eq(gapPicks.status, "ok"), isNotNull(spectra.fieldVPerNm), isNotNull(gapPicks.gapEv), inFitByFlags(analysis.lab.flaggedInFit)));
   const fit = fitSweep(rows.map((r) => ({ field_V_per_nm: r.field!, fieldSigma_V_per_nm: r.fieldSigma, gap_eV: r.gap!, gapSigma_eV: r.gapSigma })));
-  const previous = await currentCrossing(db, sampleId);
+  const previous = await currentCrossing({ ctx: { db }, input: { sampleId } });
   const ci = fit.ci95Total_V_per_nm ?? fit.ci95_V_per_nm;
   // A refit that changes nothing (a failed file, a tag that moves no point) keeps the current row:
   // the history of crossings records changes, not every time someone asked.
@@ -99,16 +62,26 @@ async function fitAndStore(db: DbOrTx, sampleId: string): Promise<RefitResult> {
   return { previous: previous ?? null, current, fit };
 }
 
-/** The picks a lab's flagged-spectra setting lets into the fit: all, or the unflagged and the corrected. */
-export function inFitByFlags(setting: FlaggedInFit): SQL | undefined {
-  return setting === "exclude" ? or(eq(gapPicks.source, "corrected"), sql`jsonb_array_length(${gapPicks.flags}) = 0`) : undefined;
+/**
+ * Refits a sample's gap versus field over its included spectra and stores the result as its
+ * current crossing, then decides the crossing alerts for it (lib/services/alerts/afterRefit.ts).
+ * Spectra whose automatic pick carries a quality flag enter unless the lab's setting says
+ * `exclude` (`flaggedOutOfFit`); corrected picks always enter, an analyst has looked at them.
+ */
+export async function refitSample({ ctx, input }: { ctx: DbCtx; input: { sampleId: string } }): Promise<RefitResult> {
+  const { sampleId } = input;
+  const result = await ctx.db.transaction(async (tx) => {
+    // One refit of a sample at a time (across every process): each reads all that was committed
+    // before it took the lock, so the newest crossing row always covers the newest data.
+    await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`refit:${sampleId}`}, 0))`);
+    return fitAndStore(tx, sampleId);
+  });
+  // Every refit ends here, so no caller can skip the crossing alerts (found, moved): see afterRefit.
+  await afterRefit({ ctx, input: { sampleId } });
+  return result;
 }
 
-/** Whether a pick is left out of the fit by the lab's flagged-spectra setting alone (not excluded by hand). */
-export function flaggedOutOfFit(setting: FlaggedInFit, p: { source: "auto" | "corrected"; excluded: boolean; flags: readonly unknown[] }): boolean {
-  return setting === "exclude" && p.source === "auto" && !p.excluded && p.flags.length > 0;
-}
-
+/** A new fit keeps a confirmation while its field stays inside the confirmed crossing's 95% interval. */
 function sameCrossing(prev: Crossing, fit: CrossingFit): boolean {
   if (prev.state !== fit.state || fit.field_V_per_nm == null || prev.ci95LoVPerNm == null || prev.ci95HiVPerNm == null) return false;
   return fit.field_V_per_nm >= prev.ci95LoVPerNm && fit.field_V_per_nm <= prev.ci95HiVPerNm;

@@ -1,13 +1,13 @@
 import "server-only";
 import { createHash } from "node:crypto";
 import { and, eq } from "drizzle-orm";
-import type { DbOrTx } from "@/db/client";
+import type { SystemCtx } from "@/lib/base/context";
 import { labs, measurementSessions, memberships, samples, tips, users } from "@/db/schema";
 import { actorForUser } from "@/lib/auth/actor";
 import { columnsToCsv, makeSpectrum, makeSweep, spectrumToCsv } from "@/lib/spectra";
-import { createSession } from "../sessions/sessions";
+import { createSession } from "../sessions/createSession";
 import { createUploads } from "../uploads/createUploads";
-import { completeUpload } from "../uploads/uploadStatus";
+import { completeUpload } from "../uploads/completeUpload";
 
 /**
  * Spectra for the invented demo lab, from the project's physical model (lib/spectra/synthetic.ts):
@@ -15,7 +15,9 @@ import { completeUpload } from "../uploads/uploadStatus";
  * series that only closes; on a third film a 12 × 12 grid at one setpoint whose gap dips near a step. They go through the
  * real upload path (storage, queue, worker), so a fresh `npm start` shows a working notebook.
  */
-export async function seedDemoSpectra(db: DbOrTx, labSlug: string): Promise<number> {
+export async function seedDemoSpectra({ ctx: system, input }: { ctx: SystemCtx; input: { labSlug: string } }): Promise<number> {
+  const { db } = system;
+  const { labSlug } = input;
   const [owner] = await db
     .select({ id: users.id })
     .from(memberships)

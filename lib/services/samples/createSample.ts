@@ -1,12 +1,12 @@
 import "server-only";
 import { samples } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { sampleInput } from "@/lib/schemas/lab";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { conflict, isUniqueViolation } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { conflict, isUniqueViolation } from "@/lib/base/errors";
 import { parseInput } from "../parse";
-import { subscribeLabDefaults } from "../alerts/subscribeLabDefaults";
+import { subscribeLabDefaults } from "./subscribeLabDefaults";
 import { ensureSampleVersions } from "./ensureSampleVersions";
 
 export async function createSample({ ctx, input }: { ctx: Ctx; input: unknown }) {
@@ -26,8 +26,8 @@ export async function createSample({ ctx, input }: { ctx: Ctx; input: unknown })
         createdBy: ctx.actor.userId,
       })
       .returning();
-    await ensureSampleVersions(ctx, row.id);
-    await subscribeLabDefaults(ctx, row.id);
+    await ensureSampleVersions({ ctx, input: { sampleId: row.id } });
+    await subscribeLabDefaults({ ctx, input: { sampleId: row.id } });
     await recordAudit(ctx, "sample.create", { type: "sample", id: row.id }, { name: row.name });
     return row;
   } catch (e) {

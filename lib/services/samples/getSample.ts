@@ -1,9 +1,9 @@
 import "server-only";
 import { and, eq } from "drizzle-orm";
 import { samples } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
-import type { Ctx } from "../context";
-import { notFound } from "../errors";
+import { assertCan } from "@/lib/base/permissions";
+import type { Ctx } from "@/lib/base/context";
+import { notFound } from "@/lib/base/errors";
 import { sampleVisibility } from "./visibility";
 
 export async function getSample({ ctx, input }: { ctx: Ctx; input: { id: string } }) {

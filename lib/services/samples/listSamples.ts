@@ -1,7 +1,7 @@
 import "server-only";
 import { sql } from "drizzle-orm";
-import { assertCan } from "@/lib/auth/permissions";
-import type { Ctx } from "../context";
+import { assertCan } from "@/lib/base/permissions";
+import type { Ctx } from "@/lib/base/context";
 import { sampleVisibility } from "./visibility";
 import { samples } from "@/db/schema";
 import type { SampleSummary } from "./types";

@@ -1,13 +1,13 @@
 import "server-only";
 import { and, eq } from "drizzle-orm";
 import { samples } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { samplePatch } from "@/lib/schemas/lab";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { conflict, isUniqueViolation, notFound } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { conflict, isUniqueViolation, notFound } from "@/lib/base/errors";
 import { parseInput } from "../parse";
-import { queueReanalysis } from "../analysis/versions";
+import { queueReanalysis } from "../runs/queueReanalysis";
 import { isUuid } from "./getSample";
 
 export async function updateSample({ ctx, input }: { ctx: Ctx; input: { id: string; patch: unknown } }) {
@@ -32,7 +32,7 @@ export async function updateSample({ ctx, input }: { ctx: Ctx; input: { id: stri
     if (!row) throw notFound("sample");
     await recordAudit(ctx, "sample.update", { type: "sample", id: row.id }, { fields: Object.keys(data) });
     // The sample's work function is part of every field estimate: re-estimate them.
-    if (row.workFunctionEv !== before.workFunctionEv || row.workFunctionSigmaEv !== before.workFunctionSigmaEv) await queueReanalysis(ctx, row.id, "sample work function changed");
+    if (row.workFunctionEv !== before.workFunctionEv || row.workFunctionSigmaEv !== before.workFunctionSigmaEv) await queueReanalysis({ ctx, input: { sampleId: row.id, reason: "sample work function changed" } });
     return row;
   } catch (e) {
     if (isUniqueViolation(e)) throw conflict(`A sample with that name already exists in this lab.`);

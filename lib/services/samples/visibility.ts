@@ -1,8 +1,8 @@
 import "server-only";
 import { and, eq, inArray, type SQL } from "drizzle-orm";
 import { sampleAccess, samples } from "@/db/schema";
-import { notFound } from "../errors";
-import type { Ctx } from "../context";
+import { notFound } from "@/lib/base/errors";
+import type { Ctx } from "@/lib/base/context";
 
 /**
  * Which samples the actor may see. Members see all of their lab's samples; a collaborator with

@@ -1,14 +1,14 @@
 import "server-only";
 import { and, eq, inArray } from "drizzle-orm";
-import { measurementSessions, spectra, tips } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { spectra, tips } from "@/db/schema";
+import { assertCan } from "@/lib/base/permissions";
 import { tagSpectraInput } from "@/lib/schemas/uploads";
 import { fieldFor } from "../analysis/analyzeSpectrum";
 import { refitSample } from "../analysis/refitSample";
-import { loadSampleAnalysis } from "../analysis/sampleModel";
+import { loadSampleAnalysis } from "../analysis/loadSampleAnalysis";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { notFound } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { notFound } from "@/lib/base/errors";
 import { parseInput } from "../parse";
 
 /**
@@ -26,7 +26,7 @@ export async function tagSpectra({ ctx, input }: { ctx: Ctx; input: unknown }) {
     if (!t) throw notFound("tip");
   }
   const sampleIds = [...new Set(rows.map((r) => r.sampleId))];
-  const analyses = new Map(await Promise.all(sampleIds.map(async (id) => [id, await loadSampleAnalysis(ctx.db, id)] as const)));
+  const analyses = new Map(await Promise.all(sampleIds.map(async (id) => [id, await loadSampleAnalysis({ ctx, input: { sampleId: id } })] as const)));
   const tipRows = await ctx.db.select().from(tips).where(eq(tips.labId, ctx.actor.labId));
   const tipById = new Map(tipRows.map((t) => [t.id, t]));
 
@@ -51,7 +51,7 @@ export async function tagSpectra({ ctx, input }: { ctx: Ctx; input: unknown }) {
   });
   await recordAudit(ctx, "spectra.tag", { type: "spectra", id: ids.length === 1 ? ids[0] : null }, { count: ids.length, fields: Object.keys(patch) });
   const refits = [];
-  for (const id of sampleIds) refits.push(await refitSample(ctx.db, id));
+  for (const id of sampleIds) refits.push(await refitSample({ ctx, input: { sampleId: id } }));
   return { updated: rows.length, refits };
 }
 

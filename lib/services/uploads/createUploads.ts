@@ -1,13 +1,13 @@
 import "server-only";
 import { and, eq, inArray } from "drizzle-orm";
 import { measurementSessions, uploads } from "@/db/schema";
-import { assertCan } from "@/lib/auth/permissions";
+import { assertCan } from "@/lib/base/permissions";
 import { env } from "@/lib/env";
 import { createUploadsInput } from "@/lib/schemas/uploads";
 import { presignPut, rawKey } from "@/lib/storage/s3";
 import { recordAudit } from "../audit";
-import type { Ctx } from "../context";
-import { notFound, tooLarge } from "../errors";
+import type { Ctx } from "@/lib/base/context";
+import { notFound, tooLarge } from "@/lib/base/errors";
 import { parseInput } from "../parse";
 
 export interface UploadTicket {

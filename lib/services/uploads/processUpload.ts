@@ -1,20 +1,16 @@
 import "server-only";
 import { and, eq, inArray, ne, sql } from "drizzle-orm";
-import type { DbOrTx } from "@/db/client";
+import type { SystemCtx } from "@/lib/base/context";
 import { gapPicks, measurementSessions, spectra, tips, uploads } from "@/db/schema";
 import { sha256Hex } from "@/lib/auth/secrets";
-import { importSpectra, pickGap, type ParsedSpectrum } from "@/lib/spectra";
+import { importSpectra, type ParsedSpectrum } from "@/lib/spectra";
 import { getObjectBytes } from "@/lib/storage/s3";
-import { fieldFor, pickColumns, repeatFlags } from "../analysis/analyzeSpectrum";
-import { refitSample, type RefitResult } from "../analysis/refitSample";
-import { loadSampleAnalysis } from "../analysis/sampleModel";
+import { analyzeSpectrum, pickColumns, repeatFlags } from "../analysis/analyzeSpectrum";
+import { refitSample } from "../analysis/refitSample";
+import { loadSampleAnalysis } from "../analysis/loadSampleAnalysis";
+import { ProcessOutcome, fail } from "./shared";
 
 const INSERT_BATCH = 400;
-
-export type ProcessOutcome =
-  | { status: "done"; spectra: number; refit: RefitResult }
-  | { status: "failed"; message: string }
-  | { status: "skipped"; reason: string };
 
 /**
  * The worker's job for one raw file: read it from storage, parse it with the analysis core, store
@@ -25,11 +21,13 @@ export type ProcessOutcome =
  * parser's message; its raw bytes stay in storage. Infrastructure errors (storage or database
  * unreachable) are thrown, so the queue retries with backoff.
  */
-export async function processUpload(db: DbOrTx, uploadId: string, hooks: { afterRead?: () => Promise<void>; afterParse?: () => Promise<void> } = {}): Promise<ProcessOutcome> {
+export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { uploadId: string } }): Promise<ProcessOutcome> {
+  const { db, faults = {} } = ctx;
+  const { uploadId } = input;
   const [u] = await db.select().from(uploads).where(eq(uploads.id, uploadId));
   if (!u) return { status: "skipped", reason: "no such upload" };
   if (u.status === "done") return { status: "skipped", reason: "already done" };
-  await hooks.afterRead?.();
+  await faults.afterRead?.();
   // Marked in flight only while not done: a plain write here, from a run that read the row just
   // before another run stored the file, turned "done" back into "processing" and the file was
   // stored a second time under new ids.
@@ -45,7 +43,7 @@ export async function processUpload(db: DbOrTx, uploadId: string, hooks: { after
     return fail(db, u.id, "The stored bytes do not match the file's SHA-256: the transfer was damaged. Upload the file again.");
   }
   const files = importSpectra(u.fileName, bytes);
-  await hooks.afterParse?.();
+  await faults.afterParse?.();
   const good = files.filter((f) => f.status === "ok" && f.spectra.length > 0);
   const bad = files.filter((f) => f.status === "error");
   if (good.length === 0) {
@@ -54,16 +52,14 @@ export async function processUpload(db: DbOrTx, uploadId: string, hooks: { after
   }
 
   const [session] = await db.select().from(measurementSessions).where(eq(measurementSessions.id, u.sessionId));
-  const analysis = await loadSampleAnalysis(db, session.sampleId);
+  const analysis = await loadSampleAnalysis({ ctx, input: { sampleId: session.sampleId } });
   const [tip] = session.tipId ? await db.select().from(tips).where(eq(tips.id, session.tipId)) : [];
   const model = analysis.modelFor(tip ?? null);
 
   const warnings = [...files.flatMap((f) => f.warnings.map((w) => (files.length > 1 ? `${f.file}: ${w}` : w))), ...bad.map((f) => `${f.file} skipped: ${f.message}`)];
   const all: ParsedSpectrum[] = good.flatMap((f) => f.spectra);
   const prepared = all.map((s) => {
-    const meta = { ...s.meta, temperature_K: s.meta.temperature_K ?? session.temperatureK ?? undefined };
-    const pick = pickGap({ bias_V: s.bias_V, didv: s.didv, meta }, analysis.settings);
-    const field = fieldFor(model, meta);
+    const { meta, pick, field } = analyzeSpectrum(s, { settings: analysis.settings, model, sessionTemperatureK: session.temperatureK });
     const spectrumWarnings = [...s.warnings, ...pick.warnings, ...(field.warning ? [field.warning] : [])];
     return { s, meta, pick, field, spectrumWarnings };
   });
@@ -124,27 +120,6 @@ export async function processUpload(db: DbOrTx, uploadId: string, hooks: { after
     return true;
   });
   if (!stored) return { status: "skipped", reason: "already done by another run" };
-  const refit = await refitSample(db, session.sampleId);
+  const refit = await refitSample({ ctx, input: { sampleId: session.sampleId } });
   return { status: "done", spectra: prepared.length, refit };
-}
-
-/** Marks the file failed with its message; `retryable` when processing it again can help (not a file that cannot be read). */
-async function fail(db: DbOrTx, id: string, message: string, retryable = false): Promise<ProcessOutcome> {
-  const [u] = await db
-    .update(uploads)
-    .set({ status: "failed", message, retryable, updatedAt: new Date() })
-    .where(and(eq(uploads.id, id), ne(uploads.status, "done")))
-    .returning({ sessionId: uploads.sessionId });
-  if (!u) return { status: "skipped", reason: "already done by another run" };
-  // The sample's alerts wait while any of its files is in flight; this one no longer is, so refit
-  // (nothing changed in the data) to let the decision be made if it was the last.
-  const [session] = await db.select({ sampleId: measurementSessions.sampleId }).from(measurementSessions).where(eq(measurementSessions.id, u.sessionId));
-  if (session) await refitSample(db, session.sampleId);
-  return { status: "failed", message };
-}
-
-/** After the queue's last retry: the file is marked failed with the reason, and its bytes are kept. */
-export async function markUploadFailed(db: DbOrTx, id: string, error: unknown): Promise<void> {
-  const reason = error instanceof Error ? error.message : String(error);
-  await fail(db, id, `Processing failed after several attempts (${reason}). The raw file is kept; retry once the problem is fixed.`, true);
 }

@@ -10,7 +10,7 @@ import path from "node:path";
 import bcrypt from "bcryptjs";
 import { db } from "@/db/client";
 import { labs, memberships, users } from "@/db/schema";
-import { createTokenForLab } from "@/lib/services/tokens/tokens";
+import { createTokenForLab } from "@/lib/services/tokens/createTokenForLab";
 import { makeSweep, type SyntheticSweepPoint } from "@/lib/spectra";
 
 export const line = (s = "") => process.stdout.write(s + "\n");
@@ -62,7 +62,7 @@ export function benchLab(): Promise<BenchLab> {
     const [lab] = await d.insert(labs).values({ slug: `bench-${tag}`, name: `Bench lab ${tag}` }).returning();
     const [u] = await d.insert(users).values({ email: `owner-${tag}@bench.example`, name: `Bench owner ${tag}`, passwordHash: await bcrypt.hash(BENCH_PASSWORD, 8) }).returning();
     await d.insert(memberships).values({ labId: lab.id, userId: u.id, role: "owner" });
-    const made = await createTokenForLab({ db: d, labSlug: lab.slug, name: "bench" });
+    const made = await createTokenForLab({ ctx: { db: d, task: "bench" }, input: { labSlug: lab.slug, name: "bench" } });
     const partial = { slug: lab.slug, email: u.email, token: made.token, tipId: "" };
     const tip = await api<{ id: string }>(partial, "POST", "/tips", { label: `W-${tag}`, material: "W", workFunction_eV: 4.7, workFunctionSigma_eV: 0.1 });
     return { ...partial, tipId: tip.id };

@@ -1,14 +1,14 @@
 import type { Metadata } from "next";
-import { db } from "@/db/client";
-import { ROLE_LABEL, ROLE_SUMMARY } from "@/lib/auth/permissions";
-import { describeInvitation } from "@/lib/services/members/members";
+import { ROLE_LABEL, ROLE_SUMMARY } from "@/lib/base/permissions";
+import { describeInvitation } from "@/lib/services/members/describeInvitation";
+import { systemContext } from "@/lib/services/system";
 import { AcceptInviteForm } from "./accept-form";
 
 export const metadata: Metadata = { title: "Join a lab" };
 
 export default async function InvitePage({ params }: { params: Promise<{ token: string }> }) {
   const { token } = await params;
-  const invite = await describeInvitation({ db: db(), token });
+  const invite = await describeInvitation({ ctx: systemContext("invitation link"), input: { token } });
   if (!invite) {
     return (
       <div className="w-full max-w-sm">

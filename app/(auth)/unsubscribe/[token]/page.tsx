@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
-import { db } from "@/db/client";
-import { describeUnsubscribe } from "@/lib/services/alerts/unsubscribe";
+import { describeUnsubscribe } from "@/lib/services/alerts/describeUnsubscribe";
+import { systemContext } from "@/lib/services/system";
 import { ConfirmUnsubscribe } from "./confirm";
 
 export const metadata: Metadata = { title: "Stop e-mails", robots: { index: false } };
@@ -11,7 +11,7 @@ export const metadata: Metadata = { title: "Stop e-mails", robots: { index: fals
  */
 export default async function UnsubscribePage({ params }: { params: Promise<{ token: string }> }) {
   const { token } = await params;
-  const info = await describeUnsubscribe({ db: db(), token: decodeURIComponent(token) });
+  const info = await describeUnsubscribe({ ctx: systemContext("unsubscribe link"), input: { token: decodeURIComponent(token) } });
   if (!info) {
     return (
       <div className="w-full max-w-sm">

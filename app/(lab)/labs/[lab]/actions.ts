@@ -4,14 +4,21 @@ import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import type { ActionState } from "@/lib/actions/types";
 import { runAction } from "@/lib/actions/validated";
-import { setFlaggedInFit, updateLabDefaults } from "@/lib/services/labs/labSettings";
-import { changeRole, inviteMember, removeMember, revokeInvitation } from "@/lib/services/members/members";
-import { setSampleAccess } from "@/lib/services/members/sampleAccess";
+import { setFlaggedInFit } from "@/lib/services/labs/setFlaggedInFit";
+import { updateLabDefaults } from "@/lib/services/labs/updateLabDefaults";
+import { changeRole } from "@/lib/services/members/changeRole";
+import { inviteMember } from "@/lib/services/members/inviteMember";
+import { removeMember } from "@/lib/services/members/removeMember";
+import { revokeInvitation } from "@/lib/services/members/revokeInvitation";
+import { setSampleAccess } from "@/lib/services/members/setSampleAccess";
 import { createSample } from "@/lib/services/samples/createSample";
 import { updateSample } from "@/lib/services/samples/updateSample";
-import { createSession, updateSession } from "@/lib/services/sessions/sessions";
-import { createTip, updateTip } from "@/lib/services/tips/tips";
-import { createToken, revokeToken } from "@/lib/services/tokens/tokens";
+import { createSession } from "@/lib/services/sessions/createSession";
+import { updateSession } from "@/lib/services/sessions/updateSession";
+import { createTip } from "@/lib/services/tips/createTip";
+import { updateTip } from "@/lib/services/tips/updateTip";
+import { createToken } from "@/lib/services/tokens/createToken";
+import { revokeToken } from "@/lib/services/tokens/revokeToken";
 
 /*
  * Server actions of the lab area. Each one is a public endpoint: runAction resolves the actor from
@@ -47,7 +54,7 @@ export async function createTipAction(lab: string, _s: ActionState, fd: FormData
 
 export async function updateTipAction(lab: string, tipId: string, _s: ActionState, fd: FormData): Promise<ActionState> {
   const state = await runAction(lab, fd, async (ctx) => {
-    await updateTip({ ctx, input: { id: tipId, data: form(fd) } });
+    await updateTip({ ctx, input: { id: tipId, patch: form(fd) } });
   });
   if (state.ok) redirect(`/labs/${lab}/tips`);
   return state;
@@ -64,7 +71,7 @@ export async function createSessionAction(lab: string, _s: ActionState, fd: Form
 
 export async function updateSessionAction(lab: string, sessionId: string, _s: ActionState, fd: FormData): Promise<ActionState> {
   const state = await runAction(lab, fd, async (ctx) => {
-    await updateSession({ ctx, input: { id: sessionId, data: form(fd) } });
+    await updateSession({ ctx, input: { id: sessionId, patch: form(fd) } });
   });
   if (state.ok) redirect(`/labs/${lab}/sessions/${sessionId}`);
   return state;

@@ -1,8 +1,8 @@
 import { LabNav } from "@/components/lab/lab-nav";
 import { pageCtx } from "@/lib/actions/validated";
 import { auth } from "@/lib/auth";
-import { can } from "@/lib/auth/permissions";
-import { unreadCount } from "@/lib/services/alerts/notifications";
+import { can } from "@/lib/base/permissions";
+import { unreadCount } from "@/lib/services/alerts/unreadCount";
 import { signOutAction } from "../../../(auth)/actions";
 
 export default async function LabLayout({ children, params }: { children: React.ReactNode; params: Promise<{ lab: string }> }) {

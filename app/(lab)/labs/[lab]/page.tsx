@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { ButtonLink } from "@/components/ui/button";
 import { EmptyState, PageHeader } from "@/components/ui/card";
 import { pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
+import { can } from "@/lib/base/permissions";
 import { listSamples } from "@/lib/services/samples/listSamples";
 import { SamplesTable } from "./samples-table";
 

@@ -2,7 +2,8 @@ import { NextResponse } from "next/server";
 import { apiRoute, readJson } from "@/lib/http/respond";
 import { presentSession } from "@/lib/http/present";
 import { parseInput } from "@/lib/services/parse";
-import { createSession, listSessions } from "@/lib/services/sessions/sessions";
+import { createSession } from "@/lib/services/sessions/createSession";
+import { listSessions } from "@/lib/services/sessions/listSessions";
 import { createSessionBody } from "./schema";
 
 export const GET = apiRoute(async ({ ctx, request }) => {

@@ -2,7 +2,8 @@ import { NextResponse } from "next/server";
 import { apiRoute, readJson } from "@/lib/http/respond";
 import { presentTip } from "@/lib/http/present";
 import { parseInput } from "@/lib/services/parse";
-import { createTip, listTips } from "@/lib/services/tips/tips";
+import { createTip } from "@/lib/services/tips/createTip";
+import { listTips } from "@/lib/services/tips/listTips";
 import { createTipBody } from "./schema";
 
 export const GET = apiRoute(async ({ ctx }) => NextResponse.json({ tips: (await listTips({ ctx })).map(presentTip) }));

@@ -3,7 +3,7 @@
 import { useRouter } from "next/navigation";
 import { useTransition } from "react";
 import { Button } from "@/components/ui/button";
-import { markReadAction } from "../alert-actions";
+import { markReadAction } from "@/lib/actions/alerts";
 
 export function MarkRead({ lab, id }: { lab: string; id: string }) {
   const router = useRouter();

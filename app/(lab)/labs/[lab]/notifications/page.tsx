@@ -1,8 +1,9 @@
+import { formatUtc } from "@/lib/format";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { Card, EmptyState, PageHeader } from "@/components/ui/card";
 import { pageCtx } from "@/lib/actions/validated";
-import { listNotifications } from "@/lib/services/alerts/notifications";
+import { listNotifications } from "@/lib/services/alerts/listNotifications";
 import { MarkAllRead, MarkRead } from "./mark-read";
 
 export const metadata: Metadata = { title: "Alerts" };
@@ -50,7 +51,7 @@ export default async function NotificationsPage({ params }: { params: Promise<{ 
                       {n.read ? null : <span className="sr-only"> (unread)</span>}
                     </p>
                     <p className="mt-0.5 text-xs text-muted">
-                      {n.body} · <time dateTime={n.createdAt}>{new Date(n.createdAt).toISOString().slice(0, 16).replace("T", " ")} UTC</time>
+                      {n.body} · <time dateTime={n.createdAt}>{formatUtc(n.createdAt)}</time>
                     </p>
                   </div>
                   {n.read ? null : <MarkRead lab={lab} id={n.id} />}

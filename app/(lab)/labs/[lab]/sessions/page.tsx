@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import { ButtonLink } from "@/components/ui/button";
 import { PageHeader } from "@/components/ui/card";
 import { pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
-import { listSessions } from "@/lib/services/sessions/sessions";
+import { can } from "@/lib/base/permissions";
+import { listSessions } from "@/lib/services/sessions/listSessions";
 import { SessionsTable } from "./sessions-table";
 
 export const metadata: Metadata = { title: "Sessions" };

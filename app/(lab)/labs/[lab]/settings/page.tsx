@@ -3,12 +3,12 @@ import { notFound } from "next/navigation";
 import { EntityForm } from "@/components/forms/entity-form";
 import { Card, PageHeader } from "@/components/ui/card";
 import { pageCtx } from "@/lib/actions/validated";
-import { can, ROLE_LABEL, ROLES } from "@/lib/auth/permissions";
-import { getLab } from "@/lib/services/labs/labSettings";
-import { listMembers } from "@/lib/services/members/members";
-import { listSampleAccess } from "@/lib/services/members/sampleAccess";
+import { can, ROLE_LABEL, ROLES } from "@/lib/base/permissions";
+import { getLab } from "@/lib/services/labs/getLab";
+import { listMembers } from "@/lib/services/members/listMembers";
+import { listSampleAccess } from "@/lib/services/members/listSampleAccess";
 import { listSamples } from "@/lib/services/samples/listSamples";
-import { listTokens } from "@/lib/services/tokens/tokens";
+import { listTokens } from "@/lib/services/tokens/listTokens";
 import { inviteAction, setFlaggedInFitAction, updateLabDefaultsAction } from "../actions";
 import { MembersPanel, TokensPanel } from "./panels";
 

@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import { ButtonLink } from "@/components/ui/button";
 import { PageHeader } from "@/components/ui/card";
 import { pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
-import { listTips } from "@/lib/services/tips/tips";
+import { can } from "@/lib/base/permissions";
+import { listTips } from "@/lib/services/tips/listTips";
 import { TipsTable } from "./tips-table";
 
 export const metadata: Metadata = { title: "Tips" };

@@ -3,8 +3,8 @@ import { EntityForm } from "@/components/forms/entity-form";
 import { sampleFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
 import { pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
-import { getLab } from "@/lib/services/labs/labSettings";
+import { can } from "@/lib/base/permissions";
+import { getLab } from "@/lib/services/labs/getLab";
 import { createSampleAction } from "../../actions";
 
 export default async function NewSamplePage({ params }: { params: Promise<{ lab: string }> }) {

@@ -4,10 +4,10 @@ import { UploadPanel } from "@/components/uploads/upload-panel";
 import { ButtonLink } from "@/components/ui/button";
 import { Card, PageHeader } from "@/components/ui/card";
 import { orNotFound, pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
-import { getSession } from "@/lib/services/sessions/sessions";
-import { listTips } from "@/lib/services/tips/tips";
-import { listSessionUploads } from "@/lib/services/uploads/uploadStatus";
+import { can } from "@/lib/base/permissions";
+import { getSession } from "@/lib/services/sessions/getSession";
+import { listTips } from "@/lib/services/tips/listTips";
+import { listSessionUploads } from "@/lib/services/uploads/listSessionUploads";
 
 export default async function SessionPage({ params }: { params: Promise<{ lab: string; sessionId: string }> }) {
   const { lab, sessionId } = await params;

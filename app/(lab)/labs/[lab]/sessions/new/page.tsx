@@ -1,12 +1,13 @@
+import { formatISO } from "date-fns";
 import { notFound } from "next/navigation";
 import { EntityForm } from "@/components/forms/entity-form";
 import { sessionFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
 import { SafetyNote } from "@/components/ui/safety";
 import { pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
+import { can } from "@/lib/base/permissions";
 import { listSamples } from "@/lib/services/samples/listSamples";
-import { listTips } from "@/lib/services/tips/tips";
+import { listTips } from "@/lib/services/tips/listTips";
 import { createSessionAction } from "../../actions";
 
 export default async function NewSessionPage({ params, searchParams }: { params: Promise<{ lab: string }>; searchParams: Promise<{ sample?: string }> }) {
@@ -24,7 +25,7 @@ export default async function NewSessionPage({ params, searchParams }: { params:
           schema="session"
           submitLabel="Create session"
           testId="session-form"
-          fields={sessionFields({ samples, tips }, { sampleId: sample ?? "", date: new Date().toISOString().slice(0, 10) })}
+          fields={sessionFields({ samples, tips }, { sampleId: sample ?? "", date: formatISO(new Date(), { representation: "date" }) })}
         />
       </Card>
       <div className="mt-5">

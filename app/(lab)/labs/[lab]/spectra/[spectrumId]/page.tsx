@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import { SpectrumReview } from "@/components/review/spectrum-review";
 import { PageHeader } from "@/components/ui/card";
 import { orNotFound, pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
-import { getSpectrum } from "@/lib/services/spectra/readSpectra";
+import { can } from "@/lib/base/permissions";
+import { getSpectrum } from "@/lib/services/spectra/getSpectrum";
 
 export const metadata: Metadata = { title: "Review" };
 

@@ -4,8 +4,8 @@ import { tipFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
 import { SafetyNote } from "@/components/ui/safety";
 import { pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
-import { getLab } from "@/lib/services/labs/labSettings";
+import { can } from "@/lib/base/permissions";
+import { getLab } from "@/lib/services/labs/getLab";
 import { createTipAction } from "../../actions";
 
 export default async function NewTipPage({ params }: { params: Promise<{ lab: string }> }) {

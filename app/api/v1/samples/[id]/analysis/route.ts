@@ -1,6 +1,6 @@
 import { NextResponse } from "next/server";
 import { apiRoute } from "@/lib/http/respond";
-import { getSampleVersions } from "@/lib/services/analysis/versions";
+import { getSampleVersions } from "@/lib/services/analysis/getSampleVersions";
 
 /** The sample's current extraction-settings and field-model versions and its latest re-analysis run (with progress: status queued, running, fitting, done or failed with a message). */
 export const GET = apiRoute<{ id: string }>(async ({ ctx, params }) => {

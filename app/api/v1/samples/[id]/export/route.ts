@@ -1,7 +1,10 @@
 import { NextResponse } from "next/server";
 import { z } from "zod";
 import { apiRoute } from "@/lib/http/respond";
-import { methodsText, phaseCsv, phaseJson, spectraCsv } from "@/lib/services/exports/exportSample";
+import { methodsText } from "@/lib/services/exports/methodsText";
+import { phaseCsv } from "@/lib/services/exports/phaseCsv";
+import { phaseJson } from "@/lib/services/exports/phaseJson";
+import { spectraCsv } from "@/lib/services/exports/spectraCsv";
 import { parseInput } from "@/lib/services/parse";
 
 const query = z.object({ format: z.enum(["phase-csv", "spectra-csv", "json", "methods"], { error: "format is one of phase-csv, spectra-csv, json, methods" }) });

@@ -2,7 +2,8 @@ import { NextResponse } from "next/server";
 import { z } from "zod";
 import { apiRoute, readJson } from "@/lib/http/respond";
 import { parseInput } from "@/lib/services/parse";
-import { getSampleVersions, saveExtractionSettings } from "@/lib/services/analysis/versions";
+import { getSampleVersions } from "@/lib/services/analysis/getSampleVersions";
+import { saveExtractionSettings } from "@/lib/services/analysis/saveExtractionSettings";
 
 /** Body: `{ settings: {...partial extraction settings}, note? }`; the settings are checked against the analysis core's schema. */
 const body = z.object({ settings: z.record(z.string(), z.unknown()), note: z.string().max(500).optional() });

@@ -1,7 +1,8 @@
 import { NextResponse } from "next/server";
 import { apiRoute, readJson } from "@/lib/http/respond";
 import { parseInput } from "@/lib/services/parse";
-import { getSampleVersions, saveFieldModel } from "@/lib/services/analysis/versions";
+import { getSampleVersions } from "@/lib/services/analysis/getSampleVersions";
+import { saveFieldModel } from "@/lib/services/analysis/saveFieldModel";
 import { fieldModelBody } from "./schema";
 
 export const GET = apiRoute<{ id: string }>(async ({ ctx, params }) => {

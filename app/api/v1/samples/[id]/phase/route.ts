@@ -1,5 +1,5 @@
 import { apiRoute } from "@/lib/http/respond";
-import { getPhaseJson } from "@/lib/services/spectra/phaseCache";
+import { getPhaseJson } from "@/lib/services/spectra/getPhaseJson";
 
 /** The phase plot's data; revalidate with If-None-Match (304 while nothing it shows has changed). */
 export const GET = apiRoute<{ id: string }>(async ({ ctx, params, request }) => {

@@ -1,7 +1,8 @@
 import { NextResponse } from "next/server";
 import { apiRoute, readJson } from "@/lib/http/respond";
-import { watchSample, watchState } from "@/lib/services/alerts/watchSample";
-import { notFound } from "@/lib/services/errors";
+import { watchSample } from "@/lib/services/alerts/watchSample";
+import { watchState } from "@/lib/services/alerts/watchState";
+import { notFound } from "@/lib/base/errors";
 import { parseInput } from "@/lib/services/parse";
 import { isUuid } from "@/lib/services/samples/getSample";
 import { watchBody } from "./schema";

@@ -2,7 +2,7 @@ import { NextResponse } from "next/server";
 import { apiRoute } from "@/lib/http/respond";
 import { spectraQuery } from "@/lib/schemas/uploads";
 import { parseInput } from "@/lib/services/parse";
-import { listSessionSpectra } from "@/lib/services/spectra/readSpectra";
+import { listSessionSpectra } from "@/lib/services/spectra/listSessionSpectra";
 
 /** `?page&pageSize&sort&dir&q&region`: sorted, filtered and paginated on the server. */
 export const GET = apiRoute<{ id: string }>(async ({ ctx, request, params }) => {

@@ -1,7 +1,7 @@
 import { NextResponse } from "next/server";
 import { apiRoute, readJson } from "@/lib/http/respond";
 import { parseInput } from "@/lib/services/parse";
-import { setExcluded } from "@/lib/services/picks/picks";
+import { setExcluded } from "@/lib/services/picks/setExcluded";
 import { exclusionBody } from "./schema";
 
 export const PUT = apiRoute<{ id: string }>(async ({ ctx, request, params }) => {

@@ -1,7 +1,8 @@
 import { NextResponse } from "next/server";
 import { apiRoute, readJson } from "@/lib/http/respond";
 import { parseInput } from "@/lib/services/parse";
-import { correctPick, pickHistoryOf } from "@/lib/services/picks/picks";
+import { correctPick } from "@/lib/services/picks/correctPick";
+import { pickHistoryOf } from "@/lib/services/picks/pickHistoryOf";
 import { correctPickBody } from "./schema";
 
 /** The pick's history (who, when, old → new, why). */

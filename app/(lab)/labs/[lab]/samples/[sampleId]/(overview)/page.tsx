@@ -12,14 +12,14 @@ import { SettingsEditors } from "@/components/review/settings-editors";
 import { ButtonLink } from "@/components/ui/button";
 import { Card, EmptyState, PageHeader } from "@/components/ui/card";
 import { pageCtx, pageSample } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
-import { loadSampleAnalysis } from "@/lib/services/analysis/sampleModel";
-import { getSampleVersions } from "@/lib/services/analysis/versions";
-import { listSessions } from "@/lib/services/sessions/sessions";
-import { tipsOfSample } from "@/lib/services/tips/tips";
-import { getPhaseJson } from "@/lib/services/spectra/phaseCache";
+import { can } from "@/lib/base/permissions";
+import { loadSampleAnalysis } from "@/lib/services/analysis/loadSampleAnalysis";
+import { getSampleVersions } from "@/lib/services/analysis/getSampleVersions";
+import { listSessions } from "@/lib/services/sessions/listSessions";
+import { tipsOfSample } from "@/lib/services/tips/tipsOfSample";
+import { getPhaseJson } from "@/lib/services/spectra/getPhaseJson";
 import type { PhaseData } from "@/components/review/phase-plot";
-import { getGapMap } from "@/lib/services/spectra/gapMap";
+import { getGapMap } from "@/lib/services/spectra/getGapMap";
 import { GapMap } from "@/components/review/gap-map";
 
 export default async function SamplePage({ params }: { params: Promise<{ lab: string; sampleId: string }> }) {
@@ -31,7 +31,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
     // The same cached JSON the phase endpoint serves (a 5,000-spectrum sample is built once, not per visit).
     getPhaseJson({ ctx, input: { sampleId: s.id } }).then((r) => JSON.parse(r.body!) as PhaseData),
     getSampleVersions({ ctx, input: { sampleId: s.id } }),
-    loadSampleAnalysis(ctx.db, s.id),
+    loadSampleAnalysis({ ctx, input: { sampleId: s.id } }),
     getGapMap({ ctx, input: { sampleId: s.id } }),
     tipsOfSample({ ctx, input: { sampleId: s.id } }),
   ]);

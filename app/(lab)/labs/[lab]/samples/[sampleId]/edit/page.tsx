@@ -3,7 +3,7 @@ import { EntityForm } from "@/components/forms/entity-form";
 import { sampleFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
 import { pageCtx, pageSample } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
+import { can } from "@/lib/base/permissions";
 import { updateSampleAction } from "../../../actions";
 
 export default async function EditSamplePage({ params }: { params: Promise<{ lab: string; sampleId: string }> }) {

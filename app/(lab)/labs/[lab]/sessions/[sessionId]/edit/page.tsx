@@ -3,10 +3,10 @@ import { EntityForm } from "@/components/forms/entity-form";
 import { sessionFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
 import { orNotFound, pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
+import { can } from "@/lib/base/permissions";
 import { listSamples } from "@/lib/services/samples/listSamples";
-import { getSession } from "@/lib/services/sessions/sessions";
-import { listTips } from "@/lib/services/tips/tips";
+import { getSession } from "@/lib/services/sessions/getSession";
+import { listTips } from "@/lib/services/tips/listTips";
 import { updateSessionAction } from "../../../actions";
 
 export default async function EditSessionPage({ params }: { params: Promise<{ lab: string; sessionId: string }> }) {

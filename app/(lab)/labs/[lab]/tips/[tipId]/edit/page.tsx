@@ -3,8 +3,8 @@ import { EntityForm } from "@/components/forms/entity-form";
 import { tipFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
 import { orNotFound, pageCtx } from "@/lib/actions/validated";
-import { can } from "@/lib/auth/permissions";
-import { getTip } from "@/lib/services/tips/tips";
+import { can } from "@/lib/base/permissions";
+import { getTip } from "@/lib/services/tips/getTip";
 import { updateTipAction } from "../../../actions";
 
 export default async function EditTipPage({ params }: { params: Promise<{ lab: string; tipId: string }> }) {

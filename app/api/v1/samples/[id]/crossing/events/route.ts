@@ -1,7 +1,7 @@
 import { NextResponse } from "next/server";
 import { apiRoute } from "@/lib/http/respond";
 import { listCrossingEvents } from "@/lib/services/alerts/listCrossingEvents";
-import { notFound } from "@/lib/services/errors";
+import { notFound } from "@/lib/base/errors";
 import { isUuid } from "@/lib/services/samples/getSample";
 
 export const GET = apiRoute<{ id: string }>(async ({ ctx, params }) => {

@@ -1,7 +1,7 @@
 import { NextResponse } from "next/server";
 import { apiRoute, readJson } from "@/lib/http/respond";
 import { parseInput } from "@/lib/services/parse";
-import { acceptPick } from "@/lib/services/picks/picks";
+import { acceptPick } from "@/lib/services/picks/acceptPick";
 import { acceptBody } from "./schema";
 
 /** Accept the pick as it is (recorded in its history with the version); a stale `version` gets 409. */

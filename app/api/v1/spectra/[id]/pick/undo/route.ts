@@ -1,6 +1,6 @@
 import { NextResponse } from "next/server";
 import { apiRoute, readJson } from "@/lib/http/respond";
-import { undoPickChange } from "@/lib/services/picks/picks";
+import { undoPickChange } from "@/lib/services/picks/undoPickChange";
 
 /** Body `{ version }`: undo the latest change to the pick. */
 export const POST = apiRoute<{ id: string }>(async ({ ctx, request, params }) => {
