@@ -15,6 +15,7 @@ type Part = () => Promise<{ run: () => Promise<void> }>;
 const parts: Record<string, Part> = {
   spectra: () => import("./bench/spectra"),
   accuracy: () => import("./bench/accuracy"),
+  cli: () => import("./bench/cli"),
 };
 
 /** Parts that run inside the bench stack, in this order. */

@@ -43,6 +43,15 @@ describe("sign-in", () => {
     const page = await context.newPage();
     await page.goto(`${APP_URL}/labs/${lab.lab.slug}`);
     await page.waitForURL("**/sign-in**");
+    expect(new URL(page.url()).pathname).toBe("/sign-in");
+    expect(await page.textContent("h1")).toBe("Sign in to Bandcross");
+    // Nothing of the lab reached the visitor: not its name, not its samples.
+    const text = (await page.textContent("body")) ?? "";
+    expect(text).not.toContain(lab.lab.name);
+    expect(text).not.toContain("GX-01 bilayer");
+    // The same refusal without a browser: the API answers 401 to a request with no session or token.
+    const api = await fetch(`${APP_URL}/api/v1/samples?lab=${lab.lab.slug}`);
+    expect(api.status).toBe(401);
     await context.close();
   });
 });
@@ -137,9 +146,21 @@ describe("lab home and forms", () => {
     await s.open();
     await s.signIn(lab.people.analyst.email, TEST_PASSWORD);
     await page.waitForURL(`**/labs/${lab.lab.slug}`);
-    await page.click('button:has-text("Menu")');
-    await page.waitForSelector("nav >> text=Sessions");
+    await page.waitForSelector('[data-testid="samples-table"] >> text=GX-01 bilayer');
+    const menu = page.locator('button:has-text("Menu")');
+    // The navigation is folded away until asked for, so the samples come first on a small screen.
+    expect(await menu.getAttribute("aria-expanded")).toBe("false");
+    expect(await page.isVisible("#lab-nav >> text=Sessions")).toBe(false);
+    await menu.click();
+    await page.waitForSelector("#lab-nav >> text=Sessions");
+    expect(await menu.getAttribute("aria-expanded")).toBe("true");
+    // Nothing wider than the screen: no sideways scrolling of the whole page.
+    const widths = await page.evaluate(() => ({ page: document.documentElement.scrollWidth, screen: window.innerWidth }));
+    expect(widths.page).toBeLessThanOrEqual(widths.screen);
     await shot(page, "lab-home-phone");
+    await page.click("#lab-nav >> text=Sessions");
+    await page.waitForURL(`**/labs/${lab.lab.slug}/sessions`);
+    expect(new URL(page.url()).pathname).toBe(`/labs/${lab.lab.slug}/sessions`);
     await context.close();
   });
 });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { estimateField, makeSpectrum, makeSweep, modelDidv, sweepGap_eV } from "@/lib/spectra";
+import { makeSpectrum, makeSweep, modelDidv, sweepGap_eV } from "@/lib/spectra";
 
 describe("synthetic spectrum model", () => {
   it("inside the gap, far from both edges, dI/dV is the offset (zero density of states)", () => {
@@ -35,14 +35,33 @@ describe("synthetic spectrum model", () => {
 });
 
 describe("synthetic field sweep", () => {
-  it("fields come from the field model and gaps follow Δ = a·|E − E_c|", () => {
-    const sw = makeSweep({ n: 6, seed: 2 });
-    for (const s of sw.spectra) {
-      expect(s.truthField.field_V_per_nm).toBeCloseTo(estimateField(sw.fieldModel, s.meta).field_V_per_nm, 12);
-      expect(s.truthField.gap_eV).toBeCloseTo(1.1 * Math.abs(s.truthField.field_V_per_nm - 0.98), 12);
-      expect(s.truth.gap_eV).toBeCloseTo(s.truthField.gap_eV, 12);
+  it("the first and last point of the default sweep carry the field worked out by hand", () => {
+    // Default sweep: setpoint 0.6 V, currents 20 pA … 3 nA, φ_tip 4.7 eV, φ_sample 3.9 eV, d_c 0.25 nm,
+    // no screening; E_c 0.98 V/nm, slope 1.1 eV per V/nm on both sides.
+    // Worked independently of lib/spectra (CODATA 2018 exact e and h, m_e = 9.1093837015e-31 kg):
+    //   G0 = 2e²/h = 7.7480917e-5 S; barrier (4.7 + 3.9)/2 = 4.3 eV; κ = √(2 m_e φ)/ħ = 10.6236 nm⁻¹
+    //   (the textbook 0.5123·√φ Å⁻¹ gives 10.623 nm⁻¹);
+    //   d = d_c + ln(G0 / (I/V)) / 2κ, E = (φ_tip − φ_sample)/d, Δ = 1.1·|E − 0.98|:
+    //   20 pA: d = 0.93992 nm, E = 0.85113 V/nm, Δ = 0.14175 eV (below E_c)
+    //   3 nA:  d = 0.70410 nm, E = 1.13620 V/nm, Δ = 0.17182 eV (above E_c)
+    const sw = makeSweep({ n: 20, seed: 2 });
+    const worked = [
+      { s: sw.spectra[0], d: 0.93992, e: 0.85113, gap: 0.14175 },
+      { s: sw.spectra[19], d: 0.7041, e: 1.1362, gap: 0.17182 },
+    ];
+    for (const { s, d, e, gap } of worked) {
+      expect(s.truthField.distance_nm).toBeCloseTo(d, 4);
+      expect(s.truthField.field_V_per_nm).toBeCloseTo(e, 4);
+      expect(s.truthField.gap_eV).toBeCloseTo(gap, 4);
+      // The spectrum drawn has that gap between its edges.
+      expect(s.truth.gap_eV).toBeCloseTo(gap, 4);
     }
+    expect(sw.spectra[0].meta.setpoint_current_A).toBeCloseTo(2e-11, 20);
+    expect(sw.spectra[19].meta.setpoint_current_A).toBeCloseTo(3e-9, 18);
+  });
+  it("gaps follow Δ = a·|E − E_c| with the slope ratio above E_c", () => {
     expect(sweepGap_eV(0.98, {})).toBe(0);
+    expect(sweepGap_eV(0.88, {})).toBeCloseTo(0.11, 12);
     expect(sweepGap_eV(1.08, { slopeRatio: 0.5 })).toBeCloseTo(0.055, 12);
   });
 });
