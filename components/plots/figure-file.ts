@@ -30,7 +30,12 @@ interface FileLayout {
   legend?: object;
   margin?: Margin;
   showlegend?: boolean;
+  /** `legendRoom`: px of the bottom margin that hold the screen's legend (a narrow screen's), replaced in a file. */
+  meta?: unknown;
 }
+
+/** The part of the bottom margin the screen gave its legend, which a file lays out afresh. */
+const screenLegendRoom = (layout: FileLayout) => Number((layout.meta as { legendRoom?: number } | undefined)?.legendRoom ?? 0) || 0;
 
 /**
  * The legend of a file `width` px wide: at the figure's foot (container coordinates), never
@@ -54,7 +59,7 @@ export function fileLegend(layout: FileLayout, width: number): object {
 export function fileLayout<L extends FileLayout>(layout: L, { width, height, legendHeight }: { width: number; height: number; legendHeight: number }): { layout: L; height: number } {
   if (layout.showlegend === false || legendHeight <= 0) return { layout, height };
   const t = layout.margin?.t ?? 80;
-  const b = layout.margin?.b ?? 80;
+  const b = (layout.margin?.b ?? 80) - screenLegendRoom(layout);
   const room = Math.ceil(legendHeight) + LEGEND_GAP;
   const plot = Math.max(0, height - t - b);
   const fitted = Math.max(height, Math.ceil(t + b + room + MIN_PLOT_SHARE * plot));

@@ -38,7 +38,8 @@ export function FieldModelCard({ lab, sampleId, initial, model, tipText }: { lab
       </ul>
       <p>
         Field model <span className="num">v{versions.fieldModel.version}</span>, extraction settings <span className="num">v{versions.settings.version}</span>. Error bars: gap from the
-        pick&apos;s uncertainty; field from the work-function and contact-distance uncertainties (common to all points, so they also widen the critical field&apos;s interval).
+        pick&apos;s uncertainty. The field&apos;s uncertainty (work functions, contact distance) is common to all points: one bar at the top of
+        the plot, and it widens the critical field&apos;s interval.
       </p>
     </div>
   );

@@ -1,7 +1,9 @@
 import { COLORS } from "@/components/plots/plot";
 import { paddedRange } from "@/components/plots/ranges";
 import type { getPhase } from "@/lib/services/spectra/readSpectra";
+import { modelFieldRelSigma } from "@/lib/spectra/crossing";
 import { QUALITY_FLAG_LABELS } from "@/lib/spectra/edges/flags";
+import { median } from "@/lib/spectra/stats";
 
 /**
  * What the phase plot (Plotly) and its still preview (SVG) both draw from, kept in one place so
@@ -23,12 +25,51 @@ export const NARROW_QUERY = `(max-width: ${NARROW_MAX_PX}px)`;
 /** The top margin on a narrow screen when the E_c label is shown: the label sits below the mode bar (about 28 px tall). */
 export const PHASE_TOP_NARROW = 56;
 
-/** The phase plot's margins: on a narrow screen with the E_c label, a taller top margin. */
-export function phaseMargin(narrow: boolean, criticalFieldLabel: boolean): { l: number; r: number; t: number; b: number } {
-  return narrow && criticalFieldLabel ? { ...PHASE_MARGIN, t: PHASE_TOP_NARROW } : PHASE_MARGIN;
+/**
+ * The phase plot's margins: on a narrow screen, a taller top margin with the E_c label and a
+ * bottom margin that holds the legend (`legendRoom`, px) below the axis title.
+ */
+export function phaseMargin(narrow: boolean, criticalFieldLabel: boolean, legendRoom = 0): { l: number; r: number; t: number; b: number } {
+  if (!narrow) return PHASE_MARGIN;
+  return { ...PHASE_MARGIN, t: criticalFieldLabel ? PHASE_TOP_NARROW : PHASE_MARGIN.t, b: PHASE_MARGIN.b + legendRoom };
 }
 
-/** Colours of the fit, its band, the critical field's two intervals, excluded points and field error bars. */
+/**
+ * On a narrow screen the legend lists one entry a row at the figure's foot, below the x-axis title
+ * (Plotly's own place for it, a fraction of the plot's height below the axis, put it over the
+ * title once the legend's rows had squeezed the plot), and the plot's box grows by its height, so
+ * the plot keeps the size it has on a wide screen. Plotly draws a one-line entry 20 px tall.
+ */
+export const LEGEND_ROW_PX = 20;
+/** Room between the x-axis title and a narrow screen's legend, px. */
+export const LEGEND_GAP_PX = 12;
+
+/** The height a narrow screen's legend of `entries` entries takes, with the gap above it, px. */
+export const narrowLegendRoom = (entries: number) => (entries > 0 ? entries * LEGEND_ROW_PX + LEGEND_GAP_PX : 0);
+
+/**
+ * The legend's layout on a narrow screen: at the foot of the figure, from the plot's left edge (one
+ * at the figure's left edge was taken for a legend beside the plot, which Plotly made room for).
+ */
+export const NARROW_LEGEND = {
+  orientation: "v",
+  yref: "container",
+  y: 0,
+  yanchor: "bottom",
+  xref: "paper",
+  x: 0,
+  xanchor: "left",
+  font: { size: 11 },
+  // Series in legend groups (WebGL bars, the model's bar) would add 10 px between entries.
+  tracegroupgap: 0,
+} as const;
+
+/** How many entries Plotly's legend lists: traces not kept out of it, and shapes given one. */
+export function legendEntries(traces: readonly Record<string, unknown>[], shapes: readonly Record<string, unknown>[]): number {
+  return traces.filter((t) => t.showlegend !== false).length + shapes.filter((s) => s.showlegend === true).length;
+}
+
+/** Colours of the fit, its band, the critical field's two intervals, excluded points and the field model's bar. */
 export const PHASE_LOOK = {
   fit: "#b9512a",
   band: "rgba(185,81,42,0.14)",
@@ -37,7 +78,8 @@ export const PHASE_LOOK = {
   /** The interval from the points' scatter alone. */
   ciStatistical: "rgba(185,81,42,0.16)",
   excluded: "#8a8478",
-  fieldErrorBar: "rgba(110,106,95,0.35)",
+  /** The field model's shared uncertainty, drawn once. */
+  fieldModelBar: "#6e6a5f",
   /** The ring around a point whose pick carries a quality flag (ink, not a series colour). */
   flagRing: "#1c2430",
 } as const;
@@ -96,20 +138,22 @@ export interface PhaseRanges {
 }
 
 /**
- * The field-mode axis ranges of the phase plot: every shown point with its error bars, the fitted
- * curve and band, and the critical field's interval, padded by 5%; the gap axis from zero. Given
- * to Plotly as fixed ranges, and to the preview, so the two line up.
+ * The field-mode axis ranges of the phase plot: every shown point with its gap's error bar, the
+ * field model's bar, the fitted curve and band, and the critical field's interval, padded by 5%;
+ * the gap axis from zero, with a strip on top for the bar. Given to Plotly as fixed ranges, and to
+ * the preview, so the two line up.
  */
 export function fieldModeRanges(data: PhaseData, showExcluded: boolean): PhaseRanges | null {
   const xs: number[] = [];
   const ys: number[] = [];
-  for (const p of data.points) {
-    if (outOfFit(p) && !showExcluded) continue;
-    const sx = p.fieldSigma_V_per_nm ?? 0;
+  const shown = data.points.filter((p) => showExcluded || !outOfFit(p));
+  for (const p of shown) {
     const sy = (p.gapSigma_eV ?? 0) * 1000;
-    xs.push(p.field_V_per_nm - sx, p.field_V_per_nm + sx);
+    xs.push(p.field_V_per_nm);
     ys.push(p.gap_eV * 1000 - sy, p.gap_eV * 1000 + sy);
   }
+  const bar = fieldModelBar(shown);
+  if (bar) xs.push(bar.x - bar.sigma, bar.x + bar.sigma);
   const c = data.crossing;
   if ("curve" in c && c.curve && c.state !== "none") {
     xs.push(...c.curve.field);
@@ -118,6 +162,8 @@ export function fieldModeRanges(data: PhaseData, showExcluded: boolean): PhaseRa
   if (c.state === "crossed" && c.ci95_V_per_nm) xs.push(...c.ci95_V_per_nm);
   const x = paddedRange(xs);
   const y = paddedRange(ys, { includeZero: true });
+  // With the field model's bar, the data keep below BAR_ROOM of the height: the bar has the top strip.
+  if (y && bar) y[1] = y[0] + (y[1] - y[0]) / BAR_ROOM;
   return x && y ? { x, y } : null;
 }
 
@@ -160,29 +206,59 @@ export function flagRingTrace(points: readonly PhasePoint[], x: (p: PhasePoint) 
   };
 }
 
-/** From this many points the phase plot uses WebGL markers, and the field bars start hidden. */
+/** From this many points the phase plot uses WebGL markers. */
 export const WEBGL_FROM = 1500;
 
+/** The field model's bar sits this high in the plot (paper units: 0 the axis, 1 the top)... */
+export const BAR_Y = 0.95;
+/** ...above the data, which keep below this share of the plot's height. */
+export const BAR_ROOM = 0.84;
+
+export interface FieldModelBar {
+  /** Where the bar is centred: the median field of the shown points, V/nm. */
+  x: number;
+  /** Its half-length there, V/nm. */
+  sigma: number;
+  /** The same relative to the field. */
+  rel: number;
+}
+
 /**
- * The field-direction error bars of every point, as one shape with a legend entry of its own.
- * Their σ comes from the field model (work functions, contact distance), so it moves all points of
- * a sample together: the fit treats it as a common scale error, not as point-to-point scatter, and
- * the legend says so. Shown from the start for samples plotted as SVG; for WebGL-sized samples
- * (thousands of overlapping bars would cover the data in grey) they start hidden, one legend click
- * away.
+ * The field model's uncertainty (work functions, contact distance), drawn once. It is shared by
+ * every point of a sample, a scale error that moves them all together (the fit takes it so,
+ * `modelFieldRelSigma`), so an error bar on each point would say each could move on its own; the
+ * stored σ has no per-point part to draw. One bar of ±σ at the points' median field, in the
+ * strip above the data; null when the points carry no model σ.
  */
-export function fieldErrorBarShape(path: string, pointCount: number): Record<string, unknown> {
+export function fieldModelBar(points: readonly PhasePoint[]): FieldModelBar | null {
+  const rel = modelFieldRelSigma(points);
+  if (!(rel > 0) || !points.length) return null;
+  const x = median(points.map((p) => p.field_V_per_nm));
+  return { x, sigma: rel * Math.abs(x), rel };
+}
+
+/** The bar's words, on the plot beside it and in its legend entry. */
+export const fieldModelBarText = (bar: FieldModelBar) => `field model ±${(bar.rel * 100).toPrecision(2)}%, shared by all points`;
+
+/**
+ * The bar as one shape with a legend entry: a horizontal stroke with an end tick on each side, x
+ * in data, y in paper units, and its words just below it.
+ */
+export function fieldModelBarShapes(bar: FieldModelBar): { shape: Record<string, unknown>; annotation: Record<string, unknown> } {
+  const n = (v: number) => Number(v.toPrecision(7));
+  const [a, b, t] = [n(bar.x - bar.sigma), n(bar.x + bar.sigma), 0.02];
   return {
-    type: "path",
-    path,
-    xref: "x",
-    yref: "y",
-    layer: "below",
-    line: { color: PHASE_LOOK.fieldErrorBar, width: 1 },
-    name: "field ± σ (model, shared by all points)",
-    showlegend: true,
-    legendgroup: "field-sigma",
-    visible: pointCount >= WEBGL_FROM ? "legendonly" : true,
+    shape: {
+      type: "path",
+      path: `M${a},${BAR_Y}H${b}M${a},${BAR_Y - t}V${BAR_Y + t}M${b},${BAR_Y - t}V${BAR_Y + t}`,
+      xref: "x",
+      yref: "paper",
+      line: { color: PHASE_LOOK.fieldModelBar, width: 1.5 },
+      name: fieldModelBarText(bar),
+      showlegend: true,
+      legendgroup: "field-model",
+    },
+    annotation: { x: bar.x, y: BAR_Y - t, xref: "x", yref: "paper", yanchor: "top", showarrow: false, text: "field model ±σ (shared)", font: { size: 11, color: PHASE_LOOK.fieldModelBar } },
   };
 }
 

@@ -1,14 +1,29 @@
 import { PLOT_STYLE } from "@/components/plots/plot";
 import { niceTicks } from "@/components/plots/ranges";
-import { outOfFit, NARROW_QUERY, PHASE_LOOK, PHASE_MARGIN, phaseMargin, type PhaseData, type PhasePoint, type PhaseRanges, regionColors, regionOf, WEBGL_FROM } from "./phase-figure";
+import {
+  BAR_Y,
+  fieldModelBar,
+  fieldModelBarText,
+  NARROW_QUERY,
+  outOfFit,
+  PHASE_LOOK,
+  PHASE_MARGIN,
+  phaseMargin,
+  type PhaseData,
+  type PhasePoint,
+  type PhaseRanges,
+  regionColors,
+  regionOf,
+} from "./phase-figure";
 
 /**
  * Plotly's plot area inside the phase plot: its margins, with a one-row legend below. Its top
- * (`--phase-top`) follows the plot's on a narrow screen, by a media query: the page is drawn
- * before its width is known.
+ * (`--phase-top`) and bottom (`--phase-bottom`) follow the plot's on a narrow screen, by a media
+ * query: the page is drawn before its width is known.
  */
 const AREA = { ...PHASE_MARGIN, b: PHASE_MARGIN.b + 51 };
 const TOP = "var(--phase-top)";
+const BOTTOM = "var(--phase-bottom)";
 
 /**
  * A still drawing of the phase plot in field mode, rendered with the page (no script needed), shown
@@ -19,7 +34,8 @@ const TOP = "var(--phase-top)";
  * strokes twice, the second narrower in the plot's background colour: one path per layer, never
  * an element per point.
  */
-export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseData; showExcluded: boolean; ranges: PhaseRanges }) {
+export function PhasePreview(props: { data: PhaseData; showExcluded: boolean; ranges: PhaseRanges; legendRoom: number }) {
+  const { data, showExcluded, ranges: r, legendRoom } = props;
   const X = (v: number) => ((v - r.x[0]) / (r.x[1] - r.x[0])) * 1000;
   const Y = (v: number) => (1 - (v - r.y[0]) / (r.y[1] - r.y[0])) * 1000;
   const f = (v: number) => v.toFixed(1);
@@ -41,24 +57,17 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
   const band = curve ? `${path(curve.field, meV(curve.hi))}L${path([...curve.field].reverse(), meV(curve.lo.map((v: number) => Math.max(0, v)).reverse())).slice(1)}Z` : "";
   const ec = c.state === "crossed" && c.field_V_per_nm != null ? c.field_V_per_nm : null;
   const ci = ec != null ? [c.ci95_V_per_nm, "ci95Statistical_V_per_nm" in c ? c.ci95Statistical_V_per_nm : null] : [];
-  const bars =
-    data.points.length < WEBGL_FROM
-      ? data.points
-          .filter((p) => showExcluded || !outOfFit(p))
-          .map((p) => {
-            const [x, y] = [p.field_V_per_nm, p.gap_eV * 1000];
-            const [sx, sy] = [p.fieldSigma_V_per_nm ?? 0, (p.gapSigma_eV ?? 0) * 1000];
-            return `M${f(X(x - sx))} ${f(Y(y))}H${f(X(x + sx))}M${f(X(x))} ${f(Y(y - sy))}V${f(Y(y + sy))}`;
-          })
-          .join("")
-      : "";
+  const bar = fieldModelBar(data.points.filter((p) => showExcluded || !outOfFit(p)));
+  const barY = f((1 - BAR_Y) * 1000);
+  const barPath = bar ? `M${f(X(bar.x - bar.sigma))} ${barY}H${f(X(bar.x + bar.sigma))}` : "";
   const xTicks = niceTicks(r.x[0], r.x[1], 10);
   const yTicks = niceTicks(r.y[0], r.y[1], 5);
+  const narrow = phaseMargin(true, ec != null, legendRoom);
   const pct = (v: number, lo: number, hi: number) => `${(((v - lo) / (hi - lo)) * 100).toFixed(3)}%`;
   return (
-    <div className="pointer-events-none absolute inset-0 text-[12px] text-ink" aria-hidden data-testid="phase-preview" style={{ ["--phase-top" as string]: `${AREA.t}px` }}>
-      {ec != null ? <style>{`@media ${NARROW_QUERY} { [data-testid=phase-preview] { --phase-top: ${phaseMargin(true, true).t}px !important } }`}</style> : null}
-      <div className="absolute border-b border-l" style={{ borderColor: PLOT_STYLE.axisLine, background: PLOT_STYLE.plotBg, left: AREA.l, right: AREA.r, top: TOP, bottom: AREA.b }}>
+    <div className="pointer-events-none absolute inset-0 text-[12px] text-ink" aria-hidden data-testid="phase-preview" style={{ ["--phase-top" as string]: `${AREA.t}px`, ["--phase-bottom" as string]: `${AREA.b}px` }}>
+      <style>{`@media ${NARROW_QUERY} { [data-testid=phase-preview] { --phase-top: ${narrow.t}px !important; --phase-bottom: ${narrow.b}px !important } }`}</style>
+      <div className="absolute border-b border-l" style={{ borderColor: PLOT_STYLE.axisLine, background: PLOT_STYLE.plotBg, left: AREA.l, right: AREA.r, top: TOP, bottom: BOTTOM }}>
         {xTicks.map((t) => (
           <span key={`x${t}`} className="absolute top-full mt-2 -translate-x-1/2" style={{ left: pct(t, r.x[0], r.x[1]) }}>
             {t}
@@ -77,7 +86,7 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
             <line key={`gy${t}`} x1={0} x2={1000} y1={f(Y(t))} y2={f(Y(t))} stroke={PLOT_STYLE.grid} vectorEffect="non-scaling-stroke" />
           ))}
           {ci.map((iv, i) => (iv ? <rect key={i} x={f(X(iv[0]))} width={f(X(iv[1]) - X(iv[0]))} y={0} height={1000} fill={i ? PHASE_LOOK.ciStatistical : PHASE_LOOK.ciModel} /> : null))}
-          {bars ? <path d={bars} stroke={PHASE_LOOK.fieldErrorBar} strokeWidth={1} vectorEffect="non-scaling-stroke" /> : null}
+          {barPath ? <path d={barPath} stroke={PHASE_LOOK.fieldModelBar} strokeWidth={1.5} vectorEffect="non-scaling-stroke" /> : null}
           {band ? <path d={band} fill={PHASE_LOOK.band} /> : null}
           {line ? <path d={line} fill="none" stroke={PHASE_LOOK.fit} strokeWidth={2} vectorEffect="non-scaling-stroke" /> : null}
           {ec != null ? <line x1={f(X(ec))} x2={f(X(ec))} y1={0} y2={1000} stroke={PHASE_LOOK.fit} strokeWidth={1.5} strokeDasharray="2 3" vectorEffect="non-scaling-stroke" /> : null}
@@ -104,10 +113,10 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
           E<sub>c</sub> = {ec.toFixed(3)} V/nm
         </span>
       ) : null}
-      <span className="absolute text-[14px]" style={{ left: `calc(${AREA.l}px + (100% - ${AREA.l + AREA.r}px) / 2)`, transform: "translateX(-50%)", bottom: AREA.b - 46 }}>
+      <span className="absolute text-[14px]" style={{ left: `calc(${AREA.l}px + (100% - ${AREA.l + AREA.r}px) / 2)`, transform: "translateX(-50%)", bottom: `calc(${BOTTOM} - 46px)` }}>
         estimated field E (V/nm)
       </span>
-      <span className="absolute left-0 whitespace-nowrap text-[14px]" style={{ top: `calc(${TOP} + (100% - ${TOP} - ${AREA.b}px) / 2)`, transform: "translate(-50%, -50%) rotate(-90deg) translateY(24px)" }}>
+      <span className="absolute left-0 whitespace-nowrap text-[14px]" style={{ top: `calc(${TOP} + (100% - ${TOP} - ${BOTTOM}) / 2)`, transform: "translate(-50%, -50%) rotate(-90deg) translateY(24px)" }}>
         band gap (meV)
       </span>
       <div className="absolute bottom-4 flex flex-wrap items-center gap-x-4 gap-y-1 text-[11px]" style={{ left: AREA.l }}>
@@ -117,6 +126,7 @@ export function PhasePreview({ data, showExcluded, ranges: r }: { data: PhaseDat
             {g.name}
           </span>
         ))}
+        {bar ? <span>⟷ {fieldModelBarText(bar)}</span> : null}
         {rings ? (
           <span className="inline-flex items-center gap-1.5">
             <span className="inline-block h-3 w-3 rounded-full border-[1.5px]" style={{ borderColor: PHASE_LOOK.flagRing }} />

@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, desc, eq, ilike, isNull, or, sql, type SQL } from "drizzle-orm";
 import { crossings, extractionSettingsVersions, fieldModelVersions, gapPicks, labs, measurementSessions, samples, spectra, tips, uploads, type FlaggedInFit } from "@/db/schema";
 import { assertCan } from "@/lib/auth/permissions";
-import { pickGap, resolveExtractionSettings, type QualityFlag } from "@/lib/spectra";
+import { pickGap, resolveExtractionSettings, sharedField, type QualityFlag } from "@/lib/spectra";
 import { metaOfRow } from "../analysis/analyzeSpectrum";
 import { flaggedOutOfFit } from "../analysis/refitSample";
 import type { SpectraQuery } from "@/lib/schemas/uploads";
@@ -217,6 +217,8 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
   return {
     sample: { id: sample.id, name: sample.name },
     points,
+    /** Set when every point sits at one field (a grid at one setpoint): that field, V/nm, and the count. */
+    sharedField: sharedField(points),
     crossing: c
       ? {
           id: c.id,

@@ -7,7 +7,7 @@ import { FieldModelCard } from "@/components/review/field-model-card";
 import type { SampleVersions } from "@/components/review/sample-queries";
 import { packPhase } from "@/components/review/phase-pack";
 import { outOfFit } from "@/components/review/phase-figure";
-import { PhasePlot } from "@/components/review/phase-plot";
+import { PhasePlot, PhasePlotTitle } from "@/components/review/phase-plot";
 import { SettingsEditors } from "@/components/review/settings-editors";
 import { ButtonLink } from "@/components/ui/button";
 import { Card, EmptyState, PageHeader } from "@/components/ui/card";
@@ -78,8 +78,8 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
           flexible one, so the side cards' height goes there, not under the plot); on narrow
           screens the side cards (the critical field first) follow the plot. */}
       <div className={`grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(280px,1fr)] xl:items-start ${rows.grid}`}>
-        <Card title="Gap versus estimated field">
-          <PhasePlot lab={lab} sampleId={s.id} initial={packPhase(phase)} />
+        <Card title={<PhasePlotTitle lab={lab} sampleId={s.id} initialHistogram={phase.sharedField != null && phase.points.length > 0} />}>
+          <PhasePlot lab={lab} sampleId={s.id} initial={packPhase(phase)} gapMap={map.grids.length > 0} />
         </Card>
         {/* Boundaries of their own: React hydrates them after the plot's part of the page, so the
             plot starts drawing sooner; a click in one before then hydrates it at once. */}
@@ -150,7 +150,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
         </Suspense>
         {map.grids.length ? (
           <Suspense>
-            <div className="xl:col-start-1">
+            <div className="scroll-mt-4 xl:col-start-1" id="gap-map">
               <Card title="Gap map">
                 <GapMap lab={lab} sampleId={s.id} initial={map} />
               </Card>
