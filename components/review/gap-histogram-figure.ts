@@ -61,7 +61,12 @@ export function countInBins(gaps_meV: readonly number[], { width, edges }: GapBi
 /** The numbers the histogram's caption gives: the gaps in the fit, their median and robust spread. */
 export function gapSummary(points: readonly PhasePoint[]) {
   const gaps = points.filter((p) => !outOfFit(p)).map((p) => p.gap_eV * 1000);
-  return { n: gaps.length, left: points.length - gaps.length, median_meV: gaps.length ? median(gaps) : null, spread_meV: gaps.length > 1 ? madSigma(gaps) : null };
+  return {
+    n: gaps.length,
+    left: points.length - gaps.length,
+    median_meV: gaps.length ? median(gaps) : null,
+    spread_meV: gaps.length > 1 ? madSigma(gaps) : null,
+  };
 }
 
 /**
@@ -74,13 +79,26 @@ export function gapHistogramFigure(points: readonly PhasePoint[], showExcluded: 
   const inFit = points.filter((p) => !outOfFit(p));
   const out = showExcluded ? points.filter(outOfFit) : [];
   const meV = (ps: readonly PhasePoint[]) => ps.map((p) => p.gap_eV * 1000);
-  const bins = gapBins(meV([...inFit, ...out]), [...inFit, ...out].map((p) => (p.gapSigma_eV == null ? null : p.gapSigma_eV * 1000)));
+  const bins = gapBins(
+    meV([...inFit, ...out]),
+    [...inFit, ...out].map((p) => (p.gapSigma_eV == null ? null : p.gapSigma_eV * 1000)),
+  );
   const traces: Record<string, unknown>[] = [];
   const series = (ps: readonly PhasePoint[], name: string, color: string, fill: boolean) => {
     if (!bins || !ps.length) return;
     const counts = countInBins(meV(ps), bins);
     const steps = [...counts, counts[counts.length - 1]];
-    traces.push({ type: "scatter", mode: "lines", x: bins.edges, y: steps, line: { shape: "hv", color, width: 1.5, ...(fill ? {} : { dash: "dot" }) }, ...(fill ? { fill: "tozeroy", fillcolor: `${color}33` } : {}), name, hoverinfo: "skip", legendgroup: name });
+    traces.push({
+      type: "scatter",
+      mode: "lines",
+      x: bins.edges,
+      y: steps,
+      line: { shape: "hv", color, width: 1.5, ...(fill ? {} : { dash: "dot" }) },
+      ...(fill ? { fill: "tozeroy", fillcolor: `${color}33` } : {}),
+      name,
+      hoverinfo: "skip",
+      legendgroup: name,
+    });
     traces.push({
       type: "scatter",
       mode: "markers",
@@ -96,12 +114,43 @@ export function gapHistogramFigure(points: readonly PhasePoint[], showExcluded: 
   series(inFit, "spectra in the fit", COLORS[0], true);
   series(out, "excluded or left out of the fit", PHASE_LOOK.excluded, false);
   const { median_meV } = gapSummary(points);
-  const shapes = median_meV == null ? [] : [{ type: "line", xref: "x", yref: "paper", x0: median_meV, x1: median_meV, y0: 0, y1: 1, line: { color: PHASE_LOOK.fit, width: 1.5, dash: "dot" } }];
-  const annotations = median_meV == null ? [] : [{ x: median_meV, y: 1, xref: "x", yref: "paper", yanchor: "bottom", showarrow: false, text: `median ${median_meV.toFixed(1)} meV`, font: { color: PHASE_LOOK.fit, size: 12 } }];
+  const shapes =
+    median_meV == null
+      ? []
+      : [
+          {
+            type: "line",
+            xref: "x",
+            yref: "paper",
+            x0: median_meV,
+            x1: median_meV,
+            y0: 0,
+            y1: 1,
+            line: { color: PHASE_LOOK.fit, width: 1.5, dash: "dot" },
+          },
+        ];
+  const annotations =
+    median_meV == null
+      ? []
+      : [
+          {
+            x: median_meV,
+            y: 1,
+            xref: "x",
+            yref: "paper",
+            yanchor: "bottom",
+            showarrow: false,
+            text: `median ${median_meV.toFixed(1)} meV`,
+            font: { color: PHASE_LOOK.fit, size: 12 },
+          },
+        ];
   return {
     data: traces,
     layout: baseLayout({
-      xaxis: axis("band gap (meV)", bins ? { range: [bins.edges[0] - bins.width / 2, bins.edges[bins.edges.length - 1] + bins.width / 2] } : {}),
+      xaxis: axis(
+        "band gap (meV)",
+        bins ? { range: [bins.edges[0] - bins.width / 2, bins.edges[bins.edges.length - 1] + bins.width / 2] } : {},
+      ),
       yaxis: axis("spectra", { rangemode: "tozero", tickformat: "d", dtick: undefined }),
       shapes,
       annotations,

@@ -3,7 +3,8 @@
 import { useMemo } from "react";
 import { Plot } from "@/components/plots/plot";
 import { gapHistogramFigure, gapSummary } from "./gap-histogram-figure";
-import { fieldModelBar, type PhaseData } from "./phase-figure";
+import { type PhaseData } from "./phase-figure";
+import { fieldModelBar } from "./field-model-bar";
 
 /**
  * The gaps of a sample whose spectra all sit at one field (a grid at one setpoint), counted in
@@ -11,7 +12,13 @@ import { fieldModelBar, type PhaseData } from "./phase-figure";
  * with its model uncertainty, the median gap and its spread, and points to the gap map, where the
  * same gaps are shown where they were measured.
  */
-export function GapHistogram(props: { data: PhaseData; showExcluded: boolean; gapMap: boolean; filename: string; graph: { current: HTMLElement | null } }) {
+export function GapHistogram(props: {
+  data: PhaseData;
+  showExcluded: boolean;
+  gapMap: boolean;
+  filename: string;
+  graph: { current: HTMLElement | null };
+}) {
   const { data, showExcluded, gapMap, filename, graph } = props;
   const figure = useMemo(() => gapHistogramFigure(data.points, showExcluded), [data.points, showExcluded]);
   const { n, left, median_meV, spread_meV } = gapSummary(data.points);
@@ -23,8 +30,8 @@ export function GapHistogram(props: { data: PhaseData; showExcluded: boolean; ga
         <span className="font-medium text-ink">
           {data.points.length} spectra at E = {field.toFixed(3)} V/nm
         </span>
-        {bar ? ` (± ${bar.sigma.toFixed(3)} V/nm from the field model)` : null}: every spectrum sits at the same estimated
-        field, so their gaps are counted here rather than drawn against the field.
+        {bar ? ` (± ${bar.sigma.toFixed(3)} V/nm from the field model)` : null}: every spectrum sits at the same
+        estimated field, so their gaps are counted here rather than drawn against the field.
         {median_meV != null ? ` Median gap ${median_meV.toFixed(1)} meV` : null}
         {spread_meV != null ? `, spread ${spread_meV.toFixed(1)} meV (robust σ)` : null}
         {median_meV != null ? ` over the ${n} in the fit` : null}

@@ -1,9 +1,8 @@
 import { COLORS } from "@/components/plots/plot";
 import { paddedRange } from "@/components/plots/ranges";
 import type { getPhase } from "@/lib/services/spectra/readSpectra";
-import { modelFieldRelSigma } from "@/lib/spectra/crossing";
 import { QUALITY_FLAG_LABELS } from "@/lib/spectra/edges/flags";
-import { median } from "@/lib/spectra/stats";
+import { BAR_ROOM, fieldModelBar } from "./field-model-bar";
 
 /**
  * What the phase plot (Plotly) and its still preview (SVG) both draw from, kept in one place so
@@ -22,14 +21,18 @@ export const PHASE_MARGIN = { l: 64, r: 16, t: 28, b: 52 } as const;
 export const NARROW_MAX_PX = 639;
 /** The media query for a narrow screen. */
 export const NARROW_QUERY = `(max-width: ${NARROW_MAX_PX}px)`;
-/** The top margin on a narrow screen when the E_c label is shown: the label sits below the mode bar (about 28 px tall). */
+/** The top margin on a narrow screen with the E_c label: the label sits below the mode bar (about 28 px tall). */
 export const PHASE_TOP_NARROW = 56;
 
 /**
  * The phase plot's margins: on a narrow screen, a taller top margin with the E_c label and a
  * bottom margin that holds the legend (`legendRoom`, px) below the axis title.
  */
-export function phaseMargin(narrow: boolean, criticalFieldLabel: boolean, legendRoom = 0): { l: number; r: number; t: number; b: number } {
+export function phaseMargin(
+  narrow: boolean,
+  criticalFieldLabel: boolean,
+  legendRoom = 0,
+): { l: number; r: number; t: number; b: number } {
   if (!narrow) return PHASE_MARGIN;
   return { ...PHASE_MARGIN, t: criticalFieldLabel ? PHASE_TOP_NARROW : PHASE_MARGIN.t, b: PHASE_MARGIN.b + legendRoom };
 }
@@ -65,11 +68,14 @@ export const NARROW_LEGEND = {
 } as const;
 
 /** How many entries Plotly's legend lists: traces not kept out of it, and shapes given one. */
-export function legendEntries(traces: readonly Record<string, unknown>[], shapes: readonly Record<string, unknown>[]): number {
+export function legendEntries(
+  traces: readonly Record<string, unknown>[],
+  shapes: readonly Record<string, unknown>[],
+): number {
   return traces.filter((t) => t.showlegend !== false).length + shapes.filter((s) => s.showlegend === true).length;
 }
 
-/** Colours of the fit, its band, the critical field's two intervals, excluded points and the field model's bar. */
+/** Colours of the fit, its band, the critical field's two intervals and excluded points. */
 export const PHASE_LOOK = {
   fit: "#b9512a",
   band: "rgba(185,81,42,0.14)",
@@ -78,8 +84,6 @@ export const PHASE_LOOK = {
   /** The interval from the points' scatter alone. */
   ciStatistical: "rgba(185,81,42,0.16)",
   excluded: "#8a8478",
-  /** The field model's shared uncertainty, drawn once. */
-  fieldModelBar: "#6e6a5f",
   /** The ring around a point whose pick carries a quality flag (ink, not a series colour). */
   flagRing: "#1c2430",
 } as const;
@@ -127,7 +131,11 @@ export function regionColors(points: readonly PhasePoint[]): { region: string | 
   }
   const regions: (string | null)[] = [...tagged].sort();
   if (untagged) regions.push(null);
-  return regions.map((region, i) => ({ region, name: region ?? (tagged.size ? UNTAGGED_SERIES : ONLY_SERIES), color: COLORS[i % COLORS.length] }));
+  return regions.map((region, i) => ({
+    region,
+    name: region ?? (tagged.size ? UNTAGGED_SERIES : ONLY_SERIES),
+    color: COLORS[i % COLORS.length],
+  }));
 }
 
 export interface PhaseRanges {
@@ -173,7 +181,10 @@ export function fieldModeRanges(data: PhaseData, showExcluded: boolean): PhaseRa
  * 5,000 points took about 0.35 s more to reach the screen in software rendering than one path
  * under the canvas, which looks the same.
  */
-export function errorBarPaths(points: readonly { x: number; y: number; sx?: number | null; sy?: number | null }[]): { vertical: string; horizontal: string } {
+export function errorBarPaths(points: readonly { x: number; y: number; sx?: number | null; sy?: number | null }[]): {
+  vertical: string;
+  horizontal: string;
+} {
   const n = (v: number) => Number(v.toPrecision(7));
   let vertical = "";
   let horizontal = "";
@@ -190,7 +201,11 @@ export function errorBarPaths(points: readonly { x: number; y: number; sx?: numb
  * (WebGL from WEBGL_FROM points, like the points) whatever the number of flagged points. Clicking a
  * ring opens that spectrum; hovering names the flags.
  */
-export function flagRingTrace(points: readonly PhasePoint[], x: (p: PhasePoint) => number | null, type: "scatter" | "scattergl"): Record<string, unknown> | null {
+export function flagRingTrace(
+  points: readonly PhasePoint[],
+  x: (p: PhasePoint) => number | null,
+  type: "scatter" | "scattergl",
+): Record<string, unknown> | null {
   const pts = points.filter((p) => p.flags.length > 0 && x(p) != null);
   if (!pts.length) return null;
   return {
@@ -201,66 +216,18 @@ export function flagRingTrace(points: readonly PhasePoint[], x: (p: PhasePoint) 
     y: pts.map((p) => p.gap_eV * 1000),
     customdata: pts.map((p) => p.spectrumId),
     text: pts.map((p) => p.flags.map((f) => QUALITY_FLAG_LABELS[f.code] ?? f.code).join(", ")),
-    marker: { symbol: "circle-open", size: 15, color: PHASE_LOOK.flagRing, line: { width: 1.5, color: PHASE_LOOK.flagRing } },
+    marker: {
+      symbol: "circle-open",
+      size: 15,
+      color: PHASE_LOOK.flagRing,
+      line: { width: 1.5, color: PHASE_LOOK.flagRing },
+    },
     hovertemplate: "flagged: %{text}<extra></extra>",
   };
 }
 
 /** From this many points the phase plot uses WebGL markers. */
 export const WEBGL_FROM = 1500;
-
-/** The field model's bar sits this high in the plot (paper units: 0 the axis, 1 the top)... */
-export const BAR_Y = 0.95;
-/** ...above the data, which keep below this share of the plot's height. */
-export const BAR_ROOM = 0.84;
-
-export interface FieldModelBar {
-  /** Where the bar is centred: the median field of the shown points, V/nm. */
-  x: number;
-  /** Its half-length there, V/nm. */
-  sigma: number;
-  /** The same relative to the field. */
-  rel: number;
-}
-
-/**
- * The field model's uncertainty (work functions, contact distance), drawn once. It is shared by
- * every point of a sample, a scale error that moves them all together (the fit takes it so,
- * `modelFieldRelSigma`), so an error bar on each point would say each could move on its own; the
- * stored σ has no per-point part to draw. One bar of ±σ at the points' median field, in the
- * strip above the data; null when the points carry no model σ.
- */
-export function fieldModelBar(points: readonly PhasePoint[]): FieldModelBar | null {
-  const rel = modelFieldRelSigma(points);
-  if (!(rel > 0) || !points.length) return null;
-  const x = median(points.map((p) => p.field_V_per_nm));
-  return { x, sigma: rel * Math.abs(x), rel };
-}
-
-/** The bar's words, on the plot beside it and in its legend entry. */
-export const fieldModelBarText = (bar: FieldModelBar) => `field model ±${(bar.rel * 100).toPrecision(2)}%, shared by all points`;
-
-/**
- * The bar as one shape with a legend entry: a horizontal stroke with an end tick on each side, x
- * in data, y in paper units, and its words just below it.
- */
-export function fieldModelBarShapes(bar: FieldModelBar): { shape: Record<string, unknown>; annotation: Record<string, unknown> } {
-  const n = (v: number) => Number(v.toPrecision(7));
-  const [a, b, t] = [n(bar.x - bar.sigma), n(bar.x + bar.sigma), 0.02];
-  return {
-    shape: {
-      type: "path",
-      path: `M${a},${BAR_Y}H${b}M${a},${BAR_Y - t}V${BAR_Y + t}M${b},${BAR_Y - t}V${BAR_Y + t}`,
-      xref: "x",
-      yref: "paper",
-      line: { color: PHASE_LOOK.fieldModelBar, width: 1.5 },
-      name: fieldModelBarText(bar),
-      showlegend: true,
-      legendgroup: "field-model",
-    },
-    annotation: { x: bar.x, y: BAR_Y - t, xref: "x", yref: "paper", yanchor: "top", showarrow: false, text: "field model ±σ (shared)", font: { size: 11, color: PHASE_LOOK.fieldModelBar } },
-  };
-}
 
 /**
  * The gap-direction error bars of a WebGL series, as one SVG path shape below the canvas, in the

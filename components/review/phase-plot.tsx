@@ -1,31 +1,26 @@
 "use client";
 
 import { useRouter } from "next/navigation";
-import { type ReactNode, useMemo, useRef, useState, useSyncExternalStore } from "react";
+import { type ReactNode, useMemo, useRef, useState } from "react";
 import { downloadFigure, Plot } from "@/components/plots/plot";
 import { fileStem } from "@/lib/format";
 import { GapHistogram } from "./gap-histogram";
-import { fieldModelBar, NARROW_QUERY, outOfFit, type PhaseData } from "./phase-figure";
+import { TheoryControls, useMedia } from "./phase-controls";
+import { NARROW_QUERY, outOfFit, type PhaseData } from "./phase-figure";
+import { fieldModelBar } from "./field-model-bar";
 import { PhaseKey } from "./phase-key";
 import { type PackedPhase, unpackPhase } from "./phase-pack";
 import { PhasePreview } from "./phase-preview";
 import { phaseFigure, type Theory, type XMode } from "./phase-traces";
-import { usePhase, usePhaseOf } from "./sample-queries";
+import { usePhase } from "./sample-queries";
 
 export type { PhaseData };
 
-/** Whether the screen matches a media query (false on the server and while hydrating). */
-function useMedia(query: string): boolean {
-  return useSyncExternalStore(
-    (changed) => {
-      const list = window.matchMedia(query);
-      list.addEventListener("change", changed);
-      return () => list.removeEventListener("change", changed);
-    },
-    () => window.matchMedia(query).matches,
-    () => false,
-  );
-}
+const EMPTY_BOX = [
+  "flex h-72 items-center justify-center",
+  "rounded-lg border border-dashed border-line text-sm text-muted",
+].join(" ");
+const MODE_OFF = "text-ink-soft hover:bg-paper";
 
 /** The plot's height on a wide screen, px (on a narrow one, this and its legend's rows). */
 const PLOT_PX = 440;
@@ -39,7 +34,17 @@ type GraphRef = { current: HTMLElement | null };
  * column of points at one field would say nothing. Both share the frame: refresh state, the figure
  * buttons and the show-excluded switch.
  */
-export function PhasePlot({ lab, sampleId, initial: packed, gapMap = false }: { lab: string; sampleId: string; initial: PackedPhase; gapMap?: boolean }) {
+export function PhasePlot({
+  lab,
+  sampleId,
+  initial: packed,
+  gapMap = false,
+}: {
+  lab: string;
+  sampleId: string;
+  initial: PackedPhase;
+  gapMap?: boolean;
+}) {
   const initial = useMemo(() => unpackPhase(packed), [packed]);
   const { data = initial, isFetching, isError, refetch } = usePhase(lab, sampleId, initial);
   const [showExcluded, setShowExcluded] = useState(true);
@@ -54,14 +59,20 @@ export function PhasePlot({ lab, sampleId, initial: packed, gapMap = false }: { 
     <div className="flex flex-wrap items-center gap-3 text-sm">
       {before}
       <label className="inline-flex items-center gap-1.5 text-xs text-ink-soft">
-        <input type="checkbox" checked={showExcluded} onChange={(e) => setShowExcluded(e.target.checked)} /> show excluded
+        <input type="checkbox" checked={showExcluded} onChange={(e) => setShowExcluded(e.target.checked)} /> show
+        excluded
       </label>
       {after}
       <span className="ml-auto flex items-center gap-2 text-xs text-muted">
         {isFetching ? "updating…" : `${data.points.length} spectra`}
         {data.points.length
           ? (["png", "svg"] as const).map((f) => (
-              <button key={f} type="button" className="rounded border border-line bg-white px-2 py-0.5 hover:border-ink-soft" onClick={() => download(f)}>
+              <button
+                key={f}
+                type="button"
+                className="rounded border border-line bg-white px-2 py-0.5 hover:border-ink-soft"
+                onClick={() => download(f)}
+              >
                 {f.toUpperCase()}
               </button>
             ))
@@ -70,7 +81,13 @@ export function PhasePlot({ lab, sampleId, initial: packed, gapMap = false }: { 
     </div>
   );
   return (
-    <div className="space-y-3" data-testid="phase-plot" data-points={data.points.length} data-state={data.crossing.state} data-view={histogram ? "histogram" : "field"}>
+    <div
+      className="space-y-3"
+      data-testid="phase-plot"
+      data-points={data.points.length}
+      data-state={data.crossing.state}
+      data-view={histogram ? "histogram" : "field"}
+    >
       {isError ? (
         <p className="text-sm text-danger">
           The phase data could not be refreshed.{" "}
@@ -82,8 +99,9 @@ export function PhasePlot({ lab, sampleId, initial: packed, gapMap = false }: { 
       {data.points.length === 0 ? (
         <>
           {frame(null, null)}
-          <div className="flex h-72 items-center justify-center rounded-lg border border-dashed border-line text-sm text-muted">
-            No spectra with a gap and a field yet: upload a session&apos;s spectra, and tag setpoints where the files lack them.
+          <div className={EMPTY_BOX}>
+            No spectra with a gap and a field yet: upload a session&apos;s spectra, and tag setpoints where the files
+            lack them.
           </div>
         </>
       ) : histogram ? (
@@ -92,7 +110,15 @@ export function PhasePlot({ lab, sampleId, initial: packed, gapMap = false }: { 
           <GapHistogram data={data} showExcluded={showExcluded} gapMap={gapMap} filename={filename} graph={graph} />
         </>
       ) : (
-        <FieldPlot lab={lab} sampleId={sampleId} data={data} showExcluded={showExcluded} filename={filename} graph={graph} frame={frame} />
+        <FieldPlot
+          lab={lab}
+          sampleId={sampleId}
+          data={data}
+          showExcluded={showExcluded}
+          filename={filename}
+          graph={graph}
+          frame={frame}
+        />
       )}
     </div>
   );
@@ -105,13 +131,24 @@ export function PhasePlot({ lab, sampleId, initial: packed, gapMap = false }: { 
  * model's shared uncertainty as one bar, and an optional theory overlay. Clicking a point opens
  * that spectrum.
  */
-function FieldPlot(props: { lab: string; sampleId: string; data: PhaseData; showExcluded: boolean; filename: string; graph: GraphRef; frame: (before: ReactNode, after: ReactNode) => ReactNode }) {
+function FieldPlot(props: {
+  lab: string;
+  sampleId: string;
+  data: PhaseData;
+  showExcluded: boolean;
+  filename: string;
+  graph: GraphRef;
+  frame: (before: ReactNode, after: ReactNode) => ReactNode;
+}) {
   const { lab, sampleId, data, showExcluded, filename, graph, frame } = props;
   const router = useRouter();
   const [mode, setMode] = useState<XMode>("field");
   const [theory, setTheory] = useState<Theory>({ on: false, lambda_meV: "43", ell_A: "0.33" });
   const narrow = useMedia(NARROW_QUERY);
-  const figure = useMemo(() => phaseFigure(data, { mode, showExcluded, theory, narrow, sampleId }), [data, mode, showExcluded, theory, narrow, sampleId]);
+  const figure = useMemo(
+    () => phaseFigure(data, { mode, showExcluded, theory, narrow, sampleId }),
+    [data, mode, showExcluded, theory, narrow, sampleId],
+  );
   const shown = showExcluded ? data.points : data.points.filter((p) => !outOfFit(p));
   return (
     <>
@@ -124,7 +161,7 @@ function FieldPlot(props: { lab: string; sampleId: string; data: PhaseData; show
               role="radio"
               aria-checked={mode === m}
               onClick={() => setMode(m)}
-              className={`rounded px-2.5 py-1 text-xs font-medium ${mode === m ? "bg-ink text-white" : "text-ink-soft hover:bg-paper"}`}
+              className={`rounded px-2.5 py-1 text-xs font-medium ${mode === m ? "bg-ink text-white" : MODE_OFF}`}
             >
               {m === "field" ? "Field" : m === "distance" ? "Distance" : "Setpoint conductance"}
             </button>
@@ -132,15 +169,28 @@ function FieldPlot(props: { lab: string; sampleId: string; data: PhaseData; show
         </div>,
         <TheoryControls theory={theory} onChange={setTheory} />,
       )}
-      {/* On a phone the box grows by the legend's rows (a media query: the page is drawn before its width is known). */}
-      <div className="h-[440px] w-full max-sm:h-(--phase-h)" style={{ ["--phase-h" as string]: `${PLOT_PX + figure.legendRoom}px` }}>
+      {/* On a phone the box grows by the legend's rows (a media query: the page is drawn before its width
+          is known). */}
+      <div
+        className="h-[440px] w-full max-sm:h-(--phase-h)"
+        style={{ ["--phase-h" as string]: `${PLOT_PX + figure.legendRoom}px` }}
+      >
         <Plot
           data={figure.data}
           layout={figure.layout}
           config={{ displaylogo: false, toImageButtonOptions: { filename } }}
           style={{ width: "100%", height: "100%" }}
           // Until Plotly has drawn, a still drawing of the same figure stands in its place.
-          placeholder={figure.ranges ? <PhasePreview data={data} showExcluded={showExcluded} ranges={figure.ranges} legendRoom={figure.legendRoom} /> : undefined}
+          placeholder={
+            figure.ranges ? (
+              <PhasePreview
+                data={data}
+                showExcluded={showExcluded}
+                ranges={figure.ranges}
+                legendRoom={figure.legendRoom}
+              />
+            ) : undefined
+          }
           onInitialized={(_f, gd) => (graph.current = gd)}
           onUpdate={(_f, gd) => (graph.current = gd)}
           onClick={(e: { points?: { customdata?: string }[] }) => {
@@ -152,36 +202,4 @@ function FieldPlot(props: { lab: string; sampleId: string; data: PhaseData; show
       <PhaseKey points={data.points} modelBar={mode === "field" && fieldModelBar(shown) != null} />
     </>
   );
-}
-
-/** The theory overlay's switch and its two numbers, folded away until asked for. */
-function TheoryControls({ theory, onChange }: { theory: Theory; onChange: (t: Theory) => void }) {
-  return (
-    <details className="text-xs text-ink-soft">
-      <summary className="cursor-pointer select-none">Theory overlay</summary>
-      <div className="mt-2 flex flex-wrap items-end gap-2 rounded-md border border-line bg-white p-2">
-        <label className="inline-flex items-center gap-1.5">
-          <input type="checkbox" checked={theory.on} onChange={(e) => onChange({ ...theory, on: e.target.checked })} /> Δ(E) = 2|λ<sub>SO</sub> − ℓeE|
-        </label>
-        <label>
-          λ<sub>SO</sub> (meV){" "}
-          <input className="num ml-1 w-16 rounded border border-line px-1" value={theory.lambda_meV} onChange={(e) => onChange({ ...theory, lambda_meV: e.target.value })} />
-        </label>
-        <label>
-          ℓ (Å) <input className="num ml-1 w-16 rounded border border-line px-1" value={theory.ell_A} onChange={(e) => onChange({ ...theory, ell_A: e.target.value })} />
-        </label>
-        <span className="text-muted">
-          {THEORY_NOTE} → E<sub>c</sub> = λ/ℓ
-        </span>
-      </div>
-    </details>
-  );
-}
-
-const THEORY_NOTE = "buckled-honeycomb model; e.g. germanene λ ≈ 43 meV, ℓ ≈ 0.33 Å (published estimates, from memory)";
-
-/** The card's title: what the plot under it shows, following the same query as the plot. */
-export function PhasePlotTitle({ lab, sampleId, initialHistogram }: { lab: string; sampleId: string; initialHistogram: boolean }) {
-  const histogram = usePhaseOf(lab, sampleId, (d) => d.sharedField != null && d.points.length > 0, initialHistogram);
-  return <h2 className="text-sm font-semibold tracking-wide text-ink">{histogram ? "Gaps at one field" : "Gap versus estimated field"}</h2>;
 }

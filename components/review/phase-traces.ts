@@ -2,8 +2,6 @@ import { axis, baseLayout } from "@/components/plots/plot";
 import {
   errorBarPaths,
   fieldModeRanges,
-  fieldModelBar,
-  fieldModelBarShapes,
   flagRingTrace,
   gapErrorBarShape,
   legendEntries,
@@ -18,14 +16,23 @@ import {
   regionOf,
   WEBGL_FROM,
 } from "./phase-figure";
+import { fieldModelBar, fieldModelBarShapes } from "./field-model-bar";
 
 export type XMode = "field" | "distance" | "conductance";
 
 /** Each x mode's axis title, scale, value of a point and hover text. */
-export const X_AXIS: Record<XMode, { title: string; type?: "log"; of: (p: PhasePoint) => number | null; hover: string }> = {
+export const X_AXIS: Record<
+  XMode,
+  { title: string; type?: "log"; of: (p: PhasePoint) => number | null; hover: string }
+> = {
   field: { title: "estimated field E (V/nm)", of: (p) => p.field_V_per_nm, hover: "E = %{x:.3f} V/nm" },
   distance: { title: "estimated tip–sample distance d (nm)", of: (p) => p.distance_nm, hover: "d = %{x:.3f} nm" },
-  conductance: { title: "setpoint conductance |I/V| (S)", type: "log", of: (p) => p.setpointConductance_S, hover: "G = %{x:.3e} S" },
+  conductance: {
+    title: "setpoint conductance |I/V| (S)",
+    type: "log",
+    of: (p) => p.setpointConductance_S,
+    hover: "G = %{x:.3e} S",
+  },
 };
 
 export interface Theory {
@@ -43,7 +50,14 @@ function fitTraces(c: PhaseData["crossing"]): Trace[] {
   const edge = { type: "scatter", mode: "lines", line: { width: 0 }, hoverinfo: "skip" };
   return [
     { ...edge, x: c.curve.field, y: meV(c.curve.hi), showlegend: false },
-    { ...edge, x: c.curve.field, y: meV(c.curve.lo.map((v: number) => Math.max(0, v))), fill: "tonexty", fillcolor: PHASE_LOOK.band, name: "95% band" },
+    {
+      ...edge,
+      x: c.curve.field,
+      y: meV(c.curve.lo.map((v: number) => Math.max(0, v))),
+      fill: "tonexty",
+      fillcolor: PHASE_LOOK.band,
+      name: "95% band",
+    },
     {
       type: "scatter",
       mode: "lines",
@@ -57,10 +71,20 @@ function fitTraces(c: PhaseData["crossing"]): Trace[] {
 }
 
 /** The point series of one region: in the fit, corrected, and (when shown) excluded and flagged-out. */
-function regionGroups(points: readonly PhasePoint[], region: string | null, name: string, color: string, showExcluded: boolean) {
+function regionGroups(
+  points: readonly PhasePoint[],
+  region: string | null,
+  name: string,
+  color: string,
+  showExcluded: boolean,
+) {
   const mine = points.filter((p) => regionOf(p) === region);
   return [
-    { name, pts: mine.filter((p) => !outOfFit(p) && p.source === "auto"), marker: { symbol: "circle", size: 7, color } },
+    {
+      name,
+      pts: mine.filter((p) => !outOfFit(p) && p.source === "auto"),
+      marker: { symbol: "circle", size: 7, color },
+    },
     {
       name: `${name} · corrected`,
       pts: mine.filter((p) => !p.excluded && p.source === "corrected"),
@@ -68,7 +92,11 @@ function regionGroups(points: readonly PhasePoint[], region: string | null, name
     },
     ...(showExcluded
       ? [
-          { name: `${name} · excluded`, pts: mine.filter((p) => p.excluded), marker: { symbol: "x-open", size: 8, color: PHASE_LOOK.excluded } },
+          {
+            name: `${name} · excluded`,
+            pts: mine.filter((p) => p.excluded),
+            marker: { symbol: "x-open", size: 8, color: PHASE_LOOK.excluded },
+          },
           // Open circles: automatic picks the lab's setting keeps out of the fit for their flags.
           {
             name: `${name} · flagged, not in the fit`,
@@ -102,14 +130,34 @@ function theoryTrace(points: readonly PhasePoint[], theory: Theory): Trace[] {
 /** The critical field: its two intervals as bands, a dotted line and the E_c label above the plot. */
 function criticalField(c: PhaseData["crossing"]): { shapes: Trace[]; annotations: Trace[] } {
   if (c.state !== "crossed" || c.field_V_per_nm == null) return { shapes: [], annotations: [] };
-  const band = (iv: [number, number], fillcolor: string) => ({ type: "rect", xref: "x", yref: "paper", x0: iv[0], x1: iv[1], y0: 0, y1: 1, fillcolor, line: { width: 0 }, layer: "below" });
+  const band = (iv: [number, number], fillcolor: string) => ({
+    type: "rect",
+    xref: "x",
+    yref: "paper",
+    x0: iv[0],
+    x1: iv[1],
+    y0: 0,
+    y1: 1,
+    fillcolor,
+    line: { width: 0 },
+    layer: "below",
+  });
   const stat = "ci95Statistical_V_per_nm" in c ? c.ci95Statistical_V_per_nm : null;
   return {
     // Light: the interval with the field model's common uncertainty; darker: from the points' scatter alone.
     shapes: [
       ...(c.ci95_V_per_nm ? [band(c.ci95_V_per_nm, PHASE_LOOK.ciModel)] : []),
       ...(stat ? [band(stat, PHASE_LOOK.ciStatistical)] : []),
-      { type: "line", xref: "x", yref: "paper", x0: c.field_V_per_nm, x1: c.field_V_per_nm, y0: 0, y1: 1, line: { color: PHASE_LOOK.fit, width: 1.5, dash: "dot" } },
+      {
+        type: "line",
+        xref: "x",
+        yref: "paper",
+        x0: c.field_V_per_nm,
+        x1: c.field_V_per_nm,
+        y0: 0,
+        y1: 1,
+        line: { color: PHASE_LOOK.fit, width: 1.5, dash: "dot" },
+      },
     ],
     annotations: [
       {
@@ -131,7 +179,10 @@ function criticalField(c: PhaseData["crossing"]): { shapes: Trace[]; annotations
  * bars (SVG paths under WebGL markers), rings on flagged picks, and in field mode the fit with its
  * band, the critical field, the field model's one bar and the theory overlay.
  */
-export function phaseFigure(data: PhaseData, o: { mode: XMode; showExcluded: boolean; theory: Theory; narrow: boolean; sampleId: string }) {
+export function phaseFigure(
+  data: PhaseData,
+  o: { mode: XMode; showExcluded: boolean; theory: Theory; narrow: boolean; sampleId: string },
+) {
   const x = X_AXIS[o.mode];
   const field = o.mode === "field";
   // Field mode has fixed ranges, shared with the still preview; the other modes autorange.
@@ -146,7 +197,9 @@ export function phaseFigure(data: PhaseData, o: { mode: XMode; showExcluded: boo
       const xs = pts.map((p) => x.of(p)!);
       const ys = pts.map((p) => p.gap_eV * 1000);
       const sy = pts.map((p) => (p.gapSigma_eV ?? 0) * 1000);
-      let errorBars: Trace = { error_y: { type: "data", array: sy, visible: true, thickness: 1, width: 2, color: g.marker.color } };
+      let errorBars: Trace = {
+        error_y: { type: "data", array: sy, visible: true, thickness: 1, width: 2, color: g.marker.color },
+      };
       if (type === "scattergl") {
         // Under WebGL markers the gap bars are an SVG path below the canvas (gapErrorBarShape).
         const vertical = errorBarPaths(xs.map((v, i) => ({ x: v, y: ys[i], sy: sy[i] }))).vertical;
@@ -187,7 +240,10 @@ export function phaseFigure(data: PhaseData, o: { mode: XMode; showExcluded: boo
     legendRoom,
     data: traces,
     layout: baseLayout({
-      xaxis: axis(x.title, { ...(x.type ? { type: x.type } : {}), ...(ranges ? { range: ranges.x, autorange: false } : {}) }),
+      xaxis: axis(x.title, {
+        ...(x.type ? { type: x.type } : {}),
+        ...(ranges ? { range: ranges.x, autorange: false } : {}),
+      }),
       yaxis: axis("band gap (meV)", ranges ? { range: ranges.y, autorange: false } : { rangemode: "tozero" }),
       shapes,
       annotations,

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { deltaBicInWords, fileStem, formatField, formatGap, pickMethodInWords } from "@/lib/format";
+import { deltaBicInWords, fileStem, formatField, formatGap, formatMv, pickMethodInWords } from "@/lib/format";
 
 describe("fileStem", () => {
   it("keeps letters and digits, lower-cased, joined by single hyphens", () => {
@@ -40,5 +40,14 @@ describe("pickMethodInWords", () => {
     expect(pickMethodInWords("fit-separate")).toBe("each edge fitted");
     expect(pickMethodInWords("fit-joint")).toBe("both edges fitted together");
     expect(pickMethodInWords("some-new-method")).toBe("some new method");
+  });
+});
+
+describe("formatMv", () => {
+  it("gives a bias in V as mV with one decimal, or a dash when there is none", () => {
+    expect(formatMv(-0.0423)).toBe("-42.3 mV");
+    expect(formatMv(0.1)).toBe("100.0 mV");
+    expect(formatMv(null)).toBe("—");
+    expect(formatMv(undefined)).toBe("—");
   });
 });

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { BAR_ROOM, BAR_Y, errorBarPaths, fieldModeRanges, fieldModelBar, fieldModelBarShapes, gapErrorBarShape, type PhaseData, type PhasePoint } from "@/components/review/phase-figure";
+import { BAR_ROOM, BAR_Y, fieldModelBar, fieldModelBarShapes } from "@/components/review/field-model-bar";
+import { errorBarPaths, fieldModeRanges, gapErrorBarShape, type PhaseData, type PhasePoint } from "@/components/review/phase-figure";
 
 /**
  * The phase plot's error bars under WebGL markers, as SVG path data in data coordinates. The
