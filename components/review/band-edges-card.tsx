@@ -199,8 +199,8 @@ export function BandEdgesCard(props: {
           <Notice tone="danger">
             <p>{a.conflict.message}</p>
             <p className="num mt-1 text-xs">
-              Their pick: {mv(a.conflict.current.vbEdgeV)} to {mv(a.conflict.current.cbEdgeV)}.{" "}
-              Yours (kept): {mv(a.vb)} to {mv(a.cb)}.
+              {`Their pick: ${mv(a.conflict.current.vbEdgeV)} to ${mv(a.conflict.current.cbEdgeV)}. `}
+              {`Yours (kept): ${mv(a.vb)} to ${mv(a.cb)}.`}
             </p>
             <button
               type="button"

@@ -9,7 +9,13 @@ import { listSamples } from "@/lib/services/samples/listSamples";
 import { listTips } from "@/lib/services/tips/tips";
 import { createSessionAction } from "../../actions";
 
-export default async function NewSessionPage({ params, searchParams }: { params: Promise<{ lab: string }>; searchParams: Promise<{ sample?: string }> }) {
+export default async function NewSessionPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ lab: string }>;
+  searchParams: Promise<{ sample?: string }>;
+}) {
   const { lab } = await params;
   const { sample } = await searchParams;
   const ctx = await pageCtx(lab);
@@ -17,14 +23,21 @@ export default async function NewSessionPage({ params, searchParams }: { params:
   const [samples, tips] = await Promise.all([listSamples({ ctx }), listTips({ ctx })]);
   return (
     <>
-      <PageHeader eyebrow="Sessions" title="New session" description="A session groups the spectra of one cooldown with one tip." />
+      <PageHeader
+        eyebrow="Sessions"
+        title="New session"
+        description="A session groups the spectra of one cooldown with one tip."
+      />
       <Card>
         <EntityForm
           action={createSessionAction.bind(null, lab)}
           schema="session"
           submitLabel="Create session"
           testId="session-form"
-          fields={sessionFields({ samples, tips }, { sampleId: sample ?? "", date: new Date().toISOString().slice(0, 10) })}
+          fields={sessionFields(
+            { samples, tips },
+            { sampleId: sample ?? "", date: new Date().toISOString().slice(0, 10) },
+          )}
         />
       </Card>
       <div className="mt-5">
