@@ -38,9 +38,12 @@ function minFrom(a: Float64Array, from: number): number {
 
 /** Median of the values (by selection on a copy); NaN for an empty input. */
 export function median(values: ArrayLike<number>): number {
-  const n = values.length;
-  if (n === 0) return NaN;
-  const a = Float64Array.from(values as ArrayLike<number>);
+  return values.length === 0 ? NaN : medianInPlace(Float64Array.from(values as ArrayLike<number>));
+}
+
+/** The median of `a`, reordering `a` (no copy). */
+function medianInPlace(a: Float64Array): number {
+  const n = a.length;
   const h = n >> 1;
   const upper = select(a, h);
   if (n % 2) return upper;
@@ -69,10 +72,12 @@ export const MAD_TO_SIGMA = 1.482602218505602;
 
 /** Robust σ estimate: 1.4826 × median(|x − median(x)|). */
 export function madSigma(values: ArrayLike<number>): number {
-  const m = median(values);
-  const dev = new Float64Array(values.length);
-  for (let i = 0; i < values.length; i++) dev[i] = Math.abs(values[i] - m);
-  return MAD_TO_SIGMA * median(dev);
+  if (values.length === 0) return NaN;
+  // One copy: the deviations do not depend on the order the first selection left behind.
+  const a = Float64Array.from(values as ArrayLike<number>);
+  const m = medianInPlace(a);
+  for (let i = 0; i < a.length; i++) a[i] = Math.abs(a[i] - m);
+  return MAD_TO_SIGMA * medianInPlace(a);
 }
 
 /**

@@ -94,6 +94,12 @@ function solveSub(p: number, use: boolean[], x: Float64Array): number {
   return bx;
 }
 
+function dot(a: Float64Array, b: Float64Array, n: number): number {
+  let s = 0;
+  for (let i = 0; i < n; i++) s += a[i] * b[i];
+  return s;
+}
+
 /**
  * Residual sum of squares of the least-squares fit of y by the columns, RSS = yᵀy − bᵀx (normal
  * equations, no allocation). A physical onset does not step down: step coefficients (indices in
@@ -102,19 +108,14 @@ function solveSub(p: number, use: boolean[], x: Float64Array): number {
 function rssOf(cols: Float64Array[], y: Float64Array, stepCol: number[]): number {
   const p = cols.length;
   const n = y.length;
-  scratchA.fill(0, 0, p * p);
-  scratchB.fill(0, 0, p);
-  let yy = 0;
-  for (let i = 0; i < n; i++) {
-    const yi = y[i];
-    yy += yi * yi;
-    for (let r = 0; r < p; r++) {
-      const xr = cols[r][i];
-      scratchB[r] += xr * yi;
-      for (let c = r; c < p; c++) scratchA[r * p + c] += xr * cols[c][i];
-    }
+  // Column by column: each entry is one dot product over two typed arrays (the loop V8 compiles
+  // best; a row-by-row sweep through p arrays ran about twice as long).
+  const yy = dot(y, y, n);
+  for (let r = 0; r < p; r++) {
+    const xr = cols[r];
+    scratchB[r] = dot(xr, y, n);
+    for (let c = r; c < p; c++) scratchA[r * p + c] = scratchA[c * p + r] = dot(xr, cols[c], n);
   }
-  for (let r = 0; r < p; r++) for (let c = 0; c < r; c++) scratchA[r * p + c] = scratchA[c * p + r];
   const use = new Array<boolean>(p).fill(true);
   const x = new Float64Array(p);
   let bx = solveSub(p, use, x);
@@ -239,41 +240,58 @@ export function fitEdges(inp: EdgeFitInput): EdgeFitResult | null {
       }
     }
   if (!Number.isFinite(bestRss)) return null;
-  let vCols = onsetColumns(bias, i0, i1, vb, "vb", kernel, false);
-  let cCols = onsetColumns(bias, i0, i1, cb, "cb", kernel, false);
-  const fV = (e: number) => (e > cb ? Infinity : rssOf([ones, ...onsetColumns(bias, i0, i1, e, "vb", kernel, false), ...cCols], yy, [1, 3]));
-  const fC = (e: number) => (e < vb ? Infinity : rssOf([ones, ...vCols, ...onsetColumns(bias, i0, i1, e, "cb", kernel, false)], yy, [1, 3]));
+  // Scratch columns, written in place by every evaluation below (these loops call the model hundreds
+  // of times; fresh arrays each time were a tenth of the picking time in garbage collection).
+  const nw = i1 - i0 + 1;
+  const buffers = () => [new Float64Array(nw), new Float64Array(nw)];
+  const vCols = onsetColumns(bias, i0, i1, vb, "vb", kernel, false, buffers());
+  const cCols = onsetColumns(bias, i0, i1, cb, "cb", kernel, false, buffers());
+  const vTry = buffers();
+  const cTry = buffers();
+  const cols5 = [ones, vCols[0], vCols[1], cCols[0], cCols[1]];
+  /** RSS with the valence onset at `ev` and the conduction onset at `ec` (null: the current edge's columns). */
+  const rssAt = (ev: number | null, ec: number | null) => {
+    const v = ev === null ? vCols : onsetColumns(bias, i0, i1, ev, "vb", kernel, false, vTry);
+    const c = ec === null ? cCols : onsetColumns(bias, i0, i1, ec, "cb", kernel, false, cTry);
+    cols5[1] = v[0];
+    cols5[2] = v[1];
+    cols5[3] = c[0];
+    cols5[4] = c[1];
+    return rssOf(cols5, yy, [1, 3]);
+  };
+  const fV = (e: number) => (e > cb ? Infinity : rssAt(e, null));
+  const fC = (e: number) => (e < vb ? Infinity : rssAt(null, e));
   const dv = (vB - vA) / (G - 1);
   const dc = (cB - cA) / (G - 1);
   for (let round = 0; round < 4; round++) {
     const mv = goldenMinimize(fV, vb - dv, Math.min(cb, vb + dv), tol);
     if (Number.isFinite(mv.fx) && mv.fx <= fV(vb)) vb = mv.x;
-    vCols = onsetColumns(bias, i0, i1, vb, "vb", kernel, false);
+    onsetColumns(bias, i0, i1, vb, "vb", kernel, false, vCols);
     const mc = goldenMinimize(fC, Math.max(vb, cb - dc), cb + dc, tol);
     if (Number.isFinite(mc.fx) && mc.fx <= fC(cb)) cb = mc.x;
-    cCols = onsetColumns(bias, i0, i1, cb, "cb", kernel, false);
+    onsetColumns(bias, i0, i1, cb, "cb", kernel, false, cCols);
   }
   const atEdge = vb <= vA + dv / 2 || vb >= vB - dv / 2 || cb <= cA + dc / 2 || cb >= cB - dc / 2;
   if (atEdge && cb - vb > res) warnings.push("joint edge fit reached its search limit");
   const h = Math.max(step / 2, res / 10);
-  const fVs = (e: number) => rssOf([ones, ...onsetColumns(bias, i0, i1, e, "vb", kernel, false), ...cCols], yy, [1, 3]);
-  const fCs = (e: number) => rssOf([ones, ...vCols, ...onsetColumns(bias, i0, i1, e, "cb", kernel, false)], yy, [1, 3]);
+  const fVs = (e: number) => rssAt(e, null);
+  const fCs = (e: number) => rssAt(null, e);
   // Is the gap distinguishable from zero? Best fit with both onsets at one point m.
-  const rssMin = rssOf([ones, ...vCols, ...cCols], yy, [1, 3]);
+  const rssMin = rssAt(null, null);
   // (Two steps at one point are collinear with the floor: keep one, of either sign.)
-  const f0 = (m: number) => rssOf([ones, onsetColumns(bias, i0, i1, m, "vb", kernel, false)[1], ...onsetColumns(bias, i0, i1, m, "cb", kernel, false)], yy, []);
+  const cols4 = [ones, vTry[1], cTry[0], cTry[1]];
+  const f0 = (m: number) => {
+    onsetColumns(bias, i0, i1, m, "vb", kernel, false, vTry);
+    onsetColumns(bias, i0, i1, m, "cb", kernel, false, cTry);
+    return rssOf(cols4, yy, []);
+  };
   const z = goldenMinimize(f0, vb - dv, cb + dv, tol);
   const closedDeltaChi2 = Math.max(0, (z.fx - rssMin) / (sigma * sigma * tau));
   // Gap profile: χ²(g) minimised over the midgap m, edges at m ∓ g/2.
   const gHat = cb - vb;
   const profile = (g: number) => {
     const mHat = (vb + cb) / 2;
-    return brentMinimize(
-      (m) => rssOf([ones, ...onsetColumns(bias, i0, i1, m - g / 2, "vb", kernel, false), ...onsetColumns(bias, i0, i1, m + g / 2, "cb", kernel, false)], yy, [1, 3]),
-      mHat - Math.max(res, step),
-      mHat + Math.max(res, step),
-      tol,
-    ).fx;
+    return brentMinimize((m) => rssAt(m - g / 2, m + g / 2), mHat - Math.max(res, step), mHat + Math.max(res, step), tol).fx;
   };
   const limit = rssMin + 3.841458820694124 * sigma * sigma * tau;
   let gapSigmaProfile: number | null = null;
