@@ -20,6 +20,8 @@ export function formatField(v: number | null | undefined, sigma?: number | null)
   return sigma != null && Number.isFinite(sigma) ? `${v.toFixed(2)} ± ${sigma.toFixed(2)} V/nm` : `${v.toFixed(2)} V/nm`;
 }
 
+/** A bias in V as mV with one decimal (band edges on the review page), or "—". */
+export const formatMv = (v: number | null | undefined): string => (v == null ? "—" : `${(v * 1000).toFixed(1)} mV`);
 
 /** A file name's stem from a sample or file name: lower-case letters, digits and single hyphens. */
 export function fileStem(name: string, fallback = "bandcross"): string {

@@ -33,7 +33,12 @@ async function signInHere(email: string, password: string, to: string): Promise<
 }
 
 function isRedirect(e: unknown) {
-  return Boolean(e && typeof e === "object" && "digest" in e && String((e as { digest: unknown }).digest).startsWith("NEXT_REDIRECT"));
+  return Boolean(
+    e &&
+    typeof e === "object" &&
+    "digest" in e &&
+    String((e as { digest: unknown }).digest).startsWith("NEXT_REDIRECT"),
+  );
 }
 
 export async function signInAction(_prev: ActionState, formData: FormData): Promise<ActionState> {
@@ -51,7 +56,11 @@ export async function signInAction(_prev: ActionState, formData: FormData): Prom
     if (e instanceof AuthError) {
       const code = (e as AuthError & { code?: string }).code;
       if (code === "throttled") {
-        return { ok: false, message: "Too many failed attempts. Wait 15 minutes, or ask your lab owner to check your account.", values: { email } };
+        return {
+          ok: false,
+          message: "Too many failed attempts. Wait 15 minutes, or ask your lab owner to check your account.",
+          values: { email },
+        };
       }
       // Unknown e-mail and wrong password get the same words.
       return { ok: false, message: "That e-mail and password do not match an account.", values: { email } };
@@ -72,7 +81,13 @@ export async function acceptInviteAction(token: string, _prev: ActionState, form
   try {
     ({ email } = await acceptInvitation({ ctx: systemContext("invitation link"), input }));
   } catch (e) {
-    if (isServiceError(e)) return { ok: false, message: e.message, fieldErrors: e.fieldErrors, values: { name: String(formData.get("name") ?? "") } };
+    if (isServiceError(e))
+      return {
+        ok: false,
+        message: e.message,
+        fieldErrors: e.fieldErrors,
+        values: { name: String(formData.get("name") ?? "") },
+      };
     throw e;
   }
   const host = await checkRequestHost();

@@ -10,10 +10,12 @@ export default function AuthLayout({ children }: { children: React.ReactNode }) 
         <div className="relative flex h-full flex-col justify-between p-12">
           <BrandMark inverted />
           <div className="max-w-md">
-            <p className="text-3xl font-semibold leading-tight">Every gap, every field, traceable to the file that made it.</p>
+            <p className="text-3xl font-semibold leading-tight">
+              Every gap, every field, traceable to the file that made it.
+            </p>
             <p className="mt-4 text-sm text-white/70">
-              Upload a session's spectra, review the band edges, and watch the gap close and reopen as the tip approaches — with the
-              critical field, its interval and the model behind it.
+              Upload a session's spectra, review the band edges, and watch the gap close and reopen as the tip
+              approaches — with the critical field, its interval and the model behind it.
             </p>
           </div>
           <p className="text-xs text-white/50">Bandcross · lab notebook for tunnelling spectroscopy</p>

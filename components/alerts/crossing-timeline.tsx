@@ -22,11 +22,23 @@ interface TimelineData {
     confirmedBy: string | null;
     createdAt: string;
   }[];
-  current: { id: string; state: string; status: string; field_V_per_nm: number | null; ci95_V_per_nm: [number, number] | null; nPoints: number; confirmable: boolean } | null;
+  current: {
+    id: string;
+    state: string;
+    status: string;
+    field_V_per_nm: number | null;
+    ci95_V_per_nm: [number, number] | null;
+    nPoints: number;
+    confirmable: boolean;
+  } | null;
   canConfirm: boolean;
 }
 
-const LABEL: Record<Kind, string> = { found: "Critical field found", moved: "Moved outside the interval", confirmed: "Confirmed" };
+const LABEL: Record<Kind, string> = {
+  found: "Critical field found",
+  moved: "Moved outside the interval",
+  confirmed: "Confirmed",
+};
 const MARK: Record<Kind, { sign: string; tone: string }> = {
   found: { sign: "✕", tone: "bg-copper text-white" },
   moved: { sign: "↔", tone: "bg-teal text-white" },
@@ -37,8 +49,14 @@ const field = (v: number | null, ci: [number, number] | null, digits = 2) => (v 
 const when = formatUtc;
 
 type PhaseCrossing = PhaseData["crossing"];
-/** The crossing Confirm acts on, from the phase query the critical-field card and the plot read: null when there is nothing to confirm. */
-const confirmable = (c: PhaseCrossing) => ("id" in c && c.state === "crossed" && c.found && c.field_V_per_nm != null && c.status !== "confirmed" ? { id: c.id, field_V_per_nm: c.field_V_per_nm, ci95_V_per_nm: c.ci95_V_per_nm } : null);
+/**
+ * The crossing Confirm acts on, from the phase query the critical-field card and the plot read: null when there is
+ * nothing to confirm.
+ */
+const confirmable = (c: PhaseCrossing) =>
+  "id" in c && c.state === "crossed" && c.found && c.field_V_per_nm != null && c.status !== "confirmed"
+    ? { id: c.id, field_V_per_nm: c.field_V_per_nm, ci95_V_per_nm: c.ci95_V_per_nm }
+    : null;
 
 /**
  * The sample's crossing events, newest first, and the analyst's "confirm" for the current fit.
@@ -46,7 +64,15 @@ const confirmable = (c: PhaseCrossing) => ("id" in c && c.state === "crossed" &&
  * its id and value travel with the click, and a fit that changed meanwhile is refused with the
  * current value, after which the page's data is refreshed.
  */
-export function CrossingTimeline({ lab, sampleId, initialCrossing }: { lab: string; sampleId: string; initialCrossing: PhaseCrossing }) {
+export function CrossingTimeline({
+  lab,
+  sampleId,
+  initialCrossing,
+}: {
+  lab: string;
+  sampleId: string;
+  initialCrossing: PhaseCrossing;
+}) {
   const qc = useQueryClient();
   const [pending, start] = useTransition();
   const [message, setMessage] = useState<{ ok: boolean; text: string } | null>(null);
@@ -63,7 +89,11 @@ export function CrossingTimeline({ lab, sampleId, initialCrossing }: { lab: stri
     });
   const d = q.data;
   return (
-    <section className="rounded-xl border border-line bg-card" data-testid="crossing-timeline" aria-labelledby="crossing-timeline-title">
+    <section
+      className="rounded-xl border border-line bg-card"
+      data-testid="crossing-timeline"
+      aria-labelledby="crossing-timeline-title"
+    >
       <header className="flex flex-wrap items-center justify-between gap-3 border-b border-line px-5 py-3.5">
         <h2 id="crossing-timeline-title" className="text-sm font-semibold tracking-wide text-ink">
           Critical-field alerts
@@ -96,14 +126,21 @@ export function CrossingTimeline({ lab, sampleId, initialCrossing }: { lab: stri
           </p>
         ) : !d || d.events.length === 0 ? (
           <p className="text-sm text-ink-soft">
-            No alerts yet. When a fit first shows the gap closing and reopening, everyone watching this sample gets an e-mail; again if a later fit moves the
-            critical field outside its 95% interval, and when an analyst confirms it.
+            No alerts yet. When a fit first shows the gap closing and reopening, everyone watching this sample gets an
+            e-mail; again if a later fit moves the critical field outside its 95% interval, and when an analyst confirms
+            it.
           </p>
         ) : (
           <ol className="relative space-y-4 border-l border-line pl-5">
             {d.events.map((e) => (
               <li key={e.id} className="relative" data-testid={`crossing-event-${e.kind}`}>
-                <span className={`absolute -left-[30px] top-0.5 flex h-5 w-5 items-center justify-center rounded-full text-[11px] ${MARK[e.kind].tone}`} aria-hidden>
+                <span
+                  className={
+                    `absolute -left-[30px] top-0.5 flex h-5 w-5 items-center ` +
+                    `justify-center rounded-full text-[11px] ${MARK[e.kind].tone}`
+                  }
+                  aria-hidden
+                >
                   {MARK[e.kind].sign}
                 </span>
                 <p className="text-sm font-medium text-ink">
@@ -111,14 +148,17 @@ export function CrossingTimeline({ lab, sampleId, initialCrossing }: { lab: stri
                 </p>
                 <p className="text-xs text-muted">
                   <time dateTime={e.createdAt}>{when(e.createdAt)}</time>
-                  {e.nPoints != null ? ` · ${e.nPoints} spectra` : ""} · settings v{e.settingsVersion ?? "?"}, field model v{e.fieldModelVersion ?? "?"}
+                  {e.nPoints != null ? ` · ${e.nPoints} spectra` : ""} · settings v{e.settingsVersion ?? "?"}, field
+                  model v{e.fieldModelVersion ?? "?"}
                   {e.confirmedBy ? ` · by ${e.confirmedBy}` : ""}
                 </p>
               </li>
             ))}
           </ol>
         )}
-        <p className="mt-4 text-xs text-muted">Fields are estimates from the field model (work functions and contact distance), not measurements.</p>
+        <p className="mt-4 text-xs text-muted">
+          Fields are estimates from the field model (work functions and contact distance), not measurements.
+        </p>
       </div>
     </section>
   );

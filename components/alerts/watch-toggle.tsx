@@ -9,6 +9,10 @@ import { alertKeys, getJson } from "./query";
  * Watch a sample: e-mail and an in-app notification when its critical field is found, moves
  * outside its interval or is confirmed. A toggle button (aria-pressed) that says what it does.
  */
+const WATCH_BUTTON =
+  "inline-flex items-center gap-2 whitespace-nowrap rounded-md border px-3.5 py-2 text-sm font-medium " +
+  "transition-colors disabled:opacity-70";
+
 export function WatchToggle({ lab, sampleId }: { lab: string; sampleId: string }) {
   const qc = useQueryClient();
   const [pending, start] = useTransition();
@@ -33,9 +37,15 @@ export function WatchToggle({ lab, sampleId }: { lab: string; sampleId: string }
         aria-pressed={watching}
         disabled={q.isPending || pending}
         onClick={toggle}
-        title={watching ? "You get an e-mail when this sample's critical field is found, moves or is confirmed." : "Get an e-mail when this sample's critical field is found, moves or is confirmed."}
-        className={`inline-flex items-center gap-2 whitespace-nowrap rounded-md border px-3.5 py-2 text-sm font-medium transition-colors disabled:opacity-70 ${
-          watching ? "border-copper/40 bg-copper-soft text-copper hover:brightness-95" : "border-line bg-card text-ink hover:border-ink-soft"
+        title={
+          watching
+            ? "You get an e-mail when this sample's critical field is found, moves or is confirmed."
+            : "Get an e-mail when this sample's critical field is found, moves or is confirmed."
+        }
+        className={`${WATCH_BUTTON} ${
+          watching
+            ? "border-copper/40 bg-copper-soft text-copper hover:brightness-95"
+            : "border-line bg-card text-ink hover:border-ink-soft"
         }`}
       >
         <span aria-hidden>{watching ? "●" : "○"}</span>

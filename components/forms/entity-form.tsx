@@ -7,7 +7,16 @@ import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { Field, Input, Select, Textarea } from "@/components/ui/field";
 import type { ActionState } from "@/lib/actions/types";
-import { fieldErrorsOf, flaggedInFitInput, inviteInput, labDefaultsInput, sampleInput, sessionInput, tipInput, tokenInput } from "@/lib/schemas/lab";
+import {
+  fieldErrorsOf,
+  flaggedInFitInput,
+  inviteInput,
+  labDefaultsInput,
+  sampleInput,
+  sessionInput,
+  tipInput,
+  tokenInput,
+} from "@/lib/schemas/lab";
 
 /** The schemas a form may validate with in the browser: the same ones the server applies. */
 const SCHEMAS = {
@@ -80,7 +89,14 @@ export function EntityForm({
   }
 
   return (
-    <form action={formAction} onSubmit={onSubmit} noValidate className="space-y-5" data-testid={testId} key={resetOnSuccess && state.ok ? String(Math.random()) : "form"}>
+    <form
+      action={formAction}
+      onSubmit={onSubmit}
+      noValidate
+      className="space-y-5"
+      data-testid={testId}
+      key={resetOnSuccess && state.ok ? String(Math.random()) : "form"}
+    >
       {state.message && !state.ok ? <Notice tone="danger">{state.message}</Notice> : null}
       {state.ok && onSuccessMessage ? <Notice tone="ok">{onSuccessMessage}</Notice> : null}
       <div className="grid gap-4 sm:grid-cols-2">

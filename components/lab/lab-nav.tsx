@@ -7,7 +7,17 @@ import { BrandMark } from "@/components/brand";
 import { loadPlotly } from "@/components/plots/plotly-script";
 import type { MemberRole } from "@/db/schema/auth";
 
-const ROLE_LABEL: Record<MemberRole, string> = { owner: "Owner", microscopist: "Microscopist", analyst: "Analyst", collaborator: "Collaborator" };
+const ROLE_LABEL: Record<MemberRole, string> = {
+  owner: "Owner",
+  microscopist: "Microscopist",
+  analyst: "Analyst",
+  collaborator: "Collaborator",
+};
+
+/** A navigation link: the current page's, and the others'. */
+const NAV_LINK = "flex items-center gap-2 rounded-md px-3 py-2 text-sm";
+const NAV_ACTIVE = "bg-white/10 font-medium text-white";
+const NAV_IDLE = "text-white/70 hover:bg-white/5 hover:text-white";
 
 export function LabNav({
   lab,
@@ -48,21 +58,39 @@ export function LabNav({
     { href: `${base}/notifications`, label: "Alerts", badge: unreadCount },
     ...(canConfigure ? [{ href: `${base}/settings`, label: "Lab settings" }] : []),
   ];
-  const isActive = (href: string, exact?: boolean) => (exact ? path === href || path.startsWith(`${base}/samples`) : path.startsWith(href));
+  const isActive = (href: string, exact?: boolean) =>
+    exact ? path === href || path.startsWith(`${base}/samples`) : path.startsWith(href);
   return (
     <aside className="border-b border-white/10 bg-night text-white lg:sticky lg:top-0 lg:h-screen lg:border-b-0">
-      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-10 focus:rounded focus:bg-white focus:px-3 focus:py-2 focus:text-ink">
+      <a
+        href="#main"
+        className={
+          "sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-10 " +
+          "focus:rounded focus:bg-white focus:px-3 focus:py-2 focus:text-ink"
+        }
+      >
         Skip to content
       </a>
       <div className="flex items-center justify-between px-5 py-4 lg:block lg:py-6">
         <Link href={base} aria-label="Bandcross home">
           <BrandMark inverted />
         </Link>
-        <button type="button" className="rounded-md border border-white/20 px-3 py-1.5 text-sm lg:hidden" aria-expanded={open} aria-controls="lab-nav" onClick={() => setOpen((v) => !v)}>
+        <button
+          type="button"
+          className="rounded-md border border-white/20 px-3 py-1.5 text-sm lg:hidden"
+          aria-expanded={open}
+          aria-controls="lab-nav"
+          onClick={() => setOpen((v) => !v)}
+        >
           Menu
         </button>
       </div>
-      <div id="lab-nav" className={`${open ? "block" : "hidden"} px-3 pb-6 lg:flex lg:h-[calc(100vh-88px)] lg:flex-col lg:justify-between`}>
+      <div
+        id="lab-nav"
+        className={
+          `${open ? "block" : "hidden"} px-3 pb-6 lg:flex ` + `lg:h-[calc(100vh-88px)] lg:flex-col lg:justify-between`
+        }
+      >
         <div>
           <div className="mx-2 mb-5 rounded-lg bg-white/5 px-3 py-2.5">
             <p className="text-[11px] uppercase tracking-[0.14em] text-white/50">Lab</p>
@@ -93,13 +121,23 @@ export function LabNav({
                     <Link
                       href={item.href}
                       aria-current={active ? "page" : undefined}
-                      className={`flex items-center gap-2 rounded-md px-3 py-2 text-sm ${active ? "bg-white/10 font-medium text-white" : "text-white/70 hover:bg-white/5 hover:text-white"}`}
+                      className={`${NAV_LINK} ${active ? NAV_ACTIVE : NAV_IDLE}`}
                     >
-                      <span className={`h-4 w-0.5 rounded-full ${active ? "bg-copper" : "bg-transparent"}`} aria-hidden />
+                      <span
+                        className={`h-4 w-0.5 rounded-full ${active ? "bg-copper" : "bg-transparent"}`}
+                        aria-hidden
+                      />
                       {item.label}
                       {/* Crossing alerts: unread count */}
                       {"badge" in item && item.badge ? (
-                        <span className="ml-auto rounded-full bg-copper px-1.5 py-0.5 text-[11px] font-semibold leading-none text-white" data-testid="unread-count" aria-label={`${item.badge} unread`}>
+                        <span
+                          className={
+                            "ml-auto rounded-full bg-copper px-1.5 py-0.5 text-[11px] " +
+                            "font-semibold leading-none text-white"
+                          }
+                          data-testid="unread-count"
+                          aria-label={`${item.badge} unread`}
+                        >
                           {item.badge > 99 ? "99+" : item.badge}
                         </span>
                       ) : null}

@@ -30,7 +30,13 @@ interface FileLayout {
   legend?: object;
   margin?: Margin;
   showlegend?: boolean;
+  /** `legendRoom`: px of the bottom margin that hold the screen's legend (a narrow screen's), replaced in a file. */
+  meta?: unknown;
 }
+
+/** The part of the bottom margin the screen gave its legend, which a file lays out afresh. */
+const screenLegendRoom = (layout: FileLayout) =>
+  Number((layout.meta as { legendRoom?: number } | undefined)?.legendRoom ?? 0) || 0;
 
 /**
  * The legend of a file `width` px wide: at the figure's foot (container coordinates), never
@@ -51,14 +57,20 @@ export function fileLegend(layout: FileLayout, width: number): object {
  * tall as `fileLegend` lays it out, is shown whole: at the foot of the figure, below the plot's own
  * bottom margin. A layout without a legend is left as it is.
  */
-export function fileLayout<L extends FileLayout>(layout: L, { width, height, legendHeight }: { width: number; height: number; legendHeight: number }): { layout: L; height: number } {
+export function fileLayout<L extends FileLayout>(
+  layout: L,
+  { width, height, legendHeight }: { width: number; height: number; legendHeight: number },
+): { layout: L; height: number } {
   if (layout.showlegend === false || legendHeight <= 0) return { layout, height };
   const t = layout.margin?.t ?? 80;
-  const b = layout.margin?.b ?? 80;
+  const b = (layout.margin?.b ?? 80) - screenLegendRoom(layout);
   const room = Math.ceil(legendHeight) + LEGEND_GAP;
   const plot = Math.max(0, height - t - b);
   const fitted = Math.max(height, Math.ceil(t + b + room + MIN_PLOT_SHARE * plot));
-  return { height: fitted, layout: { ...layout, margin: { ...layout.margin, b: b + room }, legend: fileLegend(layout, width) } };
+  return {
+    height: fitted,
+    layout: { ...layout, margin: { ...layout.margin, b: b + room }, legend: fileLegend(layout, width) },
+  };
 }
 
 /** The layout for measuring a file's legend: laid out as in the file. */
@@ -81,5 +93,10 @@ const ONE_POINT = new Set(["x", "y", "z", "customdata", "text", "hovertext"]);
  */
 export const legendProbe = (data: readonly object[]): object[] =>
   data.map((t) =>
-    Object.fromEntries(Object.entries(t).map(([k, v]) => [k, k === "type" && v === "scattergl" ? "scatter" : ONE_POINT.has(k) && Array.isArray(v) ? v.slice(0, 1) : v])),
+    Object.fromEntries(
+      Object.entries(t).map(([k, v]) => [
+        k,
+        k === "type" && v === "scattergl" ? "scatter" : ONE_POINT.has(k) && Array.isArray(v) ? v.slice(0, 1) : v,
+      ]),
+    ),
   );

@@ -1,9 +1,18 @@
 "use client";
 
-import { type ComponentType, type ReactNode, useEffect, useLayoutEffect, useMemo, useRef, useState, useSyncExternalStore } from "react";
+import {
+  type ComponentType,
+  type ReactNode,
+  useEffect,
+  useLayoutEffect,
+  useMemo,
+  useRef,
+  useState,
+  useSyncExternalStore,
+} from "react";
 import { preinit } from "react-dom";
 import createPlotlyComponent, { type PlotParams } from "react-plotly.js/factory";
-import { fileLayout, legendHeight, legendProbe, probeLayout } from "./figure-file";
+import { downloadFigure, fileName } from "./download";
 import { loadPlotly, PLOTLY_SRC } from "./plotly-script";
 
 /**
@@ -32,7 +41,13 @@ function makeLoaded(Plotly: Loaded["Plotly"]): Loaded {
         title: "Download the figure as PNG",
         icon: Plotly.Icons.camera,
         // The plot's own config (its file name) is on the graph div.
-        click: (gd: HTMLElement & { _context?: unknown }) => void downloadFigure(gd, { format: "png", filename: fileName(gd._context), width: gd.clientWidth, height: gd.clientHeight }),
+        click: (gd: HTMLElement & { _context?: unknown }) =>
+          void downloadFigure(gd, {
+            format: "png",
+            filename: fileName(gd._context),
+            width: gd.clientWidth,
+            height: gd.clientHeight,
+          }),
       },
     ],
   };
@@ -46,7 +61,8 @@ const isHydrating = () => true;
 
 /** The component at once when the library's script has already run (it usually has by hydration), else null. */
 function loadedNow(): Loaded | null {
-  const Plotly = typeof window === "undefined" ? undefined : (window as unknown as { Plotly?: Loaded["Plotly"] }).Plotly;
+  const Plotly =
+    typeof window === "undefined" ? undefined : (window as unknown as { Plotly?: Loaded["Plotly"] }).Plotly;
   return ready ?? (Plotly ? makeLoaded(Plotly) : null);
 }
 
@@ -66,39 +82,11 @@ function glPixelRatio(): number {
   return typeof window === "undefined" ? 1 : Math.min(2, Math.max(1, window.devicePixelRatio || 1));
 }
 
-const fileName = (config: unknown) => (config as { toImageButtonOptions?: { filename?: string } } | undefined)?.toImageButtonOptions?.filename ?? "bandcross-figure";
-
-/**
- * Writes a drawn figure to a PNG (at 2×) or SVG file. Drawn afresh from its data and layout with
- * WebGL at ratio 2, whatever ratio the screen's copy uses, so WebGL points are as sharp as the rest.
- * The file is `width` wide and at least `height` tall, its legend whole at its foot (`figure-file.ts`).
- */
-export async function downloadFigure(gd: HTMLElement, { format, filename, width, height }: { format: "png" | "svg"; filename: string; width: number; height: number }) {
-  const Plotly = await loadPlotly();
-  const { data, layout: onScreen } = gd as unknown as { data: Plotly.Data[]; layout: Partial<Plotly.Layout> };
-  // Text in the file's face by name only: a file has no web fonts, and text measured in the page's
-  // web font (the legend's width, its clip) ran past its box in the wider face the file fell back to.
-  const shown = { ...onScreen, font: { ...onScreen.font, family: FILE_FONTS } };
-  const file = fileLayout(shown, { width, height, legendHeight: await measureLegend(Plotly, data, shown, width, height) });
-  // downloadImage hands its options to toImage, which takes `scale`; the published types omit it.
-  const options = { format, filename, width, height: file.height, scale: format === "png" ? 2 : 1 };
-  await Plotly.downloadImage({ data, layout: { ...file.layout, width, height: file.height }, config: { plotGlPixelRatio: 2 } } as unknown as HTMLElement, options);
-}
-
-/** The figure's legend height at the file's width, from a probe drawing out of sight (one point a trace). */
-async function measureLegend(Plotly: Loaded["Plotly"], data: Plotly.Data[], layout: Partial<Plotly.Layout>, width: number, height: number): Promise<number> {
-  if (layout.showlegend === false) return 0;
-  const probe = document.createElement("div");
-  probe.style.cssText = `position:fixed;left:-100000px;top:0;width:${width}px;height:${height}px;visibility:hidden`;
-  document.body.appendChild(probe);
-  try {
-    await Plotly.newPlot(probe, legendProbe(data) as Plotly.Data[], { ...probeLayout(layout, width), width, height }, { staticPlot: true });
-    return legendHeight(probe);
-  } finally {
-    Plotly.purge(probe);
-    probe.remove();
-  }
-}
+/** Where the figure would be, when the library could not be loaded: a message and a retry. */
+const FAILED_BOX = [
+  "absolute inset-0 flex flex-col items-center justify-center gap-2",
+  "rounded-lg border border-dashed border-line bg-card p-4 text-center text-sm text-ink-soft",
+].join(" ");
 
 /**
  * A Plotly figure in the browser. Rendering it (on the server too) names the library's script in
@@ -189,7 +177,7 @@ export function Plot({ placeholder, ...props }: Omit<PlotParams, "useResizeHandl
         />
       ) : null}
       {loaded && "error" in loaded ? (
-        <div role="alert" className="absolute inset-0 flex flex-col items-center justify-center gap-2 rounded-lg border border-dashed border-line bg-card p-4 text-center text-sm text-ink-soft">
+        <div role="alert" className={FAILED_BOX}>
           <p>The plotting library could not be loaded: {loaded.error.message}.</p>
           <button
             type="button"
@@ -203,50 +191,13 @@ export function Plot({ placeholder, ...props }: Omit<PlotParams, "useResizeHandl
           </button>
         </div>
       ) : !graph ? (
-        (placeholder ?? <div className="absolute inset-0 animate-pulse rounded-lg bg-line/50" aria-label="Loading the plot" />)
+        (placeholder ?? (
+          <div className="absolute inset-0 animate-pulse rounded-lg bg-line/50" aria-label="Loading the plot" />
+        ))
       ) : null}
     </div>
   );
 }
 
-/**
- * The plots' font family, as names: a CSS variable in Plotly's text makes the whole declaration
- * void wherever the page's styles are absent (figure files, where text fell back to a serif). On
- * screen the page's own face (the family name next/font gave it, read once), then the face by its
- * usual name for files opened where it is installed, then common sans-serifs.
- */
-const FILE_FONTS = '"IBM Plex Sans", "Helvetica Neue", Arial, sans-serif';
-let fontFamily: string | null = null;
-function plotFontFamily(): string {
-  if (typeof document === "undefined") return FILE_FONTS;
-  fontFamily ??= [getComputedStyle(document.documentElement).getPropertyValue("--font-plex-sans").trim(), FILE_FONTS].filter(Boolean).join(", ");
-  return fontFamily;
-}
-
-/** The product's plot look: our fonts, paper background, quiet grid. */
-export const PLOT_FONT = { size: 12, color: "#1c2430" };
-export const COLORS = ["#1f6b73", "#b9512a", "#5b4b8a", "#7a8b2e", "#a13d63", "#2f5f9e"];
-/** Plot area, grid and axis-line colours. */
-export const PLOT_STYLE = { plotBg: "#fffdf8", grid: "#ece6d8", zeroline: "#d8cfbd", axisLine: "#cfc6b4" } as const;
-
-export function baseLayout(extra: Record<string, unknown> = {}) {
-  return {
-    font: { ...PLOT_FONT, family: plotFontFamily() },
-    paper_bgcolor: "rgba(0,0,0,0)",
-    plot_bgcolor: PLOT_STYLE.plotBg,
-    margin: { l: 64, r: 16, t: 16, b: 52 },
-    hoverlabel: { font: { family: plotFontFamily() } },
-    legend: { orientation: "h", y: -0.2, font: { size: 11 } },
-    ...extra,
-  };
-}
-
-export const axis = (title: string, extra: Record<string, unknown> = {}) => ({
-  title: { text: title, standoff: 8 },
-  gridcolor: PLOT_STYLE.grid,
-  zerolinecolor: PLOT_STYLE.zeroline,
-  linecolor: PLOT_STYLE.axisLine,
-  ticks: "outside",
-  tickcolor: PLOT_STYLE.axisLine,
-  ...extra,
-});
+export { axis, baseLayout, COLORS, PLOT_FONT, PLOT_STYLE } from "./look";
+export { downloadFigure } from "./download";

@@ -37,7 +37,9 @@ const attemptSrc = () => (failures ? `${PLOTLY_SRC}?attempt=${failures + 1}` : P
  * ours listens to it; its resource-timing entry is the only trace left.
  */
 function failedEarlier(script: HTMLScriptElement): boolean {
-  return (performance.getEntriesByName(script.src, "resource") as PerformanceResourceTiming[]).some((e) => e.responseStatus >= 400 || (e.responseStatus === 0 && e.decodedBodySize === 0));
+  return (performance.getEntriesByName(script.src, "resource") as PerformanceResourceTiming[]).some(
+    (e) => e.responseStatus >= 400 || (e.responseStatus === 0 && e.decodedBodySize === 0),
+  );
 }
 
 /**
@@ -63,7 +65,11 @@ export function loadPlotly(): Promise<PlotlyStatic> {
       document.head.appendChild(script);
     }
     const added = script;
-    added.addEventListener("load", () => (w.Plotly ? resolve(w.Plotly) : reject(new Error("the script ran without defining it"))), { once: true });
+    added.addEventListener(
+      "load",
+      () => (w.Plotly ? resolve(w.Plotly) : reject(new Error("the script ran without defining it"))),
+      { once: true },
+    );
     added.addEventListener(
       "error",
       () => {

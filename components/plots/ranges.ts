@@ -7,7 +7,10 @@
  * The smallest range holding every finite value, widened by `pad` of its span on each side (a
  * zero span gets ±0.5, or ±5% of the value). `includeZero` stretches it to reach zero first.
  */
-export function paddedRange(values: Iterable<number>, { pad = 0.05, includeZero = false }: { pad?: number; includeZero?: boolean } = {}): [number, number] | null {
+export function paddedRange(
+  values: Iterable<number>,
+  { pad = 0.05, includeZero = false }: { pad?: number; includeZero?: boolean } = {},
+): [number, number] | null {
   let lo = Infinity;
   let hi = -Infinity;
   for (const v of values) {
@@ -39,6 +42,7 @@ export function niceTicks(lo: number, hi: number, target = 6): number[] {
   const step = [1, 2, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
   const decimals = Math.max(0, -Math.floor(Math.log10(step) + 1e-9));
   const ticks: number[] = [];
-  for (let k = Math.ceil(lo / step - 1e-9); k * step <= hi + 1e-9 * step; k++) ticks.push(Number((k * step).toFixed(decimals)));
+  for (let k = Math.ceil(lo / step - 1e-9); k * step <= hi + 1e-9 * step; k++)
+    ticks.push(Number((k * step).toFixed(decimals)));
   return ticks;
 }

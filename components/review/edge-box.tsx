@@ -3,20 +3,32 @@
 import { useState } from "react";
 import { readNumber } from "@/lib/schemas/number";
 
+/** A bias in V as whole mV. */
+const mV0 = (v: number) => (v * 1000).toFixed(0);
+
 /**
  * Why a typed band edge (mV) cannot be used, in words, or null when it can: it must be a number
  * (read as every input reads numbers, a decimal comma too), inside the spectrum's bias range, and
  * on its side of the other edge.
  */
-export function edgeProblem(text: string, o: { range: [number, number]; below?: number | null; above?: number | null }): { value: number } | { problem: string } {
+
+export function edgeProblem(
+  text: string,
+  o: { range: [number, number]; below?: number | null; above?: number | null },
+): { value: number } | { problem: string } {
   const n = readNumber(text);
   if (n === undefined) return { problem: "Type the edge in mV." };
   if (typeof n !== "number" || !Number.isFinite(n)) return { problem: `"${text.trim()}" is not a number (mV).` };
   const v = n / 1000;
   const [lo, hi] = o.range;
-  if (v < lo || v > hi) return { problem: `${n} mV is outside this spectrum's bias range (${(lo * 1000).toFixed(0)} to ${(hi * 1000).toFixed(0)} mV).` };
-  if (o.below != null && v >= o.below) return { problem: `The valence edge must lie below the conduction edge (${(o.below * 1000).toFixed(1)} mV).` };
-  if (o.above != null && v <= o.above) return { problem: `The conduction edge must lie above the valence edge (${(o.above * 1000).toFixed(1)} mV).` };
+  if (v < lo || v > hi)
+    return {
+      problem: `${n} mV is outside this spectrum's bias range (${mV0(lo)} to ${mV0(hi)} mV).`,
+    };
+  if (o.below != null && v >= o.below)
+    return { problem: `The valence edge must lie below the conduction edge (${(o.below * 1000).toFixed(1)} mV).` };
+  if (o.above != null && v <= o.above)
+    return { problem: `The conduction edge must lie above the valence edge (${(o.above * 1000).toFixed(1)} mV).` };
   return { value: v };
 }
 
@@ -57,7 +69,10 @@ export function EdgeBox({
     <label className="text-xs text-muted">
       {label} (mV)
       <input
-        className={`num mt-0.5 w-full rounded border px-2 py-1 text-sm text-ink ${problem ? "border-danger" : "border-line"}`}
+        className={
+          `num mt-0.5 w-full rounded border px-2 py-1 text-sm text-ink ` +
+          `${problem ? "border-danger" : "border-line"}`
+        }
         aria-label={`${label[0].toUpperCase()}${label.slice(1)}-band edge in mV`}
         aria-invalid={problem ? true : undefined}
         inputMode="decimal"

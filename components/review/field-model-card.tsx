@@ -10,7 +10,19 @@ import { useSampleVersions, type SampleVersions } from "./sample-queries";
  * sample's versions query, so a new field model shows here when it is saved and its fit when the
  * re-analysis ends, like every other card of the page.
  */
-export function FieldModelCard({ lab, sampleId, initial, model, tipText }: { lab: string; sampleId: string; initial: SampleVersions; model: FieldModel; tipText: string }) {
+export function FieldModelCard({
+  lab,
+  sampleId,
+  initial,
+  model,
+  tipText,
+}: {
+  lab: string;
+  sampleId: string;
+  initial: SampleVersions;
+  model: FieldModel;
+  tipText: string;
+}) {
   const versions = useSampleVersions(lab, sampleId, initial);
   const stored = versions.fieldModel.model as Partial<FieldModel>;
   const current: FieldModel = {
@@ -23,22 +35,28 @@ export function FieldModelCard({ lab, sampleId, initial, model, tipText }: { lab
   return (
     <div className="space-y-2 text-xs leading-relaxed text-ink-soft" data-testid="field-assumptions">
       <p className="num text-ink">
-        E = (Φ<sub>tip</sub> − Φ<sub>sample</sub>) / (e·d), d = d<sub>c</sub> + ln(G<sub>0</sub>/G<sub>set</sub>)/(2κ) + Δz
+        E = (Φ<sub>tip</sub> − Φ<sub>sample</sub>) / (e·d), d = d<sub>c</sub> + ln(G<sub>0</sub>/G<sub>set</sub>)/(2κ) +
+        Δz
       </p>
       <ul className="list-disc space-y-0.5 pl-4">
         <li>
           Φ<sub>tip</sub> = <span className="num">{tipText}</span>
         </li>
         <li>
-          Φ<sub>sample</sub> = <span className="num">{current.sampleWorkFunction_eV.toFixed(2)} ± {current.sampleWorkFunctionSigma_eV.toFixed(2)} eV</span>
+          Φ<sub>sample</sub> ={" "}
+          <span className="num">
+            {current.sampleWorkFunction_eV.toFixed(2)} ± {current.sampleWorkFunctionSigma_eV.toFixed(2)} eV
+          </span>
         </li>
         {fieldAssumptions(current).map((a) => (
           <li key={a}>{a}</li>
         ))}
       </ul>
       <p>
-        Field model <span className="num">v{versions.fieldModel.version}</span>, extraction settings <span className="num">v{versions.settings.version}</span>. Error bars: gap from the
-        pick&apos;s uncertainty; field from the work-function and contact-distance uncertainties (common to all points, so they also widen the critical field&apos;s interval).
+        Field model <span className="num">v{versions.fieldModel.version}</span>, extraction settings{" "}
+        <span className="num">v{versions.settings.version}</span>. Error bars: gap from the pick&apos;s uncertainty. The
+        field&apos;s uncertainty (work functions, contact distance) is common to all points: one bar at the top of the
+        plot, and it widens the critical field&apos;s interval.
       </p>
     </div>
   );

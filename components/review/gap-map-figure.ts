@@ -21,7 +21,11 @@ export function cellGapText(c: Cell): string {
  * Each cell's data for hover and click: [spectrum id, file name (and label), gap text]. The hover
  * reads the last two (`%{customdata[1]}`, `%{customdata[2]}`), a click the first.
  */
-const cellData = (c: Cell): [string, string, string] => [c.id, c.label && c.label !== c.fileName ? `${c.fileName} · ${c.label}` : c.fileName, cellGapText(c)];
+const cellData = (c: Cell): [string, string, string] => [
+  c.id,
+  c.label && c.label !== c.fileName ? `${c.fileName} · ${c.label}` : c.fileName,
+  cellGapText(c),
+];
 
 /** The hover of every cell: its gap, its position in nm, and the file it came from. */
 export const GAP_MAP_HOVER = "%{customdata[2]}<br>x %{x:.2f} nm, y %{y:.2f} nm<br>%{customdata[1]}<extra></extra>";
@@ -43,15 +47,54 @@ export function gapMapFigure(data: MapData) {
   }
   const regular = xs.length * ys.length <= data.cells.length * 1.05;
   const trace = regular
-    ? { type: "heatmap", x: xs, y: ys, z, customdata: custom, colorscale: [[0, "#16323a"], [0.5, "#1f6b73"], [0.8, "#e0b589"], [1, "#b9512a"]], colorbar: { title: { text: "gap (meV)" } }, hovertemplate: GAP_MAP_HOVER, hoverongaps: false }
-    : { type: "scatter", mode: "markers", x: data.cells.map((c) => c.x_nm), y: data.cells.map((c) => c.y_nm), customdata: data.cells.map(cellData), marker: { symbol: "square", size: 9, color: data.cells.map((c) => (c.gap_eV == null ? null : c.gap_eV * 1000)), colorscale: "Cividis", showscale: true, colorbar: { title: { text: "gap (meV)" } } }, hovertemplate: GAP_MAP_HOVER };
+    ? {
+        type: "heatmap",
+        x: xs,
+        y: ys,
+        z,
+        customdata: custom,
+        colorscale: [
+          [0, "#16323a"],
+          [0.5, "#1f6b73"],
+          [0.8, "#e0b589"],
+          [1, "#b9512a"],
+        ],
+        colorbar: { title: { text: "gap (meV)" } },
+        hovertemplate: GAP_MAP_HOVER,
+        hoverongaps: false,
+      }
+    : {
+        type: "scatter",
+        mode: "markers",
+        x: data.cells.map((c) => c.x_nm),
+        y: data.cells.map((c) => c.y_nm),
+        customdata: data.cells.map(cellData),
+        marker: {
+          symbol: "square",
+          size: 9,
+          color: data.cells.map((c) => (c.gap_eV == null ? null : c.gap_eV * 1000)),
+          colorscale: "Cividis",
+          showscale: true,
+          colorbar: { title: { text: "gap (meV)" } },
+        },
+        hovertemplate: GAP_MAP_HOVER,
+      };
   // Wide enough for the map at its true aspect (equal nm per pixel both ways) and its colour
   // bar beside it, no wider: in a full-width box the bar stood far from a square map.
   const span = (v: number[]) => (v.length > 1 ? ((v[v.length - 1] - v[0]) * v.length) / (v.length - 1) : 1);
   const aspect = span(xs) / span(ys) || 1;
   const width = Math.round(MAP_AREA_PX * aspect) + MAP_MARGIN.l + MAP_MARGIN.r + COLOR_BAR_PX;
-  return { width, data: [trace], layout: baseLayout({ xaxis: axis("x (nm)", { constrain: "domain" }), yaxis: axis("y (nm)", { scaleanchor: "x" }), margin: MAP_MARGIN }) };
+  return {
+    width,
+    data: [trace],
+    layout: baseLayout({
+      xaxis: axis("x (nm)", { constrain: "domain" }),
+      yaxis: axis("y (nm)", { scaleanchor: "x" }),
+      margin: MAP_MARGIN,
+    }),
+  };
 }
 
 /** The spectrum id of a clicked cell (null for an empty one). */
-export const clickedCell = (customdata: unknown): string | null => (Array.isArray(customdata) && typeof customdata[0] === "string" ? customdata[0] : null);
+export const clickedCell = (customdata: unknown): string | null =>
+  Array.isArray(customdata) && typeof customdata[0] === "string" ? customdata[0] : null;

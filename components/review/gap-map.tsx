@@ -24,10 +24,16 @@ export function GapMap({ lab, sampleId, initial }: { lab: string; sampleId: stri
   });
   const fig = useMemo(() => gapMapFigure(data), [data]);
   if (!data.grids.length) return null;
+  const shownGrid = data.grids.find((g) => g.id === uploadId) ?? data.grids[0];
   return (
     <div className="space-y-2" data-testid="gap-map">
       {data.grids.length > 1 ? (
-        <select aria-label="Grid file" value={uploadId ?? ""} onChange={(e) => setUploadId(e.target.value)} className="rounded-md border border-line bg-white px-2 py-1 text-sm">
+        <select
+          aria-label="Grid file"
+          value={uploadId ?? ""}
+          onChange={(e) => setUploadId(e.target.value)}
+          className="rounded-md border border-line bg-white px-2 py-1 text-sm"
+        >
           {data.grids.map((g) => (
             <option key={g.id} value={g.id}>
               {g.fileName} ({g.n} spectra)
@@ -35,13 +41,20 @@ export function GapMap({ lab, sampleId, initial }: { lab: string; sampleId: stri
           ))}
         </select>
       ) : (
-        <p className="text-xs text-muted">{data.grids[0].fileName} · {data.cells.length} spectra · empty cells: no gap or excluded</p>
+        <p className="text-xs text-muted">
+          {data.grids[0].fileName} · {data.cells.length} spectra · empty cells: no gap or excluded
+        </p>
       )}
       <div className="mx-auto h-[380px] max-w-full" style={{ width: fig.width }}>
         <Plot
           data={fig.data}
           layout={fig.layout}
-          config={{ displaylogo: false, toImageButtonOptions: { filename: fileStem(`gap map ${(data.grids.find((g) => g.id === uploadId) ?? data.grids[0]).fileName.replace(/\.[^.]+$/, "")}`) } }}
+          config={{
+            displaylogo: false,
+            toImageButtonOptions: {
+              filename: fileStem(`gap map ${shownGrid.fileName.replace(/\.[^.]+$/, "")}`),
+            },
+          }}
           style={{ width: "100%", height: "100%" }}
           onClick={(e: { points?: { customdata?: unknown }[] }) => {
             const id = clickedCell(e.points?.[0]?.customdata);

@@ -2,6 +2,7 @@ import { COLORS } from "@/components/plots/plot";
 import { paddedRange } from "@/components/plots/ranges";
 import type { getPhase } from "@/lib/services/spectra/getPhase";
 import { QUALITY_FLAG_LABELS } from "@/lib/spectra/edges/flags";
+import { BAR_ROOM, fieldModelBar } from "./field-model-bar";
 
 /**
  * What the phase plot (Plotly) and its still preview (SVG) both draw from, kept in one place so
@@ -20,15 +21,61 @@ export const PHASE_MARGIN = { l: 64, r: 16, t: 28, b: 52 } as const;
 export const NARROW_MAX_PX = 639;
 /** The media query for a narrow screen. */
 export const NARROW_QUERY = `(max-width: ${NARROW_MAX_PX}px)`;
-/** The top margin on a narrow screen when the E_c label is shown: the label sits below the mode bar (about 28 px tall). */
+/** The top margin on a narrow screen with the E_c label: the label sits below the mode bar (about 28 px tall). */
 export const PHASE_TOP_NARROW = 56;
 
-/** The phase plot's margins: on a narrow screen with the E_c label, a taller top margin. */
-export function phaseMargin(narrow: boolean, criticalFieldLabel: boolean): { l: number; r: number; t: number; b: number } {
-  return narrow && criticalFieldLabel ? { ...PHASE_MARGIN, t: PHASE_TOP_NARROW } : PHASE_MARGIN;
+/**
+ * The phase plot's margins: on a narrow screen, a taller top margin with the E_c label and a
+ * bottom margin that holds the legend (`legendRoom`, px) below the axis title.
+ */
+export function phaseMargin(
+  narrow: boolean,
+  criticalFieldLabel: boolean,
+  legendRoom = 0,
+): { l: number; r: number; t: number; b: number } {
+  if (!narrow) return PHASE_MARGIN;
+  return { ...PHASE_MARGIN, t: criticalFieldLabel ? PHASE_TOP_NARROW : PHASE_MARGIN.t, b: PHASE_MARGIN.b + legendRoom };
 }
 
-/** Colours of the fit, its band, the critical field's two intervals, excluded points and field error bars. */
+/**
+ * On a narrow screen the legend lists one entry a row at the figure's foot, below the x-axis title
+ * (Plotly's own place for it, a fraction of the plot's height below the axis, put it over the
+ * title once the legend's rows had squeezed the plot), and the plot's box grows by its height, so
+ * the plot keeps the size it has on a wide screen. Plotly draws a one-line entry 20 px tall.
+ */
+export const LEGEND_ROW_PX = 20;
+/** Room between the x-axis title and a narrow screen's legend, px. */
+export const LEGEND_GAP_PX = 12;
+
+/** The height a narrow screen's legend of `entries` entries takes, with the gap above it, px. */
+export const narrowLegendRoom = (entries: number) => (entries > 0 ? entries * LEGEND_ROW_PX + LEGEND_GAP_PX : 0);
+
+/**
+ * The legend's layout on a narrow screen: at the foot of the figure, from the plot's left edge (one
+ * at the figure's left edge was taken for a legend beside the plot, which Plotly made room for).
+ */
+export const NARROW_LEGEND = {
+  orientation: "v",
+  yref: "container",
+  y: 0,
+  yanchor: "bottom",
+  xref: "paper",
+  x: 0,
+  xanchor: "left",
+  font: { size: 11 },
+  // Series in legend groups (WebGL bars, the model's bar) would add 10 px between entries.
+  tracegroupgap: 0,
+} as const;
+
+/** How many entries Plotly's legend lists: traces not kept out of it, and shapes given one. */
+export function legendEntries(
+  traces: readonly Record<string, unknown>[],
+  shapes: readonly Record<string, unknown>[],
+): number {
+  return traces.filter((t) => t.showlegend !== false).length + shapes.filter((s) => s.showlegend === true).length;
+}
+
+/** Colours of the fit, its band, the critical field's two intervals and excluded points. */
 export const PHASE_LOOK = {
   fit: "#b9512a",
   band: "rgba(185,81,42,0.14)",
@@ -37,7 +84,6 @@ export const PHASE_LOOK = {
   /** The interval from the points' scatter alone. */
   ciStatistical: "rgba(185,81,42,0.16)",
   excluded: "#8a8478",
-  fieldErrorBar: "rgba(110,106,95,0.35)",
   /** The ring around a point whose pick carries a quality flag (ink, not a series colour). */
   flagRing: "#1c2430",
 } as const;
@@ -85,7 +131,11 @@ export function regionColors(points: readonly PhasePoint[]): { region: string | 
   }
   const regions: (string | null)[] = [...tagged].sort();
   if (untagged) regions.push(null);
-  return regions.map((region, i) => ({ region, name: region ?? (tagged.size ? UNTAGGED_SERIES : ONLY_SERIES), color: COLORS[i % COLORS.length] }));
+  return regions.map((region, i) => ({
+    region,
+    name: region ?? (tagged.size ? UNTAGGED_SERIES : ONLY_SERIES),
+    color: COLORS[i % COLORS.length],
+  }));
 }
 
 export interface PhaseRanges {
@@ -96,20 +146,22 @@ export interface PhaseRanges {
 }
 
 /**
- * The field-mode axis ranges of the phase plot: every shown point with its error bars, the fitted
- * curve and band, and the critical field's interval, padded by 5%; the gap axis from zero. Given
- * to Plotly as fixed ranges, and to the preview, so the two line up.
+ * The field-mode axis ranges of the phase plot: every shown point with its gap's error bar, the
+ * field model's bar, the fitted curve and band, and the critical field's interval, padded by 5%;
+ * the gap axis from zero, with a strip on top for the bar. Given to Plotly as fixed ranges, and to
+ * the preview, so the two line up.
  */
 export function fieldModeRanges(data: PhaseData, showExcluded: boolean): PhaseRanges | null {
   const xs: number[] = [];
   const ys: number[] = [];
-  for (const p of data.points) {
-    if (outOfFit(p) && !showExcluded) continue;
-    const sx = p.fieldSigma_V_per_nm ?? 0;
+  const shown = data.points.filter((p) => showExcluded || !outOfFit(p));
+  for (const p of shown) {
     const sy = (p.gapSigma_eV ?? 0) * 1000;
-    xs.push(p.field_V_per_nm - sx, p.field_V_per_nm + sx);
+    xs.push(p.field_V_per_nm);
     ys.push(p.gap_eV * 1000 - sy, p.gap_eV * 1000 + sy);
   }
+  const bar = fieldModelBar(shown);
+  if (bar) xs.push(bar.x - bar.sigma, bar.x + bar.sigma);
   const c = data.crossing;
   if ("curve" in c && c.curve && c.state !== "none") {
     xs.push(...c.curve.field);
@@ -118,6 +170,8 @@ export function fieldModeRanges(data: PhaseData, showExcluded: boolean): PhaseRa
   if (c.state === "crossed" && c.ci95_V_per_nm) xs.push(...c.ci95_V_per_nm);
   const x = paddedRange(xs);
   const y = paddedRange(ys, { includeZero: true });
+  // With the field model's bar, the data keep below BAR_ROOM of the height: the bar has the top strip.
+  if (y && bar) y[1] = y[0] + (y[1] - y[0]) / BAR_ROOM;
   return x && y ? { x, y } : null;
 }
 
@@ -127,7 +181,10 @@ export function fieldModeRanges(data: PhaseData, showExcluded: boolean): PhaseRa
  * 5,000 points took about 0.35 s more to reach the screen in software rendering than one path
  * under the canvas, which looks the same.
  */
-export function errorBarPaths(points: readonly { x: number; y: number; sx?: number | null; sy?: number | null }[]): { vertical: string; horizontal: string } {
+export function errorBarPaths(points: readonly { x: number; y: number; sx?: number | null; sy?: number | null }[]): {
+  vertical: string;
+  horizontal: string;
+} {
   const n = (v: number) => Number(v.toPrecision(7));
   let vertical = "";
   let horizontal = "";
@@ -144,7 +201,11 @@ export function errorBarPaths(points: readonly { x: number; y: number; sx?: numb
  * (WebGL from WEBGL_FROM points, like the points) whatever the number of flagged points. Clicking a
  * ring opens that spectrum; hovering names the flags.
  */
-export function flagRingTrace(points: readonly PhasePoint[], x: (p: PhasePoint) => number | null, type: "scatter" | "scattergl"): Record<string, unknown> | null {
+export function flagRingTrace(
+  points: readonly PhasePoint[],
+  x: (p: PhasePoint) => number | null,
+  type: "scatter" | "scattergl",
+): Record<string, unknown> | null {
   const pts = points.filter((p) => p.flags.length > 0 && x(p) != null);
   if (!pts.length) return null;
   return {
@@ -155,36 +216,18 @@ export function flagRingTrace(points: readonly PhasePoint[], x: (p: PhasePoint) 
     y: pts.map((p) => p.gap_eV * 1000),
     customdata: pts.map((p) => p.spectrumId),
     text: pts.map((p) => p.flags.map((f) => QUALITY_FLAG_LABELS[f.code] ?? f.code).join(", ")),
-    marker: { symbol: "circle-open", size: 15, color: PHASE_LOOK.flagRing, line: { width: 1.5, color: PHASE_LOOK.flagRing } },
+    marker: {
+      symbol: "circle-open",
+      size: 15,
+      color: PHASE_LOOK.flagRing,
+      line: { width: 1.5, color: PHASE_LOOK.flagRing },
+    },
     hovertemplate: "flagged: %{text}<extra></extra>",
   };
 }
 
-/** From this many points the phase plot uses WebGL markers, and the field bars start hidden. */
+/** From this many points the phase plot uses WebGL markers. */
 export const WEBGL_FROM = 1500;
-
-/**
- * The field-direction error bars of every point, as one shape with a legend entry of its own.
- * Their σ comes from the field model (work functions, contact distance), so it moves all points of
- * a sample together: the fit treats it as a common scale error, not as point-to-point scatter, and
- * the legend says so. Shown from the start for samples plotted as SVG; for WebGL-sized samples
- * (thousands of overlapping bars would cover the data in grey) they start hidden, one legend click
- * away.
- */
-export function fieldErrorBarShape(path: string, pointCount: number): Record<string, unknown> {
-  return {
-    type: "path",
-    path,
-    xref: "x",
-    yref: "y",
-    layer: "below",
-    line: { color: PHASE_LOOK.fieldErrorBar, width: 1 },
-    name: "field ± σ (model, shared by all points)",
-    showlegend: true,
-    legendgroup: "field-sigma",
-    visible: pointCount >= WEBGL_FROM ? "legendonly" : true,
-  };
-}
 
 /**
  * The gap-direction error bars of a WebGL series, as one SVG path shape below the canvas, in the

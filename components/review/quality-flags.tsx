@@ -21,7 +21,15 @@ export function FlagBadges({ flags }: { flags: readonly QualityFlag[] }) {
  * message, and what the flag means in general; and whether the pick was corrected since (the
  * flags describe the data, so they stay) or left out of the fit by the lab's setting.
  */
-export function FlagList({ flags, corrected, excludedByFlag }: { flags: readonly QualityFlag[]; corrected: boolean; excludedByFlag: boolean }) {
+export function FlagList({
+  flags,
+  corrected,
+  excludedByFlag,
+}: {
+  flags: readonly QualityFlag[];
+  corrected: boolean;
+  excludedByFlag: boolean;
+}) {
   if (!flags.length) return null;
   return (
     <div className="mt-3 rounded-lg border border-copper/40 bg-copper-soft/40 p-3 text-xs" data-testid="pick-flags">
@@ -31,13 +39,23 @@ export function FlagList({ flags, corrected, excludedByFlag }: { flags: readonly
       <ul className="mt-1.5 space-y-1.5">
         {flags.map((f, i) => (
           <li key={`${f.code}-${i}`} data-flag={f.code}>
-            <span className="font-medium text-ink">{QUALITY_FLAG_LABELS[f.code] ?? f.code}:</span> <span className="text-ink-soft">{f.message}</span>
+            <span className="font-medium text-ink">{QUALITY_FLAG_LABELS[f.code] ?? f.code}:</span>{" "}
+            <span className="text-ink-soft">{f.message}</span>
             {QUALITY_FLAG_HELP[f.code] ? <span className="block text-muted">{QUALITY_FLAG_HELP[f.code]}</span> : null}
           </li>
         ))}
       </ul>
-      {corrected ? <p className="mt-1.5 text-ink-soft">The pick was corrected by an analyst since; the flags describe the data and stay.</p> : null}
-      {excludedByFlag ? <p className="mt-1.5 text-ink-soft">Left out of the critical-field fit by the lab&apos;s setting for flagged spectra (a correction by an analyst brings it back in).</p> : null}
+      {corrected ? (
+        <p className="mt-1.5 text-ink-soft">
+          The pick was corrected by an analyst since; the flags describe the data and stay.
+        </p>
+      ) : null}
+      {excludedByFlag ? (
+        <p className="mt-1.5 text-ink-soft">
+          Left out of the critical-field fit by the lab&apos;s setting for flagged spectra (a correction by an analyst
+          brings it back in).
+        </p>
+      ) : null}
     </div>
   );
 }

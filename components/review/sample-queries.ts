@@ -45,7 +45,11 @@ export function useSampleVersions(lab: string, sampleId: string, initial: Sample
     if (!run) return;
     if (RUN_ACTIVE.has(run.status)) runsInProgress.add(run.id);
     // Shared by every card that calls this hook: only the first to see the end invalidates.
-    else if (runsInProgress.delete(run.id)) void qc.invalidateQueries({ queryKey: queryKeys.sample(sampleId), predicate: (q) => q.queryKey[2] !== "versions" });
+    else if (runsInProgress.delete(run.id))
+      void qc.invalidateQueries({
+        queryKey: queryKeys.sample(sampleId),
+        predicate: (q) => q.queryKey[2] !== "versions",
+      });
   }, [run, qc, sampleId]);
   return data;
 }
@@ -54,7 +58,12 @@ const fetchPhase = (lab: string, sampleId: string) => () => api<PhaseData>(lab, 
 
 /** The phase data, as the plot holds it (initial data from the page, refreshed every 10 s and when a job ends). */
 export function usePhase(lab: string, sampleId: string, initial: PhaseData) {
-  return useQuery({ queryKey: queryKeys.phase(sampleId), queryFn: fetchPhase(lab, sampleId), initialData: initial, refetchInterval: 10_000 });
+  return useQuery({
+    queryKey: queryKeys.phase(sampleId),
+    queryFn: fetchPhase(lab, sampleId),
+    initialData: initial,
+    refetchInterval: 10_000,
+  });
 }
 
 /**
@@ -62,6 +71,10 @@ export function usePhase(lab: string, sampleId: string, initial: PhaseData) {
  * fetch on their own (the plot, hydrated first, owns the fetching), with the page's value until then.
  */
 export function usePhaseOf<T>(lab: string, sampleId: string, pick: (d: PhaseData) => T, fallback: T): T {
-  const { data } = useQuery({ queryKey: queryKeys.phase(sampleId), queryFn: fetchPhase(lab, sampleId), enabled: false });
+  const { data } = useQuery({
+    queryKey: queryKeys.phase(sampleId),
+    queryFn: fetchPhase(lab, sampleId),
+    enabled: false,
+  });
   return data ? pick(data) : fallback;
 }

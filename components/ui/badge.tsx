@@ -9,16 +9,33 @@ const TONES = {
   ink: "bg-ink text-white",
 } as const;
 
-export function Badge({ tone = "neutral", children, title }: { tone?: keyof typeof TONES; children: ReactNode; title?: string }) {
+export function Badge({
+  tone = "neutral",
+  children,
+  title,
+}: {
+  tone?: keyof typeof TONES;
+  children: ReactNode;
+  title?: string;
+}) {
   return (
-    <span title={title} className={`inline-flex items-center gap-1 rounded-full px-2 py-0.5 text-xs font-medium ${TONES[tone]}`}>
+    <span
+      title={title}
+      className={`inline-flex items-center gap-1 rounded-full px-2 py-0.5 text-xs font-medium ${TONES[tone]}`}
+    >
       {children}
     </span>
   );
 }
 
 /** Crossing states, each with a shape as well as a colour so they read without colour. */
-export function CrossingBadge({ state, status }: { state: "crossed" | "closing" | "none" | null; status?: string | null }) {
+export function CrossingBadge({
+  state,
+  status,
+}: {
+  state: "crossed" | "closing" | "none" | null;
+  status?: string | null;
+}) {
   if (!state) return <span className="text-xs text-muted">no fit yet</span>;
   if (state === "crossed")
     return (

@@ -12,12 +12,21 @@ const VARIANTS = {
 export type ButtonVariant = keyof typeof VARIANTS;
 
 const base =
-  "inline-flex items-center justify-center gap-2 rounded-md px-3.5 py-2 text-sm font-medium transition-colors disabled:cursor-not-allowed disabled:opacity-70 whitespace-nowrap";
+  "inline-flex items-center justify-center gap-2 rounded-md px-3.5 py-2 text-sm font-medium " +
+  "transition-colors disabled:cursor-not-allowed disabled:opacity-70 whitespace-nowrap";
 
-export function Button({ variant = "primary", className = "", ...props }: ComponentProps<"button"> & { variant?: ButtonVariant }) {
+export function Button({
+  variant = "primary",
+  className = "",
+  ...props
+}: ComponentProps<"button"> & { variant?: ButtonVariant }) {
   return <button className={`${base} ${VARIANTS[variant]} ${className}`} {...props} />;
 }
 
-export function ButtonLink({ variant = "primary", className = "", ...props }: ComponentProps<typeof Link> & { variant?: ButtonVariant }) {
+export function ButtonLink({
+  variant = "primary",
+  className = "",
+  ...props
+}: ComponentProps<typeof Link> & { variant?: ButtonVariant }) {
   return <Link className={`${base} ${VARIANTS[variant]} ${className}`} {...props} />;
 }

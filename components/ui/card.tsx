@@ -1,11 +1,25 @@
 import type { ReactNode } from "react";
 
-export function Card({ title, actions, children, className = "" }: { title?: ReactNode; actions?: ReactNode; children: ReactNode; className?: string }) {
+export function Card({
+  title,
+  actions,
+  children,
+  className = "",
+}: {
+  title?: ReactNode;
+  actions?: ReactNode;
+  children: ReactNode;
+  className?: string;
+}) {
   return (
     <section className={`rounded-xl border border-line bg-card shadow-[0_1px_0_rgba(28,36,48,0.04)] ${className}`}>
       {title || actions ? (
         <header className="flex flex-wrap items-center justify-between gap-3 border-b border-line px-5 py-3.5">
-          {typeof title === "string" ? <h2 className="text-sm font-semibold tracking-wide text-ink">{title}</h2> : title}
+          {typeof title === "string" ? (
+            <h2 className="text-sm font-semibold tracking-wide text-ink">{title}</h2>
+          ) : (
+            title
+          )}
           {actions}
         </header>
       ) : null}
@@ -14,11 +28,23 @@ export function Card({ title, actions, children, className = "" }: { title?: Rea
   );
 }
 
-export function PageHeader({ eyebrow, title, description, actions }: { eyebrow?: string; title: string; description?: ReactNode; actions?: ReactNode }) {
+export function PageHeader({
+  eyebrow,
+  title,
+  description,
+  actions,
+}: {
+  eyebrow?: string;
+  title: string;
+  description?: ReactNode;
+  actions?: ReactNode;
+}) {
   return (
     <div className="mb-6 flex flex-wrap items-end justify-between gap-4">
       <div>
-        {eyebrow ? <p className="mb-1 text-xs font-semibold uppercase tracking-[0.14em] text-copper">{eyebrow}</p> : null}
+        {eyebrow ? (
+          <p className="mb-1 text-xs font-semibold uppercase tracking-[0.14em] text-copper">{eyebrow}</p>
+        ) : null}
         <h1 className="text-2xl font-semibold tracking-tight text-ink">{title}</h1>
         {description ? <p className="mt-1 max-w-2xl text-sm text-ink-soft">{description}</p> : null}
       </div>
@@ -44,5 +70,12 @@ export function Notice({ tone = "info", children }: { tone?: "info" | "warn" | "
     danger: "border-danger/30 bg-danger-soft text-danger",
     ok: "border-ok/30 bg-ok-soft text-ok",
   };
-  return <div className={`rounded-md border px-3.5 py-2.5 text-sm ${tones[tone]}`} role={tone === "danger" ? "alert" : "status"}>{children}</div>;
+  return (
+    <div
+      className={`rounded-md border px-3.5 py-2.5 text-sm ${tones[tone]}`}
+      role={tone === "danger" ? "alert" : "status"}
+    >
+      {children}
+    </div>
+  );
 }

@@ -53,7 +53,10 @@ export function DataTable<T>({
           onChange={(e) => setFilter(e.target.value)}
           placeholder={filterPlaceholder}
           aria-label={filterPlaceholder}
-          className="w-full max-w-xs rounded-md border border-line bg-white px-3 py-1.5 text-sm focus:border-ink-soft focus:outline-none focus:ring-2 focus:ring-copper/30"
+          className={
+            "w-full max-w-xs rounded-md border border-line bg-white px-3 py-1.5 text-sm " +
+            "focus:border-ink-soft focus:outline-none focus:ring-2 focus:ring-copper/30"
+          }
         />
         <span className="text-xs text-muted num">
           {rows.length} of {data.length}
@@ -67,11 +70,22 @@ export function DataTable<T>({
                 {hg.headers.map((h) => {
                   const sorted = h.column.getIsSorted();
                   return (
-                    <th key={h.id} scope="col" className="border-b border-line px-4 py-2.5 font-semibold" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}>
+                    <th
+                      key={h.id}
+                      scope="col"
+                      className="border-b border-line px-4 py-2.5 font-semibold"
+                      aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}
+                    >
                       {h.isPlaceholder ? null : h.column.getCanSort() ? (
-                        <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase tracking-wide hover:text-ink">
+                        <button
+                          type="button"
+                          onClick={h.column.getToggleSortingHandler()}
+                          className="inline-flex items-center gap-1 uppercase tracking-wide hover:text-ink"
+                        >
                           {flexRender(h.column.columnDef.header, h.getContext())}
-                          <span aria-hidden className="text-[10px]">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
+                          <span aria-hidden className="text-[10px]">
+                            {sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}
+                          </span>
                         </button>
                       ) : (
                         flexRender(h.column.columnDef.header, h.getContext())
@@ -86,7 +100,7 @@ export function DataTable<T>({
             {rows.length === 0 ? (
               <tr>
                 <td colSpan={columns.length} className="px-4 py-8 text-center text-sm text-muted">
-                  {data.length === 0 ? empty ?? "Nothing here yet." : "Nothing matches the filter."}
+                  {data.length === 0 ? (empty ?? "Nothing here yet.") : "Nothing matches the filter."}
                 </td>
               </tr>
             ) : (

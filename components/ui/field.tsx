@@ -1,7 +1,8 @@
 import type { ComponentProps, ReactNode } from "react";
 
 const control =
-  "block w-full rounded-md border border-line bg-white px-3 py-2 text-sm text-ink placeholder:text-muted/70 focus:border-ink-soft focus:outline-none focus:ring-2 focus:ring-copper/30 aria-[invalid=true]:border-danger";
+  "block w-full rounded-md border border-line bg-white px-3 py-2 text-sm text-ink placeholder:text-muted/70 " +
+  "focus:border-ink-soft focus:outline-none focus:ring-2 focus:ring-copper/30 aria-[invalid=true]:border-danger";
 
 /** A labelled form field with its hint and its error, wired for screen readers. */
 export function Field({
@@ -53,12 +54,24 @@ export function Input({ error, className = "", ...props }: ComponentProps<"input
 }
 
 export function Textarea({ error, className = "", ...props }: ComponentProps<"textarea"> & { error?: string[] }) {
-  return <textarea id={props.id ?? props.name} aria-invalid={error?.length ? true : undefined} className={`${control} min-h-20 ${className}`} {...props} />;
+  return (
+    <textarea
+      id={props.id ?? props.name}
+      aria-invalid={error?.length ? true : undefined}
+      className={`${control} min-h-20 ${className}`}
+      {...props}
+    />
+  );
 }
 
 export function Select({ error, className = "", children, ...props }: ComponentProps<"select"> & { error?: string[] }) {
   return (
-    <select id={props.id ?? props.name} aria-invalid={error?.length ? true : undefined} className={`${control} ${className}`} {...props}>
+    <select
+      id={props.id ?? props.name}
+      aria-invalid={error?.length ? true : undefined}
+      className={`${control} ${className}`}
+      {...props}
+    >
       {children}
     </select>
   );

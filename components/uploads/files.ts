@@ -12,7 +12,9 @@ export async function filesFromDrop(dt: DataTransfer): Promise<{ files: File[]; 
     if (entry.name.startsWith(".")) return;
     if (entry.isFile) {
       const file = await new Promise<File>((resolve, reject) => (entry as FileSystemFileEntry).file(resolve, reject));
-      const named = prefix ? new File([file], `${prefix}_${file.name}`, { type: file.type, lastModified: file.lastModified }) : file;
+      const named = prefix
+        ? new File([file], `${prefix}_${file.name}`, { type: file.type, lastModified: file.lastModified })
+        : file;
       if (SPECTRUM_FILE.test(file.name)) files.push(named);
       else skipped.push(named.name);
     } else if (entry.isDirectory) {
@@ -39,13 +41,24 @@ export async function sha256Hex(file: File): Promise<string> {
 }
 
 /** PUT with progress (fetch cannot report upload progress). */
-export function putWithProgress(url: string, file: File, headers: Record<string, string>, onProgress: (fraction: number) => void): Promise<void> {
+/** What a refused upload link most likely means, said to the user. */
+const EXPIRED = " (the upload link may have expired; try again)";
+
+export function putWithProgress(
+  url: string,
+  file: File,
+  headers: Record<string, string>,
+  onProgress: (fraction: number) => void,
+): Promise<void> {
   return new Promise((resolve, reject) => {
     const xhr = new XMLHttpRequest();
     xhr.open("PUT", url);
     for (const [k, v] of Object.entries(headers)) xhr.setRequestHeader(k, v);
     xhr.upload.onprogress = (e) => e.lengthComputable && onProgress(e.loaded / e.total);
-    xhr.onload = () => (xhr.status >= 200 && xhr.status < 300 ? resolve() : reject(new Error(`storage answered ${xhr.status}${xhr.status === 403 ? " (the upload link may have expired; try again)" : ""}`)));
+    xhr.onload = () =>
+      xhr.status >= 200 && xhr.status < 300
+        ? resolve()
+        : reject(new Error(`storage answered ${xhr.status}${xhr.status === 403 ? EXPIRED : ""}`));
     xhr.onerror = () => reject(new Error("the connection to storage failed"));
     xhr.send(file);
   });

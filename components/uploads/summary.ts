@@ -5,7 +5,10 @@ import { counted } from "@/lib/format";
  * uploading) and the server's states (pending = still being sent, queued, processing, done,
  * failed) share labels where they mean the same to the person watching.
  */
-export const STATE_LABEL: Record<string, { label: string; tone: "neutral" | "teal" | "ok" | "danger" | "copper"; icon: string }> = {
+export const STATE_LABEL: Record<
+  string,
+  { label: string; tone: "neutral" | "teal" | "ok" | "danger" | "copper"; icon: string }
+> = {
   hashing: { label: "reading", tone: "neutral", icon: "…" },
   registering: { label: "registering", tone: "neutral", icon: "…" },
   uploading: { label: "uploading", tone: "teal", icon: "↑" },

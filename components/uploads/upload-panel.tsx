@@ -12,9 +12,34 @@ import { counted } from "@/lib/format";
 import { filesFromDrop, formatBytes, putWithProgress, sha256Hex, splitFiles } from "./files";
 import { failuresFirst, STATE_LABEL, uploadSummary } from "./summary";
 
-type ServerUpload = { id: string; name: string; size: number; status: "pending" | "queued" | "processing" | "done" | "failed"; message: string | null; retryable?: boolean; warnings: string[]; spectraCount: number };
-type Ticket = { id: string; name: string; status: string; duplicate: boolean; url: string | null; headers: Record<string, string> };
-type LocalState = { key: string; name: string; size: number; phase: "hashing" | "registering" | "uploading" | "sent" | "error"; progress: number; uploadId?: string; duplicate?: boolean; message?: string };
+type ServerUpload = {
+  id: string;
+  name: string;
+  size: number;
+  status: "pending" | "queued" | "processing" | "done" | "failed";
+  message: string | null;
+  retryable?: boolean;
+  warnings: string[];
+  spectraCount: number;
+};
+type Ticket = {
+  id: string;
+  name: string;
+  status: string;
+  duplicate: boolean;
+  url: string | null;
+  headers: Record<string, string>;
+};
+type LocalState = {
+  key: string;
+  name: string;
+  size: number;
+  phase: "hashing" | "registering" | "uploading" | "sent" | "error";
+  progress: number;
+  uploadId?: string;
+  duplicate?: boolean;
+  message?: string;
+};
 
 const TERMINAL = new Set(["done", "failed"]);
 const PUT_CONCURRENCY = 4;
@@ -24,7 +49,17 @@ const PUT_CONCURRENCY = 4;
  * with the API, sent straight to object storage with its presigned PUT (with progress), then
  * processed in the background; its row follows it live until done or failed.
  */
-export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: string; sessionId: string; canUpload: boolean; initial: ServerUpload[] }) {
+export function UploadPanel({
+  lab,
+  sessionId,
+  canUpload,
+  initial,
+}: {
+  lab: string;
+  sessionId: string;
+  canUpload: boolean;
+  initial: ServerUpload[];
+}) {
   const qc = useQueryClient();
   const [local, setLocal] = useState<Record<string, LocalState>>({});
   const [notice, setNotice] = useState<{ tone: "warn" | "danger"; text: string } | null>(null);
@@ -36,18 +71,42 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
     queryKey: queryKeys.sessionUploads(sessionId),
     queryFn: async () => (await api<{ uploads: ServerUpload[] }>(lab, "GET", `/sessions/${sessionId}/uploads`)).uploads,
     initialData: initial,
-    refetchInterval: (q) => ((q.state.data ?? []).some((u) => !TERMINAL.has(u.status)) || Object.values(local).some((l) => l.phase !== "sent" && l.phase !== "error") ? 1000 : false),
+    refetchInterval: (q) =>
+      (q.state.data ?? []).some((u) => !TERMINAL.has(u.status)) ||
+      Object.values(local).some((l) => l.phase !== "sent" && l.phase !== "error")
+        ? 1000
+        : false,
   });
 
-  const patch = useCallback((key: string, p: Partial<LocalState>) => setLocal((s) => ({ ...s, [key]: { ...s[key], ...p } })), []);
+  const patch = useCallback(
+    (key: string, p: Partial<LocalState>) => setLocal((s) => ({ ...s, [key]: { ...s[key], ...p } })),
+    [],
+  );
 
   const start = useCallback(
     async (files: File[], skipped: string[]) => {
-      setNotice(skipped.length ? { tone: "warn", text: `Skipped ${counted(skipped.length, "file")} that ${skipped.length === 1 ? "is" : "are"} not spectra (csv, tsv, txt, dat, json or zip): ${skipped.slice(0, 5).join(", ")}${skipped.length > 5 ? "…" : ""}` } : null);
+      setNotice(
+        skipped.length
+          ? {
+              tone: "warn",
+              text:
+                `Skipped ${counted(skipped.length, "file")} that ${skipped.length === 1 ? "is" : "are"} not spectra ` +
+                `(csv, tsv, txt, dat, json or zip): ${skipped.slice(0, 5).join(", ")}${skipped.length > 5 ? "…" : ""}`,
+            }
+          : null,
+      );
       if (files.length === 0) return;
       const batchId = Date.now().toString(36);
       const keyed = files.map((f, i) => ({ key: `${batchId}-${i}`, file: f }));
-      setLocal((s) => ({ ...s, ...Object.fromEntries(keyed.map(({ key, file }) => [key, { key, name: file.name, size: file.size, phase: "hashing", progress: 0 } satisfies LocalState])) }));
+      setLocal((s) => ({
+        ...s,
+        ...Object.fromEntries(
+          keyed.map(({ key, file }) => [
+            key,
+            { key, name: file.name, size: file.size, phase: "hashing", progress: 0 } satisfies LocalState,
+          ]),
+        ),
+      }));
       const hashed: { key: string; file: File; sha256: string }[] = [];
       for (const k of keyed) hashed.push({ ...k, sha256: await sha256Hex(k.file) });
       let tickets: Ticket[] = [];
@@ -55,7 +114,10 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
         for (let i = 0; i < hashed.length; i += 100) {
           const part = hashed.slice(i, i + 100);
           part.forEach((h) => patch(h.key, { phase: "registering" }));
-          const res = await api<{ uploads: Ticket[] }>(lab, "POST", "/uploads", { sessionId, files: part.map((h) => ({ name: h.file.name, size: h.file.size, sha256: h.sha256 })) });
+          const res = await api<{ uploads: Ticket[] }>(lab, "POST", "/uploads", {
+            sessionId,
+            files: part.map((h) => ({ name: h.file.name, size: h.file.size, sha256: h.sha256 })),
+          });
           tickets = tickets.concat(res.uploads);
         }
       } catch (e) {
@@ -112,11 +174,38 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
     ...localRows.map((l) => {
       const s = l.uploadId ? byId.get(l.uploadId) : undefined;
       if (l.uploadId) shownIds.add(l.uploadId);
-      const status = l.phase === "error" ? "error" : s && (l.phase === "sent" || s.status !== "pending") ? s.status : l.phase;
+      const status =
+        l.phase === "error" ? "error" : s && (l.phase === "sent" || s.status !== "pending") ? s.status : l.phase;
       // A file the browser could not send is sent again by dropping it again: no server retry.
-      return { key: l.key, id: l.uploadId, name: l.name, size: l.size, status, progress: l.progress, duplicate: l.duplicate, message: l.phase === "error" ? l.message : s?.message, retryable: l.phase !== "error" && Boolean(s?.retryable), spectra: s?.spectraCount ?? 0, warnings: s?.warnings ?? [] };
+      return {
+        key: l.key,
+        id: l.uploadId,
+        name: l.name,
+        size: l.size,
+        status,
+        progress: l.progress,
+        duplicate: l.duplicate,
+        message: l.phase === "error" ? l.message : s?.message,
+        retryable: l.phase !== "error" && Boolean(s?.retryable),
+        spectra: s?.spectraCount ?? 0,
+        warnings: s?.warnings ?? [],
+      };
     }),
-    ...server.filter((u) => !shownIds.has(u.id)).map((u) => ({ key: u.id, id: u.id, name: u.name, size: u.size, status: u.status, progress: u.status === "pending" ? 0 : 1, duplicate: false, message: u.message, retryable: Boolean(u.retryable), spectra: u.spectraCount, warnings: u.warnings })),
+    ...server
+      .filter((u) => !shownIds.has(u.id))
+      .map((u) => ({
+        key: u.id,
+        id: u.id,
+        name: u.name,
+        size: u.size,
+        status: u.status,
+        progress: u.status === "pending" ? 0 : 1,
+        duplicate: false,
+        message: u.message,
+        retryable: Boolean(u.retryable),
+        spectra: u.spectraCount,
+        warnings: u.warnings,
+      })),
   ];
   // Failures lead the list, so their messages are in view rather than at the end of the scroll box.
   const listed = failuresFirst(rows);
@@ -135,10 +224,16 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
           onDragLeave={() => setOver(false)}
           onDrop={onDrop}
           data-testid="dropzone"
-          className={`rounded-xl border-2 border-dashed px-6 py-8 text-center transition-colors ${over ? "border-copper bg-copper-soft/60" : "border-line bg-paper/60"}`}
+          className={
+            `rounded-xl border-2 border-dashed px-6 py-8 text-center transition-colors ` +
+            `${over ? "border-copper bg-copper-soft/60" : "border-line bg-paper/60"}`
+          }
         >
           <p className="font-medium">Drop spectra here — files, folders or zip archives</p>
-          <p className="mt-1 text-sm text-ink-soft">csv, tsv, txt, dat or json; several dI/dV columns become several spectra. Files go straight to storage; nothing is lost if processing fails.</p>
+          <p className="mt-1 text-sm text-ink-soft">
+            csv, tsv, txt, dat or json; several dI/dV columns become several spectra. Files go straight to storage;
+            nothing is lost if processing fails.
+          </p>
           <div className="mt-4 flex justify-center gap-2">
             <Button type="button" variant="secondary" onClick={() => fileInput.current?.click()}>
               Choose files
@@ -147,8 +242,32 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
               Choose a folder
             </Button>
           </div>
-          <input ref={fileInput} type="file" multiple className="sr-only" data-testid="file-input" aria-label="Choose spectrum files" onChange={(e) => { const { files, skipped } = splitFiles([...(e.target.files ?? [])]); void start(files, skipped); e.target.value = ""; }} />
-          <input ref={folderInput} type="file" multiple className="sr-only" aria-label="Choose a folder of spectra" {...({ webkitdirectory: "" } as Record<string, string>)} onChange={(e) => { const { files, skipped } = splitFiles([...(e.target.files ?? [])]); void start(files, skipped); e.target.value = ""; }} />
+          <input
+            ref={fileInput}
+            type="file"
+            multiple
+            className="sr-only"
+            data-testid="file-input"
+            aria-label="Choose spectrum files"
+            onChange={(e) => {
+              const { files, skipped } = splitFiles([...(e.target.files ?? [])]);
+              void start(files, skipped);
+              e.target.value = "";
+            }}
+          />
+          <input
+            ref={folderInput}
+            type="file"
+            multiple
+            className="sr-only"
+            aria-label="Choose a folder of spectra"
+            {...({ webkitdirectory: "" } as Record<string, string>)}
+            onChange={(e) => {
+              const { files, skipped } = splitFiles([...(e.target.files ?? [])]);
+              void start(files, skipped);
+              e.target.value = "";
+            }}
+          />
         </div>
       ) : null}
       {notice ? <Notice tone={notice.tone}>{notice.text}</Notice> : null}
@@ -160,8 +279,18 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
               {formatBytes(sentBytes)} / {formatBytes(totalBytes)}
             </span>
           </div>
-          <div className="mt-1 h-2 overflow-hidden rounded-full bg-line" role="progressbar" aria-label="Overall upload progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round((100 * sentBytes) / totalBytes)}>
-            <div className="h-full bg-teal transition-[width]" style={{ width: `${(100 * sentBytes) / totalBytes}%` }} />
+          <div
+            className="mt-1 h-2 overflow-hidden rounded-full bg-line"
+            role="progressbar"
+            aria-label="Overall upload progress"
+            aria-valuemin={0}
+            aria-valuemax={100}
+            aria-valuenow={Math.round((100 * sentBytes) / totalBytes)}
+          >
+            <div
+              className="h-full bg-teal transition-[width]"
+              style={{ width: `${(100 * sentBytes) / totalBytes}%` }}
+            />
           </div>
         </div>
       ) : null}
@@ -170,7 +299,10 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
           <p className="text-xs text-muted" data-testid="upload-counts">
             {uploadSummary(rows.map((r) => r.status))}
           </p>
-          <ul className="max-h-96 divide-y divide-line overflow-y-auto rounded-lg border border-line bg-card" data-testid="upload-rows">
+          <ul
+            className="max-h-96 divide-y divide-line overflow-y-auto rounded-lg border border-line bg-card"
+            data-testid="upload-rows"
+          >
             {listed.map((r) => {
               const s = STATE_LABEL[r.status] ?? STATE_LABEL.queued;
               return (
@@ -180,28 +312,55 @@ export function UploadPanel({ lab, sessionId, canUpload, initial }: { lab: strin
                       {r.name} <span className="num text-xs font-normal text-muted">{formatBytes(r.size)}</span>
                     </span>
                     <span className="flex items-center gap-2">
-                      {r.duplicate ? <Badge title="The same bytes (SHA-256) are already in this lab; not stored twice">already uploaded</Badge> : null}
-                      {r.status === "done" ? <span className="num text-xs text-ink-soft">{counted(r.spectra, "spectrum", "spectra")}{r.warnings.length ? `, ${counted(r.warnings.length, "warning")}` : ""}</span> : null}
+                      {r.duplicate ? (
+                        <Badge title="The same bytes (SHA-256) are already in this lab; not stored twice">
+                          already uploaded
+                        </Badge>
+                      ) : null}
+                      {r.status === "done" ? (
+                        <span className="num text-xs text-ink-soft">
+                          {counted(r.spectra, "spectrum", "spectra")}
+                          {r.warnings.length ? `, ${counted(r.warnings.length, "warning")}` : ""}
+                        </span>
+                      ) : null}
                       <Badge tone={s.tone}>
                         <span aria-hidden>{s.icon}</span> {s.label}
                       </Badge>
                       {r.status === "failed" && r.retryable && r.id && canUpload ? (
-                        <Button type="button" variant="secondary" className="px-2 py-1 text-xs" onClick={() => retry(r.id!)}>
+                        <Button
+                          type="button"
+                          variant="secondary"
+                          className="px-2 py-1 text-xs"
+                          onClick={() => retry(r.id!)}
+                        >
                           Retry
                         </Button>
                       ) : null}
                     </span>
                   </div>
                   {r.status === "uploading" ? (
-                    <div className="mt-1.5 h-1 overflow-hidden rounded-full bg-line" role="progressbar" aria-label={`Upload of ${r.name}`} aria-valuenow={Math.round(r.progress * 100)} aria-valuemin={0} aria-valuemax={100}>
+                    <div
+                      className="mt-1.5 h-1 overflow-hidden rounded-full bg-line"
+                      role="progressbar"
+                      aria-label={`Upload of ${r.name}`}
+                      aria-valuenow={Math.round(r.progress * 100)}
+                      aria-valuemin={0}
+                      aria-valuemax={100}
+                    >
                       <div className="h-full bg-teal" style={{ width: `${r.progress * 100}%` }} />
                     </div>
                   ) : null}
-                  {r.message && (r.status === "failed" || r.status === "error") ? <pre className="mt-1.5 whitespace-pre-wrap font-sans text-xs text-danger">{r.message}</pre> : null}
+                  {r.message && (r.status === "failed" || r.status === "error") ? (
+                    <pre className="mt-1.5 whitespace-pre-wrap font-sans text-xs text-danger">{r.message}</pre>
+                  ) : null}
                   {r.status === "failed" && !r.retryable ? (
-                    <p className="mt-1 text-xs text-ink-soft">Correct the file and upload it again: a retry would read the same bytes and fail the same way.</p>
+                    <p className="mt-1 text-xs text-ink-soft">
+                      Correct the file and upload it again: a retry would read the same bytes and fail the same way.
+                    </p>
                   ) : r.status === "error" ? (
-                    <p className="mt-1 text-xs text-ink-soft">The file did not reach the server: drop it again to send it.</p>
+                    <p className="mt-1 text-xs text-ink-soft">
+                      The file did not reach the server: drop it again to send it.
+                    </p>
                   ) : null}
                   {r.status === "done" && r.warnings.length ? (
                     <details className="mt-1 text-xs text-ink-soft">

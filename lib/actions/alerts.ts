@@ -20,11 +20,24 @@ export async function watchSampleAction(lab: string, sampleId: string, watching:
   });
 }
 
-/** Confirms the crossing the analyst sees: its id and its value travel with the click (409 when either is no longer current). */
-export async function confirmCrossingAction(lab: string, sampleId: string, crossingId: string, field_V_per_nm?: number): Promise<ActionState> {
+/**
+ * Confirms the crossing the analyst sees: its id and its value travel with the click (409 when either is no longer
+ * current).
+ */
+export async function confirmCrossingAction(
+  lab: string,
+  sampleId: string,
+  crossingId: string,
+  field_V_per_nm?: number,
+): Promise<ActionState> {
   const state = await runAction(lab, undefined, async (ctx) => {
     const out = await confirmCrossing({ ctx, input: { sampleId, crossingId, field_V_per_nm } });
-    return { data: out, message: out.alreadyConfirmed ? "This critical field was already confirmed." : "Confirmed. Everyone watching the sample is told." };
+    return {
+      data: out,
+      message: out.alreadyConfirmed
+        ? "This critical field was already confirmed."
+        : "Confirmed. Everyone watching the sample is told.",
+    };
   });
   if (state.ok) revalidatePath(`/labs/${lab}/samples/${sampleId}`);
   return state;

@@ -331,9 +331,18 @@ export function fitSweep(
   points: { field_V_per_nm: number; fieldSigma_V_per_nm: number | null; gap_eV: number; gapSigma_eV: number | null }[],
   options?: Partial<CrossingOptions>,
 ): CrossingFit {
-  const rel = points.filter((p) => p.field_V_per_nm !== 0 && p.fieldSigma_V_per_nm != null).map((p) => p.fieldSigma_V_per_nm! / Math.abs(p.field_V_per_nm));
   return fitCrossing(
     points.map((p) => ({ field_V_per_nm: p.field_V_per_nm, fieldSigma_V_per_nm: 0, gap_eV: p.gap_eV, gapSigma_eV: p.gapSigma_eV ?? 0 })),
-    { systematicFieldRelSigma: rel.length ? median(rel) : 0, ...options },
+    { systematicFieldRelSigma: modelFieldRelSigma(points), ...options },
   );
+}
+
+/**
+ * The field model's uncertainty shared by a sweep's points, relative to the field: the median of
+ * σ/|E| over the points that have one (0 when none has). The fit takes it as a scale error, and the
+ * phase plot draws it once.
+ */
+export function modelFieldRelSigma(points: readonly { field_V_per_nm: number; fieldSigma_V_per_nm: number | null }[]): number {
+  const rel = points.filter((p) => p.field_V_per_nm !== 0 && p.fieldSigma_V_per_nm != null).map((p) => p.fieldSigma_V_per_nm! / Math.abs(p.field_V_per_nm));
+  return rel.length ? median(rel) : 0;
 }

@@ -10,6 +10,7 @@
  * same sample, so they shift a whole sweep together (a scale error), not point by point.
  */
 import { decayConstant_per_nm, tunnellingDistance } from "./distance";
+import { median } from "./stats";
 import type { FieldModel } from "./settings";
 import type { SpectrumMeta } from "./import/types";
 
@@ -92,4 +93,30 @@ export function estimateField(
     barrier_eV: c.barrier,
     assumptions: fieldAssumptions(model),
   };
+}
+
+/**
+ * The per-point part of a field estimate's uncertainty, relative to the field. The model's part
+ * (work functions, d_c) is shared by every spectrum of a tip on a sample and cannot tell two of
+ * them apart; what differs from one spectrum to the next is the setpoint as read: a current read to
+ * about 1% moves d by ln(1.01)/(2κ) ≈ 0.0005 nm and a z offset known to about 1 pm by 0.001 nm,
+ * together ≲ 0.15% of d ≈ 0.7 nm (typical preamplifier and piezo precision: common practice, from
+ * memory). The stored σ holds the model's part only, so this is the part a point has on its own.
+ */
+export const OWN_FIELD_REL_SIGMA = 1.5e-3;
+
+/**
+ * Whether a set of spectra all sit at one field: two or more, each field within twice its own
+ * (per-point) uncertainty of their median. A grid taken at one setpoint does; an approach series
+ * does not, even when its steps are small next to the shared model error, which moves every point
+ * together and so says nothing about whether two points differ. Returns that field (the median,
+ * V/nm) and the number of spectra, or null.
+ */
+export function sharedField(points: readonly { field_V_per_nm: number }[]): { field_V_per_nm: number; n: number } | null {
+  if (points.length < 2) return null;
+  const fields = points.map((p) => p.field_V_per_nm);
+  if (!fields.every(Number.isFinite)) return null;
+  const med = median(fields);
+  const bound = 2 * OWN_FIELD_REL_SIGMA * Math.abs(med);
+  return fields.every((e) => Math.abs(e - med) <= bound) ? { field_V_per_nm: med, n: points.length } : null;
 }

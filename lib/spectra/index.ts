@@ -39,7 +39,7 @@ export {
 export { compareRepeats, repeatGroups, type RepeatInput } from "./edges";
 export { pickGap, QUALITY_FLAG_CODES, QUALITY_FLAG_LABELS, QUALITY_FLAG_HELP, type GapPick, type PickInput, type QualityFlag, type QualityFlagCode } from "./edges";
 export { tunnellingDistance, decayConstant_per_nm, apparentBarrierHeight_eV, type TunnellingDistanceInput } from "./distance";
-export { estimateField, fieldAssumptions, type FieldEstimate } from "./field";
+export { estimateField, fieldAssumptions, OWN_FIELD_REL_SIGMA, sharedField, type FieldEstimate } from "./field";
 export { fitCrossing, fitSweep, type CrossingPoint, type CrossingFit } from "./crossing";
 export { makeSpectrum, makeSweep, makeNoise, makeRepeats, modelDidv, sweepGap_eV, type SpectrumModel, type SyntheticSpectrum, type SweepModel, type SyntheticSweepPoint } from "./synthetic";
 export { spectrumToCsv, columnsToCsv } from "./write";

@@ -4,14 +4,10 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
 import { gapPicks, spectra } from "@/db/schema";
 import { stopBoss } from "@/lib/jobs/queue";
-import { createSample } from "@/lib/services/samples/createSample";
-import { createSession } from "@/lib/services/sessions/createSession";
 import { tagSpectra } from "@/lib/services/spectra/tagSpectra";
-import { processUpload } from "@/lib/services/uploads/processUpload";
-import { columnsToCsv, makeSpectrum } from "@/lib/spectra";
-import { APP_URL, launch, shot, SHOTS_DIR, signedIn as signedInAs } from "../support/browser";
-import { makeLab, TEST_PASSWORD, type LabFixture, system } from "../support/fixtures";
-import { bytesOf, sweepSample, uploadFile } from "../support/pipeline";
+import { APP_URL, launch, shot, SHOTS_DIR, SignInPage, signedIn as signedInAs } from "../support/browser";
+import { makeLab, TEST_PASSWORD, type LabFixture } from "../support/fixtures";
+import { gridSample, sweepSample } from "../support/pipeline";
 
 let browser: Browser;
 let lab: LabFixture;
@@ -245,20 +241,8 @@ describe("review in the browser", () => {
 
   it("a grid upload shows the gap over position; clicking a cell opens that spectrum; compare overlays two samples", async () => {
     const owner = lab.ctx("owner");
-    const mapId = (await createSample({ ctx: owner, input: { name: "SN-map 4x4", material: "stanene", workFunction_eV: 4.3, workFunctionSigma_eV: 0.1 } })).id;
-    const sessionId = (await createSession({ ctx: owner, input: { sampleId: mapId, label: "grid", date: "2026-11-27", temperature_K: 4.5 } })).id;
     // A 4 × 4 grid, 0.5 nm apart, whose gap is smallest in one corner.
-    const cols = [];
-    let bias: Float64Array | null = null;
-    for (let k = 0; k < 16; k++) {
-      const gap = 0.08 + 0.01 * k;
-      const sp = makeSpectrum({ vbEdge_V: -gap / 2, cbEdge_V: gap / 2, T_K: 4.5, vrms_mV: 2, noise: 0.02, seed: 900 + k, step_V: 0.004 });
-      bias ??= sp.bias_V;
-      cols.push({ label: `px${k}`, didv: sp.didv });
-    }
-    const csv = columnsToCsv(bias!, cols, { setpoint_bias_V: 0.6, setpoint_current_A: 2e-10, temperature_K: 4.5, lockin_modulation_mV_rms: 2, extra: { grid: "4 x 4", grid_step_nm: "0.5" } });
-    const { id: uploadId } = await uploadFile(owner, sessionId, "grid-4x4.csv", bytesOf(csv));
-    await processUpload({ ctx: system(), input: { uploadId: uploadId } });
+    const { sampleId: mapId } = await gridSample(owner, "SN-map 4x4");
     const [corner] = await db().select({ id: spectra.id }).from(spectra).where(and(eq(spectra.sampleId, mapId), eq(spectra.xNm, 0), eq(spectra.yNm, 0))).orderBy(asc(spectra.id));
     expect(corner).toBeDefined();
 

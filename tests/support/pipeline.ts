@@ -13,7 +13,7 @@ import { createSample } from "@/lib/services/samples/createSample";
 import { createSession } from "@/lib/services/sessions/createSession";
 import { createTip } from "@/lib/services/tips/createTip";
 import { processUpload } from "@/lib/services/uploads/processUpload";
-import { makeSweep, spectrumToCsv } from "@/lib/spectra";
+import { columnsToCsv, makeSpectrum, makeSweep, spectrumToCsv } from "@/lib/spectra";
 import { createUploads } from "@/lib/services/uploads/createUploads";
 import { completeUpload } from "@/lib/services/uploads/completeUpload";
 import { system } from "./fixtures";
@@ -93,4 +93,25 @@ export async function sweepSample(
   }
   const ids = (await db().select({ id: spectra.id }).from(spectra).where(eq(spectra.sampleId, sampleId)).orderBy(spectra.fieldVPerNm)).map((r) => r.id);
   return { sampleId, ids };
+}
+
+/**
+ * A sample with one grid upload: 4 × 4 spectra, 0.5 nm apart, all at one setpoint (so one field),
+ * whose gap grows from 80 meV in one corner in 10 meV steps. Processed in this process.
+ */
+export async function gridSample(owner: Ctx, name: string): Promise<{ sampleId: string; uploadId: string }> {
+  const sampleId = (await createSample({ ctx: owner, input: { name, material: "stanene", workFunction_eV: 4.3, workFunctionSigma_eV: 0.1 } })).id;
+  const sessionId = (await createSession({ ctx: owner, input: { sampleId, label: "grid", date: "2026-11-27", temperature_K: 4.5 } })).id;
+  const cols = [];
+  let bias: Float64Array | null = null;
+  for (let k = 0; k < 16; k++) {
+    const gap = 0.08 + 0.01 * k;
+    const sp = makeSpectrum({ vbEdge_V: -gap / 2, cbEdge_V: gap / 2, T_K: 4.5, vrms_mV: 2, noise: 0.02, seed: 900 + k, step_V: 0.004 });
+    bias ??= sp.bias_V;
+    cols.push({ label: `px${k}`, didv: sp.didv });
+  }
+  const meta = { setpoint_bias_V: 0.6, setpoint_current_A: 2e-10, temperature_K: 4.5, lockin_modulation_mV_rms: 2, extra: { grid: "4 x 4", grid_step_nm: "0.5" } };
+  const { id: uploadId } = await uploadFile(owner, sessionId, "grid-4x4.csv", bytesOf(columnsToCsv(bias!, cols, meta)));
+  await processUpload({ ctx: system(), input: { uploadId } });
+  return { sampleId, uploadId };
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { deltaBicInWords, fileStem, formatField, formatGap, formatUtc, pickMethodInWords } from "@/lib/format";
+import { deltaBicInWords, fileStem, formatField, formatGap, formatMv, formatUtc, pickMethodInWords } from "@/lib/format";
 
 describe("fileStem", () => {
   it("keeps letters and digits, lower-cased, joined by single hyphens", () => {
@@ -55,5 +55,14 @@ describe("formatUtc", () => {
       if (before === undefined) delete process.env.TZ;
       else process.env.TZ = before;
     }
+  });
+});
+
+describe("formatMv", () => {
+  it("gives a bias in V as mV with one decimal, or a dash when there is none", () => {
+    expect(formatMv(-0.0423)).toBe("-42.3 mV");
+    expect(formatMv(0.1)).toBe("100.0 mV");
+    expect(formatMv(null)).toBe("—");
+    expect(formatMv(undefined)).toBe("—");
   });
 });

@@ -24,7 +24,14 @@ export function SignInForm({ next }: { next?: string }) {
       {state.message ? <Notice tone="danger">{state.message}</Notice> : null}
       <input type="hidden" name="next" value={next ?? ""} />
       <Field label="E-mail" name="email">
-        <Input name="email" type="email" autoComplete="username" required defaultValue={state.values?.email ?? ""} autoFocus />
+        <Input
+          name="email"
+          type="email"
+          autoComplete="username"
+          required
+          defaultValue={state.values?.email ?? ""}
+          autoFocus
+        />
       </Field>
       <Field label="Password" name="password">
         <Input name="password" type="password" autoComplete="current-password" required />

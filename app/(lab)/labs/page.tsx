@@ -15,10 +15,19 @@ export default async function LabsPage() {
       <h1 className="mt-10 text-2xl font-semibold">Choose a lab</h1>
       <div className="mt-6 space-y-3">
         {labs.length === 0 ? (
-          <EmptyState title="You are not a member of any lab yet">Ask a lab owner to invite you; the link arrives by e-mail.</EmptyState>
+          <EmptyState title="You are not a member of any lab yet">
+            Ask a lab owner to invite you; the link arrives by e-mail.
+          </EmptyState>
         ) : (
           labs.map((l) => (
-            <Link key={l.id} href={`/labs/${l.slug}`} className="flex items-center justify-between rounded-lg border border-line bg-card px-5 py-4 hover:border-ink-soft">
+            <Link
+              key={l.id}
+              href={`/labs/${l.slug}`}
+              className={
+                "flex items-center justify-between rounded-lg border " +
+                "border-line bg-card px-5 py-4 hover:border-ink-soft"
+              }
+            >
               <span className="font-medium">{l.name}</span>
               <span className="text-xs text-muted">{ROLE_LABEL[l.role]}</span>
             </Link>

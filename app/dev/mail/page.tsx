@@ -28,11 +28,17 @@ export default async function DevMailPage({ searchParams }: { searchParams: Prom
           <p className="text-xs font-semibold uppercase tracking-[0.14em] text-copper">Development</p>
           <h1 className="text-2xl font-semibold">Mail outbox</h1>
           <p className="text-sm text-ink-soft">
-            {all.length} message{all.length === 1 ? "" : "s"} in <span className="num">{dir ?? "(MAIL_OUTBOX_DIR is not set)"}</span>
+            {all.length} message{all.length === 1 ? "" : "s"} in{" "}
+            <span className="num">{dir ?? "(MAIL_OUTBOX_DIR is not set)"}</span>
           </p>
         </div>
         <form className="flex gap-2" action="/dev/mail">
-          <input name="to" defaultValue={to ?? ""} placeholder="Filter by recipient" className="rounded-md border border-line bg-card px-3 py-1.5 text-sm" />
+          <input
+            name="to"
+            defaultValue={to ?? ""}
+            placeholder="Filter by recipient"
+            className="rounded-md border border-line bg-card px-3 py-1.5 text-sm"
+          />
           <button className="rounded-md bg-ink px-3 py-1.5 text-sm text-white">Filter</button>
         </form>
       </header>
@@ -40,10 +46,19 @@ export default async function DevMailPage({ searchParams }: { searchParams: Prom
         <p className="text-sm text-ink-soft">No messages{to ? ` to “${to}”` : ""}.</p>
       ) : (
         <div className="grid gap-4 lg:grid-cols-[380px_1fr]">
-          <ul className="max-h-[80vh] divide-y divide-line overflow-auto rounded-xl border border-line bg-card" data-testid="outbox-list">
+          <ul
+            className="max-h-[80vh] divide-y divide-line overflow-auto rounded-xl border border-line bg-card"
+            data-testid="outbox-list"
+          >
             {list.map((m) => (
               <li key={m.id}>
-                <Link href={href(m)} className={`block px-4 py-2.5 text-sm hover:bg-paper ${m.id === selected?.id ? "bg-copper-soft" : ""}`} aria-current={m.id === selected?.id ? "true" : undefined}>
+                <Link
+                  href={href(m)}
+                  className={
+                    `block px-4 py-2.5 text-sm hover:bg-paper ` + `${m.id === selected?.id ? "bg-copper-soft" : ""}`
+                  }
+                  aria-current={m.id === selected?.id ? "true" : undefined}
+                >
                   <span className="block truncate font-medium">{m.subject}</span>
                   <span className="block truncate text-xs text-muted">
                     {m.to.join(", ")} · {m.created_at?.slice(0, 19).replace("T", " ")}
@@ -62,7 +77,9 @@ export default async function DevMailPage({ searchParams }: { searchParams: Prom
                 <dt className="text-muted">From</dt>
                 <dd className="num">{selected.from}</dd>
               </dl>
-              {selected.html ? <iframe title="HTML body" sandbox="" srcDoc={selected.html} className="h-[640px] w-full border-0" /> : null}
+              {selected.html ? (
+                <iframe title="HTML body" sandbox="" srcDoc={selected.html} className="h-[640px] w-full border-0" />
+              ) : null}
               {selected.text ? (
                 <details className="border-t border-line px-5 py-3" open={!selected.html}>
                   <summary className="cursor-pointer text-sm text-ink-soft">Text body</summary>

@@ -3,6 +3,7 @@ import { and, asc, desc, eq, isNull, sql } from "drizzle-orm";
 import { crossings, extractionSettingsVersions, fieldModelVersions, gapPicks, spectra } from "@/db/schema";
 import { flaggedOutOfFit } from "../analysis/shared";
 import type { Ctx } from "@/lib/base/context";
+import { sharedField } from "@/lib/spectra";
 import { getSample } from "../samples/getSample";
 import { labFlaggedInFit } from "./labFlaggedInFit";
 import { PhasePoint } from "./types";
@@ -76,6 +77,8 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
   return {
     sample: { id: sample.id, name: sample.name },
     points,
+    /** Set when every point sits at one field (a grid at one setpoint): that field, V/nm, and the count. */
+    sharedField: sharedField(points),
     crossing: c
       ? {
           id: c.id,

@@ -28,6 +28,12 @@ describe("fileLayout", () => {
     expect(height - 28 - layout.margin.b).toBeGreaterThanOrEqual(MIN_PLOT_SHARE * 360);
   });
 
+  it("lays out afresh the room a narrow screen gave its legend, instead of adding to it", () => {
+    const screen = { ...phaseLayout, margin: { ...phaseLayout.margin, b: 52 + 212 }, meta: { legendRoom: 212 } };
+    const { layout } = fileLayout(screen, { width: 380, height: 652, legendHeight: 200 });
+    expect(layout.margin.b).toBe(52 + 200 + LEGEND_GAP);
+  });
+
   it("leaves a figure without a legend as it is", () => {
     const noLegend = { ...phaseLayout, showlegend: false };
     expect(fileLayout(noLegend, { width: 500, height: 380, legendHeight: 120 })).toEqual({ layout: noLegend, height: 380 });

@@ -1,6 +1,22 @@
 import { describe, expect, it } from "vitest";
 import { COLORS } from "@/components/plots/plot";
-import { NARROW_MAX_PX, NARROW_QUERY, ONLY_SERIES, PHASE_MARGIN, PHASE_TOP_NARROW, phaseMargin, type PhasePoint, regionColors, regionOf, UNTAGGED_SERIES } from "@/components/review/phase-figure";
+import {
+  LEGEND_GAP_PX,
+  LEGEND_ROW_PX,
+  legendEntries,
+  NARROW_LEGEND,
+  NARROW_MAX_PX,
+  NARROW_QUERY,
+  narrowLegendRoom,
+  ONLY_SERIES,
+  PHASE_MARGIN,
+  PHASE_TOP_NARROW,
+  phaseMargin,
+  type PhasePoint,
+  regionColors,
+  regionOf,
+  UNTAGGED_SERIES,
+} from "@/components/review/phase-figure";
 
 const point = (i: number, region: string | null) => ({ spectrumId: `s${i}`, region }) as unknown as PhasePoint;
 
@@ -52,8 +68,31 @@ describe("phaseMargin", () => {
     expect(m.t - 18).toBeGreaterThanOrEqual(28);
   });
 
+  it("on a narrow screen holds the legend below the axis title: the bottom margin grows by its room", () => {
+    expect(phaseMargin(true, false, 212).b).toBe(PHASE_MARGIN.b + 212);
+    expect(phaseMargin(false, false, 212)).toEqual(PHASE_MARGIN);
+  });
+
   it("counts a 412 px phone as narrow", () => {
     expect(NARROW_QUERY).toBe(`(max-width: ${NARROW_MAX_PX}px)`);
     expect(412).toBeLessThanOrEqual(NARROW_MAX_PX);
+  });
+});
+
+/** A narrow screen's legend: one entry a row at the figure's foot, the room it needs counted from the figure. */
+describe("narrow legend", () => {
+  it("counts the traces Plotly lists and the shapes given an entry", () => {
+    const traces = [{ name: "a" }, { name: "b", showlegend: false }, { name: "c", showlegend: true }];
+    const shapes = [{ showlegend: true }, { legendgroup: "a" }];
+    expect(legendEntries(traces, shapes)).toBe(3);
+  });
+
+  it("takes a row per entry and a gap above, nothing without entries", () => {
+    expect(narrowLegendRoom(10)).toBe(10 * LEGEND_ROW_PX + LEGEND_GAP_PX);
+    expect(narrowLegendRoom(0)).toBe(0);
+  });
+
+  it("sits at the figure's foot, one entry a row", () => {
+    expect(NARROW_LEGEND).toMatchObject({ orientation: "v", yref: "container", y: 0, yanchor: "bottom" });
   });
 });

@@ -23,12 +23,25 @@ export function AcceptInviteForm({ token, existingAccount }: { token: string; ex
   return (
     <form action={action} className="space-y-4" data-testid="accept-invite-form">
       {state.message ? <Notice tone="danger">{state.message}</Notice> : null}
-      {existingAccount ? <Notice>You already have a Bandcross account: enter your name and your current password to join.</Notice> : null}
+      {existingAccount ? (
+        <Notice>You already have a Bandcross account: enter your name and your current password to join.</Notice>
+      ) : null}
       <Field label="Your name" name="name" error={state.fieldErrors?.name}>
         <Input name="name" autoComplete="name" required defaultValue={state.values?.name ?? ""} />
       </Field>
-      <Field label={existingAccount ? "Your password" : "Choose a password"} name="password" hint="At least 10 characters." error={state.fieldErrors?.password}>
-        <Input name="password" type="password" autoComplete={existingAccount ? "current-password" : "new-password"} required minLength={10} />
+      <Field
+        label={existingAccount ? "Your password" : "Choose a password"}
+        name="password"
+        hint="At least 10 characters."
+        error={state.fieldErrors?.password}
+      >
+        <Input
+          name="password"
+          type="password"
+          autoComplete={existingAccount ? "current-password" : "new-password"}
+          required
+          minLength={10}
+        />
       </Field>
       <Button type="submit" className="w-full" disabled={pending}>
         {pending ? "Joining…" : "Join the lab"}

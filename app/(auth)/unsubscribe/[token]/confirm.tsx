@@ -13,7 +13,13 @@ export function ConfirmUnsubscribe({ token, sampleName }: { token: string; sampl
   return (
     <div className="space-y-4">
       {state?.message ? <Notice tone="danger">{state.message}</Notice> : null}
-      <Button type="button" className="w-full" data-testid="confirm-unsubscribe" disabled={pending} onClick={() => start(async () => setState(await unsubscribeAction(token)))}>
+      <Button
+        type="button"
+        className="w-full"
+        data-testid="confirm-unsubscribe"
+        disabled={pending}
+        onClick={() => start(async () => setState(await unsubscribeAction(token)))}
+      >
         {pending ? "Stopping…" : `Stop e-mails about ${sampleName}`}
       </Button>
     </div>

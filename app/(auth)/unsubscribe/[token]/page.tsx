@@ -16,7 +16,9 @@ export default async function UnsubscribePage({ params }: { params: Promise<{ to
     return (
       <div className="w-full max-w-sm">
         <h1 className="text-2xl font-semibold">This link is not valid</h1>
-        <p className="mt-2 text-sm text-ink-soft">It may have been cut off by your mail program. Open the sample in Bandcross and use its Watch button instead.</p>
+        <p className="mt-2 text-sm text-ink-soft">
+          It may have been cut off by your mail program. Open the sample in Bandcross and use its Watch button instead.
+        </p>
       </div>
     );
   }
@@ -25,11 +27,15 @@ export default async function UnsubscribePage({ params }: { params: Promise<{ to
       <p className="text-xs font-semibold uppercase tracking-[0.14em] text-copper">E-mail alerts</p>
       <h1 className="mt-1 text-2xl font-semibold">Stop e-mails about {info.sampleName}?</h1>
       <p className="mt-2 text-sm text-ink-soft">
-        For <span className="num">{info.email}</span> in {info.labName}. You will no longer hear when this sample&apos;s critical field is found, moves or is confirmed. You can watch it again
-        from the sample&apos;s page.
+        For <span className="num">{info.email}</span> in {info.labName}. You will no longer hear when this sample&apos;s
+        critical field is found, moves or is confirmed. You can watch it again from the sample&apos;s page.
       </p>
       <div className="mt-8">
-        {info.watching ? <ConfirmUnsubscribe token={decodeURIComponent(token)} sampleName={info.sampleName} /> : <p className="text-sm text-ok">You already get no e-mails about this sample.</p>}
+        {info.watching ? (
+          <ConfirmUnsubscribe token={decodeURIComponent(token)} sampleName={info.sampleName} />
+        ) : (
+          <p className="text-sm text-ok">You already get no e-mails about this sample.</p>
+        )}
       </div>
     </div>
   );

@@ -36,7 +36,12 @@ export async function createSampleAction(lab: string, _s: ActionState, fd: FormD
   return state;
 }
 
-export async function updateSampleAction(lab: string, sampleId: string, _s: ActionState, fd: FormData): Promise<ActionState> {
+export async function updateSampleAction(
+  lab: string,
+  sampleId: string,
+  _s: ActionState,
+  fd: FormData,
+): Promise<ActionState> {
   const state = await runAction(lab, fd, async (ctx) => {
     await updateSample({ ctx, input: { id: sampleId, patch: form(fd) } });
   });
@@ -69,7 +74,12 @@ export async function createSessionAction(lab: string, _s: ActionState, fd: Form
   return state;
 }
 
-export async function updateSessionAction(lab: string, sessionId: string, _s: ActionState, fd: FormData): Promise<ActionState> {
+export async function updateSessionAction(
+  lab: string,
+  sessionId: string,
+  _s: ActionState,
+  fd: FormData,
+): Promise<ActionState> {
   const state = await runAction(lab, fd, async (ctx) => {
     await updateSession({ ctx, input: { id: sessionId, patch: form(fd) } });
   });
@@ -85,7 +95,12 @@ export async function inviteAction(lab: string, _s: ActionState, fd: FormData): 
   return state;
 }
 
-export async function changeRoleAction(lab: string, membershipId: string, _s: ActionState, fd: FormData): Promise<ActionState> {
+export async function changeRoleAction(
+  lab: string,
+  membershipId: string,
+  _s: ActionState,
+  fd: FormData,
+): Promise<ActionState> {
   const state = await runAction(lab, fd, async (ctx) => {
     await changeRole({ ctx, input: { membershipId, role: fd.get("role") } });
   });
@@ -93,7 +108,12 @@ export async function changeRoleAction(lab: string, membershipId: string, _s: Ac
   return state;
 }
 
-export async function removeMemberAction(lab: string, membershipId: string, _s: ActionState, fd: FormData): Promise<ActionState> {
+export async function removeMemberAction(
+  lab: string,
+  membershipId: string,
+  _s: ActionState,
+  fd: FormData,
+): Promise<ActionState> {
   const state = await runAction(lab, fd, async (ctx) => {
     await removeMember({ ctx, input: { membershipId } });
   });
@@ -101,7 +121,12 @@ export async function removeMemberAction(lab: string, membershipId: string, _s: 
   return state;
 }
 
-export async function revokeInvitationAction(lab: string, invitationId: string, _s: ActionState, fd: FormData): Promise<ActionState> {
+export async function revokeInvitationAction(
+  lab: string,
+  invitationId: string,
+  _s: ActionState,
+  fd: FormData,
+): Promise<ActionState> {
   const state = await runAction(lab, fd, async (ctx) => {
     await revokeInvitation({ ctx, input: { id: invitationId } });
   });
@@ -118,7 +143,12 @@ export async function createTokenAction(lab: string, _s: ActionState, fd: FormDa
   return state;
 }
 
-export async function revokeTokenAction(lab: string, tokenId: string, _s: ActionState, fd: FormData): Promise<ActionState> {
+export async function revokeTokenAction(
+  lab: string,
+  tokenId: string,
+  _s: ActionState,
+  fd: FormData,
+): Promise<ActionState> {
   const state = await runAction(lab, fd, async (ctx) => {
     await revokeToken({ ctx, input: { id: tokenId } });
   });
@@ -142,11 +172,18 @@ export async function setFlaggedInFitAction(lab: string, _s: ActionState, fd: Fo
   return state;
 }
 
-export async function setSampleAccessAction(lab: string, userId: string, _s: ActionState, fd: FormData): Promise<ActionState> {
+export async function setSampleAccessAction(
+  lab: string,
+  userId: string,
+  _s: ActionState,
+  fd: FormData,
+): Promise<ActionState> {
   const sampleIds = fd.getAll("sampleId").map(String);
   const state = await runAction(lab, undefined, async (ctx) => {
     await setSampleAccess({ ctx, input: { userId, sampleIds } });
   });
   revalidatePath(`/labs/${lab}/settings`);
-  return state.ok ? { ...state, message: sampleIds.length ? `Limited to ${sampleIds.length} sample(s).` : "Sees every sample." } : state;
+  return state.ok
+    ? { ...state, message: sampleIds.length ? `Limited to ${sampleIds.length} sample(s).` : "Sees every sample." }
+    : state;
 }

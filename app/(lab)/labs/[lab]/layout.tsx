@@ -5,18 +5,31 @@ import { can } from "@/lib/base/permissions";
 import { unreadCount } from "@/lib/services/alerts/unreadCount";
 import { signOutAction } from "../../../(auth)/actions";
 
-export default async function LabLayout({ children, params }: { children: React.ReactNode; params: Promise<{ lab: string }> }) {
+export default async function LabLayout({
+  children,
+  params,
+}: {
+  children: React.ReactNode;
+  params: Promise<{ lab: string }>;
+}) {
   const { lab } = await params;
   const ctx = await pageCtx(lab);
   const session = await auth();
   const { actor } = ctx;
   const unread = await unreadCount({ ctx });
   return (
-    <div className="min-h-screen lg:grid lg:grid-cols-[232px_minmax(0,1fr)] lg:bg-[linear-gradient(to_right,var(--color-night)_232px,transparent_232px)]">
+    <div
+      className={
+        "min-h-screen lg:grid lg:grid-cols-[232px_minmax(0,1fr)] " +
+        "lg:bg-[linear-gradient(to_right,var(--color-night)_232px,transparent_232px)]"
+      }
+    >
       <LabNav
         lab={{ slug: actor.labSlug, name: actor.labName }}
         user={{ name: actor.name, email: actor.email, role: actor.role }}
-        otherLabs={(session?.user?.labs ?? []).filter((l) => l.slug !== actor.labSlug).map((l) => ({ slug: l.slug, name: l.name }))}
+        otherLabs={(session?.user?.labs ?? [])
+          .filter((l) => l.slug !== actor.labSlug)
+          .map((l) => ({ slug: l.slug, name: l.name }))}
         canConfigure={can(actor.role, "members:manage")}
         signOut={signOutAction}
         unreadCount={unread}

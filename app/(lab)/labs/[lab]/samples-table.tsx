@@ -13,18 +13,37 @@ export function SamplesTable({ lab, samples }: { lab: string; samples: SampleSum
       accessorKey: "name",
       header: "Sample",
       cell: ({ row }) => (
-        <Link href={`/labs/${lab}/samples/${row.original.id}`} className="font-medium text-ink underline-offset-2 hover:underline">
+        <Link
+          href={`/labs/${lab}/samples/${row.original.id}`}
+          className="font-medium text-ink underline-offset-2 hover:underline"
+        >
           {row.original.name}
         </Link>
       ),
     },
-    { accessorKey: "material", header: "Material", cell: ({ row }) => <span>{row.original.material}{row.original.substrate ? <span className="text-muted"> on {row.original.substrate}</span> : null}</span> },
-    { accessorKey: "spectraCount", header: "Spectra", cell: ({ getValue }) => <span className="num">{getValue<number>()}</span>, enableGlobalFilter: false },
+    {
+      accessorKey: "material",
+      header: "Material",
+      cell: ({ row }) => (
+        <span>
+          {row.original.material}
+          {row.original.substrate ? <span className="text-muted"> on {row.original.substrate}</span> : null}
+        </span>
+      ),
+    },
+    {
+      accessorKey: "spectraCount",
+      header: "Spectra",
+      cell: ({ getValue }) => <span className="num">{getValue<number>()}</span>,
+      enableGlobalFilter: false,
+    },
     {
       accessorKey: "latestGapEv",
       header: "Latest gap",
       sortUndefined: "last",
-      cell: ({ row }) => <span className="num">{formatGap(row.original.latestGapEv, row.original.latestGapClosed)}</span>,
+      cell: ({ row }) => (
+        <span className="num">{formatGap(row.original.latestGapEv, row.original.latestGapClosed)}</span>
+      ),
       enableGlobalFilter: false,
     },
     {
@@ -41,5 +60,13 @@ export function SamplesTable({ lab, samples }: { lab: string; samples: SampleSum
       ),
     },
   ];
-  return <DataTable data={samples} columns={columns} filterPlaceholder="Filter samples by name or material" testId="samples-table" initialSort={[{ id: "name", desc: false }]} />;
+  return (
+    <DataTable
+      data={samples}
+      columns={columns}
+      filterPlaceholder="Filter samples by name or material"
+      testId="samples-table"
+      initialSort={[{ id: "name", desc: false }]}
+    />
+  );
 }

@@ -12,8 +12,22 @@ export default async function ComparePage({ params }: { params: Promise<{ lab: s
   const samples = await listSamples({ ctx });
   return (
     <>
-      <PageHeader eyebrow={ctx.actor.labName} title="Compare" description="Overlay the gap-versus-field plots of several samples, or of the regions and layers of one. Fields are model estimates; compare samples measured with the same field model." />
-      {samples.length === 0 ? <EmptyState title="No samples yet" /> : <ComparePlot lab={lab} samples={samples.map((s) => ({ id: s.id, name: s.name, spectraCount: s.spectraCount }))} />}
+      <PageHeader
+        eyebrow={ctx.actor.labName}
+        title="Compare"
+        description={
+          "Overlay the gap-versus-field plots of several samples, or of the regions and layers of one. " +
+          "Fields are model estimates; compare samples measured with the same field model."
+        }
+      />
+      {samples.length === 0 ? (
+        <EmptyState title="No samples yet" />
+      ) : (
+        <ComparePlot
+          lab={lab}
+          samples={samples.map((s) => ({ id: s.id, name: s.name, spectraCount: s.spectraCount }))}
+        />
+      )}
     </>
   );
 }

@@ -24,7 +24,10 @@ export default async function NotificationsPage({ params }: { params: Promise<{ 
       <PageHeader
         eyebrow="Alerts"
         title="Critical-field alerts"
-        description="When a sample you watch first crosses, when a later fit moves its critical field outside the earlier 95% interval, and when an analyst confirms it. Watch or stop watching on each sample's page."
+        description={
+          "When a sample you watch first crosses, when a later fit moves its critical field outside the earlier 95% " +
+          "interval, and when an analyst confirms it. Watch or stop watching on each sample's page."
+        }
         actions={unread ? <MarkAllRead lab={lab} /> : null}
       />
       {items.length === 0 ? (
@@ -35,8 +38,18 @@ export default async function NotificationsPage({ params }: { params: Promise<{ 
             {items.map((n) => {
               const k = n.kind ? KIND[n.kind] : null;
               return (
-                <li key={n.id} className="flex items-start gap-3 py-3" data-testid="notification" data-read={n.read ? "true" : "false"}>
-                  <span className={`mt-0.5 inline-flex shrink-0 items-center gap-1 rounded-full px-2 py-0.5 text-xs font-medium ${k?.tone ?? "bg-line/60 text-ink-soft"}`}>
+                <li
+                  key={n.id}
+                  className="flex items-start gap-3 py-3"
+                  data-testid="notification"
+                  data-read={n.read ? "true" : "false"}
+                >
+                  <span
+                    className={
+                      `mt-0.5 inline-flex shrink-0 items-center gap-1 rounded-full px-2 py-0.5 ` +
+                      `text-xs font-medium ${k?.tone ?? "bg-line/60 text-ink-soft"}`
+                    }
+                  >
                     <span aria-hidden>{k?.sign ?? "•"}</span> {k?.label ?? "note"}
                   </span>
                   <div className="min-w-0 flex-1">

@@ -18,11 +18,24 @@ export default async function SettingsPage({ params }: { params: Promise<{ lab: 
   const { lab } = await params;
   const ctx = await pageCtx(lab);
   if (!can(ctx.actor.role, "members:manage")) notFound();
-  const [labRow, members, tokens, access, samples] = await Promise.all([getLab({ ctx }), listMembers({ ctx }), listTokens({ ctx }), listSampleAccess({ ctx }), listSamples({ ctx })]);
+  const [labRow, members, tokens, access, samples] = await Promise.all([
+    getLab({ ctx }),
+    listMembers({ ctx }),
+    listTokens({ ctx }),
+    listSampleAccess({ ctx }),
+    listSamples({ ctx }),
+  ]);
   const roleOptions = ROLES.map((r) => ({ value: r, label: ROLE_LABEL[r] }));
   return (
     <>
-      <PageHeader eyebrow={ctx.actor.labName} title="Lab settings" description="Members and their roles, API tokens for the acquisition PC, the lab's default work functions, and how flagged spectra enter the fit." />
+      <PageHeader
+        eyebrow={ctx.actor.labName}
+        title="Lab settings"
+        description={
+          "Members and their roles, API tokens for the acquisition PC, the lab's " +
+          "default work functions, and how flagged spectra enter the fit."
+        }
+      />
       <div className="space-y-6">
         <Card title="Members">
           <MembersPanel
@@ -31,7 +44,11 @@ export default async function SettingsPage({ params }: { params: Promise<{ lab: 
             samples={samples.map((x) => ({ id: x.id, name: x.name }))}
             access={access}
             members={members.members.map((m) => ({ ...m, since: m.since.toISOString() }))}
-            pending={members.pending.map((p) => ({ ...p, expiresAt: p.expiresAt.toISOString(), createdAt: p.createdAt.toISOString() }))}
+            pending={members.pending.map((p) => ({
+              ...p,
+              expiresAt: p.expiresAt.toISOString(),
+              createdAt: p.createdAt.toISOString(),
+            }))}
           />
           <div className="mt-6 border-t border-line pt-5">
             <h3 className="mb-3 text-sm font-semibold">Invite someone</h3>
@@ -54,11 +71,18 @@ export default async function SettingsPage({ params }: { params: Promise<{ lab: 
             lab={lab}
             members={members.members.map((m) => ({ userId: m.userId, name: m.name }))}
             meId={ctx.actor.userId}
-            tokens={tokens.map((t) => ({ ...t, createdAt: t.createdAt.toISOString(), lastUsedAt: t.lastUsedAt?.toISOString() ?? null, revokedAt: t.revokedAt?.toISOString() ?? null }))}
+            tokens={tokens.map((t) => ({
+              ...t,
+              createdAt: t.createdAt.toISOString(),
+              lastUsedAt: t.lastUsedAt?.toISOString() ?? null,
+              revokedAt: t.revokedAt?.toISOString() ?? null,
+            }))}
           />
         </Card>
         <Card title="Lab defaults">
-          <p className="mb-4 text-sm text-ink-soft">New tips and samples start with these work functions; each tip and sample can then set its own.</p>
+          <p className="mb-4 text-sm text-ink-soft">
+            New tips and samples start with these work functions; each tip and sample can then set its own.
+          </p>
           <EntityForm
             action={updateLabDefaultsAction.bind(null, lab)}
             schema="labDefaults"
@@ -67,17 +91,42 @@ export default async function SettingsPage({ params }: { params: Promise<{ lab: 
             onSuccessMessage="Saved."
             fields={[
               { name: "name", label: "Lab name", defaultValue: labRow.name, wide: true },
-              { name: "defaultTipWorkFunction_eV", label: "Tip work function", unit: "eV", type: "number", defaultValue: String(labRow.defaultTipWorkFunctionEv) },
-              { name: "defaultTipWorkFunctionSigma_eV", label: "Its uncertainty (1σ)", unit: "eV", type: "number", defaultValue: String(labRow.defaultTipWorkFunctionSigmaEv) },
-              { name: "defaultSampleWorkFunction_eV", label: "Sample work function", unit: "eV", type: "number", defaultValue: String(labRow.defaultSampleWorkFunctionEv) },
-              { name: "defaultSampleWorkFunctionSigma_eV", label: "Its uncertainty (1σ)", unit: "eV", type: "number", defaultValue: String(labRow.defaultSampleWorkFunctionSigmaEv) },
+              {
+                name: "defaultTipWorkFunction_eV",
+                label: "Tip work function",
+                unit: "eV",
+                type: "number",
+                defaultValue: String(labRow.defaultTipWorkFunctionEv),
+              },
+              {
+                name: "defaultTipWorkFunctionSigma_eV",
+                label: "Its uncertainty (1σ)",
+                unit: "eV",
+                type: "number",
+                defaultValue: String(labRow.defaultTipWorkFunctionSigmaEv),
+              },
+              {
+                name: "defaultSampleWorkFunction_eV",
+                label: "Sample work function",
+                unit: "eV",
+                type: "number",
+                defaultValue: String(labRow.defaultSampleWorkFunctionEv),
+              },
+              {
+                name: "defaultSampleWorkFunctionSigma_eV",
+                label: "Its uncertainty (1σ)",
+                unit: "eV",
+                type: "number",
+                defaultValue: String(labRow.defaultSampleWorkFunctionSigmaEv),
+              },
             ]}
           />
         </Card>
         <Card title="Flagged spectra in the critical-field fit">
           <p className="mb-4 text-sm text-ink-soft">
-            A quality flag says why an automatic pick may not be trusted (a glitch removed, a sloped background, a noisy onset…). Flagged spectra can enter the fit, marked on
-            the phase plot, or be left out of it. Picks an analyst corrected always enter. Changing this refits every sample of the lab in the background.
+            A quality flag says why an automatic pick may not be trusted (a glitch removed, a sloped background, a noisy
+            onset…). Flagged spectra can enter the fit, marked on the phase plot, or be left out of it. Picks an analyst
+            corrected always enter. Changing this refits every sample of the lab in the background.
           </p>
           <EntityForm
             action={setFlaggedInFitAction.bind(null, lab)}

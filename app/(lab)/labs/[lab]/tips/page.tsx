@@ -18,13 +18,22 @@ export default async function TipsPage({ params }: { params: Promise<{ lab: stri
       <PageHeader
         eyebrow={ctx.actor.labName}
         title="Tips"
-        description="Probes and their work functions: the tip–sample work-function difference drives the junction field."
+        description={
+          "Probes and their work functions: the tip–sample " + "work-function difference drives the junction field."
+        }
         actions={canWrite ? <ButtonLink href={`/labs/${lab}/tips/new`}>New tip</ButtonLink> : null}
       />
       <TipsTable
         lab={lab}
         canWrite={canWrite}
-        tips={rows.map((t) => ({ id: t.id, label: t.label, material: t.material, workFunctionEv: t.workFunctionEv, workFunctionSigmaEv: t.workFunctionSigmaEv, preparedOn: t.preparedOn }))}
+        tips={rows.map((t) => ({
+          id: t.id,
+          label: t.label,
+          material: t.material,
+          workFunctionEv: t.workFunctionEv,
+          workFunctionSigmaEv: t.workFunctionSigmaEv,
+          preparedOn: t.preparedOn,
+        }))}
       />
     </>
   );

@@ -4,7 +4,14 @@ import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
 import { DataTable } from "@/components/ui/data-table";
 
-type TipRow = { id: string; label: string; material: string; workFunctionEv: number; workFunctionSigmaEv: number; preparedOn: string | null };
+type TipRow = {
+  id: string;
+  label: string;
+  material: string;
+  workFunctionEv: number;
+  workFunctionSigmaEv: number;
+  preparedOn: string | null;
+};
 
 export function TipsTable({ lab, tips, canWrite }: { lab: string; tips: TipRow[]; canWrite: boolean }) {
   const columns: ColumnDef<TipRow>[] = [
@@ -31,7 +38,20 @@ export function TipsTable({ lab, tips, canWrite }: { lab: string; tips: TipRow[]
         </span>
       ),
     },
-    { accessorKey: "preparedOn", header: "Prepared", sortUndefined: "last", cell: ({ getValue }) => <span className="num">{getValue<string | null>() ?? "—"}</span> },
+    {
+      accessorKey: "preparedOn",
+      header: "Prepared",
+      sortUndefined: "last",
+      cell: ({ getValue }) => <span className="num">{getValue<string | null>() ?? "—"}</span>,
+    },
   ];
-  return <DataTable data={tips} columns={columns} filterPlaceholder="Filter tips" testId="tips-table" empty="No tips yet: add the probe you measure with." />;
+  return (
+    <DataTable
+      data={tips}
+      columns={columns}
+      filterPlaceholder="Filter tips"
+      testId="tips-table"
+      empty="No tips yet: add the probe you measure with."
+    />
+  );
 }

@@ -6,7 +6,13 @@ import { pageSample } from "@/lib/actions/validated";
  * with this collaborator is a 404 response, decided before the page's frame streams (the read is
  * shared with the page, pageSample).
  */
-export default async function SampleLayout({ children, params }: { children: ReactNode; params: Promise<{ lab: string; sampleId: string }> }) {
+export default async function SampleLayout({
+  children,
+  params,
+}: {
+  children: ReactNode;
+  params: Promise<{ lab: string; sampleId: string }>;
+}) {
   const { lab, sampleId } = await params;
   await pageSample(lab, sampleId);
   return children;

@@ -14,14 +14,21 @@ export default async function NewSamplePage({ params }: { params: Promise<{ lab:
   const labRow = await getLab({ ctx });
   return (
     <>
-      <PageHeader eyebrow="Samples" title="New sample" description="The work function and its uncertainty feed the field estimate of every spectrum of this sample." />
+      <PageHeader
+        eyebrow="Samples"
+        title="New sample"
+        description="The work function and its uncertainty feed the field estimate of every spectrum of this sample."
+      />
       <Card>
         <EntityForm
           action={createSampleAction.bind(null, lab)}
           schema="sample"
           submitLabel="Create sample"
           testId="sample-form"
-          fields={sampleFields({ workFunction_eV: String(labRow.defaultSampleWorkFunctionEv), workFunctionSigma_eV: String(labRow.defaultSampleWorkFunctionSigmaEv) })}
+          fields={sampleFields({
+            workFunction_eV: String(labRow.defaultSampleWorkFunctionEv),
+            workFunctionSigma_eV: String(labRow.defaultSampleWorkFunctionSigmaEv),
+          })}
         />
       </Card>
     </>

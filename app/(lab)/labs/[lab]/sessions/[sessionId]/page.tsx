@@ -12,8 +12,16 @@ import { listSessionUploads } from "@/lib/services/uploads/listSessionUploads";
 export default async function SessionPage({ params }: { params: Promise<{ lab: string; sessionId: string }> }) {
   const { lab, sessionId } = await params;
   const ctx = await pageCtx(lab);
-  const { session: s, sampleName, tipLabel, operatorName } = await orNotFound(getSession({ ctx, input: { id: sessionId } }));
-  const [uploads, tips] = await Promise.all([listSessionUploads({ ctx, input: { sessionId: s.id } }), listTips({ ctx })]);
+  const {
+    session: s,
+    sampleName,
+    tipLabel,
+    operatorName,
+  } = await orNotFound(getSession({ ctx, input: { id: sessionId } }));
+  const [uploads, tips] = await Promise.all([
+    listSessionUploads({ ctx, input: { sessionId: s.id } }),
+    listTips({ ctx }),
+  ]);
   const canUpload = can(ctx.actor.role, "upload:write");
   return (
     <>
@@ -49,13 +57,23 @@ export default async function SessionPage({ params }: { params: Promise<{ lab: s
           <UploadPanel lab={lab} sessionId={s.id} canUpload={canUpload} initial={uploads} />
           {canUpload ? (
             <p className="mt-3 text-xs text-muted">
-              From the acquisition PC: <code className="num">npm run --silent bandcross -- push DIR --session {s.id} --url {process.env.APP_URL ?? "http://localhost:3000"}</code> with an API token in{" "}
-              <code className="num">BANDCROSS_TOKEN</code>.
+              From the acquisition PC:{" "}
+              <code className="num">
+                npm run --silent bandcross -- push DIR --session {s.id} --url{" "}
+                {process.env.APP_URL ?? "http://localhost:3000"}
+              </code>{" "}
+              with an API token in <code className="num">BANDCROSS_TOKEN</code>.
             </p>
           ) : null}
         </Card>
         <Card title="Spectra">
-          <SpectraTable lab={lab} sessionId={s.id} sampleId={s.sampleId} canEdit={can(ctx.actor.role, "spectrum:tag")} tips={tips.map((t) => ({ id: t.id, label: t.label }))} />
+          <SpectraTable
+            lab={lab}
+            sessionId={s.id}
+            sampleId={s.sampleId}
+            canEdit={can(ctx.actor.role, "spectrum:tag")}
+            tips={tips.map((t) => ({ id: t.id, label: t.label }))}
+          />
         </Card>
       </div>
     </>

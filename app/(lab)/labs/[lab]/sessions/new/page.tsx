@@ -10,7 +10,13 @@ import { listSamples } from "@/lib/services/samples/listSamples";
 import { listTips } from "@/lib/services/tips/listTips";
 import { createSessionAction } from "../../actions";
 
-export default async function NewSessionPage({ params, searchParams }: { params: Promise<{ lab: string }>; searchParams: Promise<{ sample?: string }> }) {
+export default async function NewSessionPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ lab: string }>;
+  searchParams: Promise<{ sample?: string }>;
+}) {
   const { lab } = await params;
   const { sample } = await searchParams;
   const ctx = await pageCtx(lab);
@@ -18,7 +24,11 @@ export default async function NewSessionPage({ params, searchParams }: { params:
   const [samples, tips] = await Promise.all([listSamples({ ctx }), listTips({ ctx })]);
   return (
     <>
-      <PageHeader eyebrow="Sessions" title="New session" description="A session groups the spectra of one cooldown with one tip." />
+      <PageHeader
+        eyebrow="Sessions"
+        title="New session"
+        description="A session groups the spectra of one cooldown with one tip."
+      />
       <Card>
         <EntityForm
           action={createSessionAction.bind(null, lab)}

@@ -13,7 +13,11 @@ export default async function SpectrumPage({ params }: { params: Promise<{ lab: 
   const s = await orNotFound(getSpectrum({ ctx, input: { id: spectrumId } }));
   return (
     <>
-      <PageHeader eyebrow="Review" title={s.sampleName} description="Check each spectrum's band edges; correct, exclude or accept them." />
+      <PageHeader
+        eyebrow="Review"
+        title={s.sampleName}
+        description="Check each spectrum's band edges; correct, exclude or accept them."
+      />
       <SpectrumReview lab={lab} initial={s} canEdit={can(ctx.actor.role, "analysis:write")} />
     </>
   );

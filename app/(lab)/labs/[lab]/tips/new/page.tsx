@@ -22,7 +22,10 @@ export default async function NewTipPage({ params }: { params: Promise<{ lab: st
           schema="tip"
           submitLabel="Create tip"
           testId="tip-form"
-          fields={tipFields({ workFunction_eV: String(l.defaultTipWorkFunctionEv), workFunctionSigma_eV: String(l.defaultTipWorkFunctionSigmaEv) })}
+          fields={tipFields({
+            workFunction_eV: String(l.defaultTipWorkFunctionEv),
+            workFunctionSigma_eV: String(l.defaultTipWorkFunctionSigmaEv),
+          })}
         />
       </Card>
       <div className="mt-5">

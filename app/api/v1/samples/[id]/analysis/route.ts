@@ -2,12 +2,30 @@ import { NextResponse } from "next/server";
 import { apiRoute } from "@/lib/http/respond";
 import { getSampleVersions } from "@/lib/services/analysis/getSampleVersions";
 
-/** The sample's current extraction-settings and field-model versions and its latest re-analysis run (with progress: status queued, running, fitting, done or failed with a message). */
+/**
+ * The sample's current extraction-settings and field-model versions and its latest re-analysis run (with progress:
+ * status queued, running, fitting, done or failed with a message).
+ */
 export const GET = apiRoute<{ id: string }>(async ({ ctx, params }) => {
   const { settings, field, run } = await getSampleVersions({ ctx, input: { sampleId: params.id } });
   return NextResponse.json({
-    settings: { id: settings.id, version: settings.version, settings: settings.settings, createdAt: settings.createdAt.toISOString() },
+    settings: {
+      id: settings.id,
+      version: settings.version,
+      settings: settings.settings,
+      createdAt: settings.createdAt.toISOString(),
+    },
     fieldModel: { id: field.id, version: field.version, model: field.model, createdAt: field.createdAt.toISOString() },
-    run: run ? { id: run.id, status: run.status, total: run.total, done: run.done, reason: run.reason, message: run.message, updatedAt: run.updatedAt.toISOString() } : null,
+    run: run
+      ? {
+          id: run.id,
+          status: run.status,
+          total: run.total,
+          done: run.done,
+          reason: run.reason,
+          message: run.message,
+          updatedAt: run.updatedAt.toISOString(),
+        }
+      : null,
   });
 });

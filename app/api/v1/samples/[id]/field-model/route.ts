@@ -7,7 +7,12 @@ import { fieldModelBody } from "./schema";
 
 export const GET = apiRoute<{ id: string }>(async ({ ctx, params }) => {
   const { field } = await getSampleVersions({ ctx, input: { sampleId: params.id } });
-  return NextResponse.json({ id: field.id, version: field.version, model: field.model, createdAt: field.createdAt.toISOString() });
+  return NextResponse.json({
+    id: field.id,
+    version: field.version,
+    model: field.model,
+    createdAt: field.createdAt.toISOString(),
+  });
 });
 
 export const PUT = apiRoute<{ id: string }>(async ({ ctx, request, params }) => {

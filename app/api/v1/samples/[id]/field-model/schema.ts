@@ -1,2 +1,5 @@
-/** Body of PUT /api/v1/samples/{id}/field-model: `{ contactDistance_nm, contactDistanceSigma_nm?, decayConstantSource?, barrierHeight_eV?, screening?, note? }`. */
+/**
+ * Body of PUT /api/v1/samples/{id}/field-model: `{ contactDistance_nm, contactDistanceSigma_nm?, decayConstantSource?,
+ * barrierHeight_eV?, screening?, note? }`.
+ */
 export { fieldModelInput as fieldModelBody } from "@/lib/schemas/uploads";

@@ -7,5 +7,7 @@ import { exclusionBody } from "./schema";
 export const PUT = apiRoute<{ id: string }>(async ({ ctx, request, params }) => {
   const body = parseInput(exclusionBody, await readJson(request));
   const { pick } = await setExcluded({ ctx, input: { spectrumId: params.id, body } });
-  return NextResponse.json({ pick: { version: pick.version, excluded: pick.excluded, excludedReason: pick.excludedReason } });
+  return NextResponse.json({
+    pick: { version: pick.version, excluded: pick.excluded, excludedReason: pick.excludedReason },
+  });
 });

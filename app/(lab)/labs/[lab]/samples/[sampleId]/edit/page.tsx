@@ -20,7 +20,14 @@ export default async function EditSamplePage({ params }: { params: Promise<{ lab
           schema="sample"
           submitLabel="Save changes"
           testId="sample-form"
-          fields={sampleFields({ name: s.name, material: s.material, substrate: s.substrate ?? "", workFunction_eV: String(s.workFunctionEv), workFunctionSigma_eV: String(s.workFunctionSigmaEv), notes: s.notes ?? "" })}
+          fields={sampleFields({
+            name: s.name,
+            material: s.material,
+            substrate: s.substrate ?? "",
+            workFunction_eV: String(s.workFunctionEv),
+            workFunctionSigma_eV: String(s.workFunctionSigmaEv),
+            notes: s.notes ?? "",
+          })}
         />
       </Card>
     </>

@@ -24,7 +24,18 @@ export default async function EditSessionPage({ params }: { params: Promise<{ la
           schema="session"
           submitLabel="Save changes"
           testId="session-form"
-          fields={sessionFields({ samples, tips }, { label: s.label, date: s.date, sampleId: s.sampleId, tipId: s.tipId ?? "", instrument: s.instrument ?? "", temperature_K: s.temperatureK != null ? String(s.temperatureK) : "", notes: s.notes ?? "" })}
+          fields={sessionFields(
+            { samples, tips },
+            {
+              label: s.label,
+              date: s.date,
+              sampleId: s.sampleId,
+              tipId: s.tipId ?? "",
+              instrument: s.instrument ?? "",
+              temperature_K: s.temperatureK != null ? String(s.temperatureK) : "",
+              notes: s.notes ?? "",
+            },
+          )}
         />
       </Card>
     </>

@@ -21,7 +21,14 @@ export default async function EditTipPage({ params }: { params: Promise<{ lab: s
           schema="tip"
           submitLabel="Save changes"
           testId="tip-form"
-          fields={tipFields({ label: t.label, material: t.material, workFunction_eV: String(t.workFunctionEv), workFunctionSigma_eV: String(t.workFunctionSigmaEv), preparedOn: t.preparedOn ?? "", notes: t.notes ?? "" })}
+          fields={tipFields({
+            label: t.label,
+            material: t.material,
+            workFunction_eV: String(t.workFunctionEv),
+            workFunctionSigma_eV: String(t.workFunctionSigmaEv),
+            preparedOn: t.preparedOn ?? "",
+            notes: t.notes ?? "",
+          })}
         />
       </Card>
     </>

@@ -5,7 +5,8 @@ import { parseInput } from "@/lib/services/parse";
 import { confirmBody } from "./schema";
 
 export const POST = apiRoute<{ id: string }>(async ({ ctx, request, params }) => {
-  const hasBody = Number(request.headers.get("content-length") ?? 0) > 0 || request.headers.get("transfer-encoding") != null;
+  const hasBody =
+    Number(request.headers.get("content-length") ?? 0) > 0 || request.headers.get("transfer-encoding") != null;
   const body = parseInput(confirmBody, hasBody ? await readJson(request) : {});
   return NextResponse.json(await confirmCrossing({ ctx, input: { sampleId: params.id, ...body } }));
 });

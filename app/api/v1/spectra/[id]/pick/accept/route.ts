@@ -8,5 +8,14 @@ import { acceptBody } from "./schema";
 export const POST = apiRoute<{ id: string }>(async ({ ctx, request, params }) => {
   const body = parseInput(acceptBody, await readJson(request));
   const { pick, acceptedAt } = await acceptPick({ ctx, input: { spectrumId: params.id, body } });
-  return NextResponse.json({ pick: { version: pick.version, source: pick.source, vbEdge_V: pick.vbEdgeV, cbEdge_V: pick.cbEdgeV, excluded: pick.excluded }, acceptedAt: acceptedAt.toISOString() });
+  return NextResponse.json({
+    pick: {
+      version: pick.version,
+      source: pick.source,
+      vbEdge_V: pick.vbEdgeV,
+      cbEdge_V: pick.cbEdgeV,
+      excluded: pick.excluded,
+    },
+    acceptedAt: acceptedAt.toISOString(),
+  });
 });

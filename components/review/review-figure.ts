@@ -1,0 +1,141 @@
+import { axis, baseLayout } from "@/components/plots/plot";
+import type { getSpectrum } from "@/lib/services/spectra/getSpectrum";
+
+export type SpectrumData = Awaited<ReturnType<typeof getSpectrum>>;
+export type Edge = "valence" | "conduction";
+/** Band edges as drawn or typed, V. */
+export type Edges = { vb: number; cb: number };
+
+type Shape = Record<string, unknown>;
+
+/** The noise floor and threshold as dotted and dashed lines across the plot, each with its words. */
+function levels(a: SpectrumData["analysis"]): { shapes: Shape[]; annotations: Shape[] } {
+  const line = (y: number, color: string, dash: string) => ({
+    type: "line",
+    xref: "paper",
+    x0: 0,
+    x1: 1,
+    y0: y,
+    y1: y,
+    line: { color, width: 1, dash },
+    editable: false,
+  });
+  const label = (y: number, text: string, color: string, right: boolean) => ({
+    xref: "paper",
+    x: right ? 1 : 0,
+    y,
+    xanchor: right ? "right" : "left",
+    yanchor: right ? "bottom" : "top",
+    text,
+    showarrow: false,
+    font: { size: 10, color },
+  });
+  const out = { shapes: [] as Shape[], annotations: [] as Shape[] };
+  if (a.noiseFloor != null) {
+    out.shapes.push(line(a.noiseFloor, "#6e6a5f", "dot"));
+    out.annotations.push(label(a.noiseFloor, "noise floor", "#6e6a5f", false));
+  }
+  if (a.threshold != null) {
+    out.shapes.push(line(a.threshold, "#b9512a", "dash"));
+    out.annotations.push(label(a.threshold, "threshold", "#b9512a", true));
+  }
+  return out;
+}
+
+/**
+ * The review plot of one spectrum: raw and smoothed dI/dV (linear or log), the noise floor and
+ * threshold, and the two band edges as lines the analyst drags (the one the keys move solid, the
+ * other dashed) over a light band between them. `edgeIndex` gives the edges' places among the
+ * shapes, for reading a drag back (`draggedEdges`).
+ */
+export function reviewFigure(
+  data: SpectrumData,
+  o: { vb: number | null; cb: number | null; logY: boolean; canEdit: boolean; id: string; selected: Edge },
+) {
+  const { vb, cb, canEdit, selected } = o;
+  const b = data.arrays.bias_V;
+  const a = data.analysis;
+  const traces: Shape[] = [
+    {
+      x: b,
+      y: data.arrays.didv,
+      type: "scatter",
+      mode: "markers",
+      marker: { size: 3, color: "#8a8478" },
+      name: "raw dI/dV",
+    },
+    {
+      x: b,
+      y: a.smoothed,
+      type: "scatter",
+      mode: "lines",
+      line: { color: "#1f6b73", width: 2 },
+      name: `smoothed (${a.smoothing})`,
+    },
+  ];
+  const { shapes, annotations } = levels(a);
+  const edgeShape = (x: number, edge: Edge) => ({
+    type: "line",
+    yref: "paper",
+    x0: x,
+    x1: x,
+    y0: 0,
+    y1: 1,
+    line: { color: "#b9512a", width: 3, dash: canEdit && edge !== selected ? "dash" : "solid" },
+    editable: canEdit,
+  });
+  const edgeIndex: number[] = [];
+  if (vb != null) {
+    edgeIndex.push(shapes.length);
+    shapes.push(edgeShape(vb, "valence"));
+  }
+  if (cb != null) {
+    edgeIndex.push(shapes.length);
+    shapes.push(edgeShape(cb, "conduction"));
+  }
+  if (vb != null && cb != null) {
+    shapes.push({
+      type: "rect",
+      yref: "paper",
+      x0: vb,
+      x1: cb,
+      y0: 0,
+      y1: 1,
+      fillcolor: "rgba(185,81,42,0.06)",
+      line: { width: 0 },
+      editable: false,
+      layer: "below",
+    });
+  }
+  return {
+    data: traces,
+    edgeIndex,
+    layout: baseLayout({
+      xaxis: axis("sample bias (V)"),
+      yaxis: axis("dI/dV (as recorded)", o.logY ? { type: "log" } : {}),
+      shapes,
+      annotations,
+      uirevision: `${o.id}-${o.logY}`,
+      dragmode: "zoom",
+    }),
+  };
+}
+
+/** The edges after a drag (Plotly's relayout event), in order; null when the event moved no edge. */
+export function draggedEdges(e: Record<string, number>, edgeIndex: number[], now: Edges): Edges | null {
+  const [iv, ic] = edgeIndex;
+  const nv = e[`shapes[${iv}].x0`];
+  const nc = e[`shapes[${ic}].x0`];
+  if (nv === undefined && nc === undefined) return null;
+  const next = { vb: nv ?? now.vb, cb: nc ?? now.cb };
+  return next.vb < next.cb ? next : { vb: next.cb, cb: next.vb };
+}
+
+/** The edges with the selected one moved by `mV`, inside the bias range and on its side of the other. */
+export function movedEdge({ vb, cb }: Edges, selected: Edge, mV: number, range: [number, number]): Edges {
+  const d = mV / 1000;
+  const gapMin = 1e-4;
+  return selected === "valence"
+    ? { vb: Math.min(Math.max(vb + d, range[0]), cb - gapMin), cb }
+    : { vb, cb: Math.max(Math.min(cb + d, range[1]), vb + gapMin) };
+}

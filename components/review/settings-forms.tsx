@@ -1,0 +1,157 @@
+"use client";
+
+import type { FormEvent } from "react";
+import { Button } from "@/components/ui/button";
+import { Field, Input, Select } from "@/components/ui/field";
+import type { SampleVersions } from "./sample-queries";
+import { SETTINGS_NUMBERS } from "./settings-bodies";
+import { DECAY_LABEL, decaySource, METHOD_LABEL } from "./settings-facts";
+
+/** A form's title with the version it shows. */
+function VersionHeading({ title, version }: { title: string; version: number }) {
+  return (
+    <h3 className="text-sm font-semibold">
+      {title} <span className="num font-normal text-muted">v{version}</span>
+    </h3>
+  );
+}
+
+/** A choice among named values (value → words). */
+function Choices({
+  name,
+  defaultValue,
+  labels,
+}: {
+  name: string;
+  defaultValue: string;
+  labels: Record<string, string>;
+}) {
+  return (
+    <Select name={name} defaultValue={defaultValue}>
+      {Object.entries(labels).map(([value, label]) => (
+        <option key={value} value={value}>
+          {label}
+        </option>
+      ))}
+    </Select>
+  );
+}
+
+/** A number with its label, unit and hint, and the server's words when it refused it. */
+function NumberField(props: {
+  label: string;
+  name: string;
+  unit?: string;
+  hint?: string;
+  error?: string[];
+  value: unknown;
+}) {
+  const { name, value, ...field } = props;
+  return (
+    <Field {...field} name={name}>
+      <Input name={name} defaultValue={value as string | number | undefined} className="num" />
+    </Field>
+  );
+}
+
+/** Why this version: kept with it. */
+function NoteField({ fe }: { fe: FormProps["fe"] }) {
+  return (
+    <Field label="Note" name="note" error={fe("note")}>
+      <Input name="note" placeholder="why this change" />
+    </Field>
+  );
+}
+
+type FormProps = {
+  data: SampleVersions;
+  fe: (field: string) => string[] | undefined;
+  onSubmit: (e: FormEvent<HTMLFormElement>) => void;
+};
+
+/** The extraction settings as a form; saving makes the next version. */
+export function ExtractionSettingsForm({ data, fe, onSubmit }: FormProps) {
+  const s = data.settings.settings;
+  return (
+    <form key={data.settings.id} onSubmit={onSubmit} className="space-y-3" aria-label="Extraction settings">
+      <VersionHeading title="Extraction settings" version={data.settings.version} />
+      <fieldset className="grid gap-3 sm:grid-cols-3">
+        <Field label="Smoothing" name="method">
+          <Choices name="method" defaultValue={s.smoothing?.method} labels={METHOD_LABEL} />
+        </Field>
+        {SETTINGS_NUMBERS.map(({ at: [group, key], blank, ...field }) => (
+          <NumberField
+            key={field.name}
+            {...field}
+            error={fe(`${group}.${key}`)}
+            value={blank ? (s[group]?.[key] ?? "") : s[group]?.[key]}
+          />
+        ))}
+        <label className="flex items-center gap-2 text-sm sm:col-span-2">
+          <input type="checkbox" name="fit" defaultChecked={s.fit?.enabled} /> refine each edge with the
+          broadening-aware fit (thermal and lock-in kernels)
+        </label>
+        <NoteField fe={fe} />
+      </fieldset>
+      <div className="flex justify-end">
+        <Button type="submit">Save settings as v{data.settings.version + 1}</Button>
+      </div>
+    </form>
+  );
+}
+
+/** The field model as a form; saving makes the next version. */
+export function FieldModelForm({ data, fe, onSubmit }: FormProps) {
+  const m = data.fieldModel.model;
+  return (
+    <form
+      key={data.fieldModel.id}
+      onSubmit={onSubmit}
+      className="space-y-3 border-t border-line pt-4"
+      aria-label="Field model"
+    >
+      <VersionHeading title="Field model" version={data.fieldModel.version} />
+      <fieldset className="grid gap-3 sm:grid-cols-3">
+        <NumberField
+          label="Contact distance d_c"
+          unit="nm"
+          error={fe("contactDistance_nm")}
+          name="contactDistance_nm"
+          value={m.contactDistance_nm}
+        />
+        <NumberField
+          label="its uncertainty"
+          unit="nm"
+          error={fe("contactDistanceSigma_nm")}
+          name="contactDistanceSigma_nm"
+          value={m.contactDistanceSigma_nm}
+        />
+        <NumberField
+          label="Screening factor"
+          hint="1 = none"
+          error={fe("screening")}
+          name="screening"
+          value={m.screening}
+        />
+        <Field label="Decay constant κ from" name="decayConstantSource">
+          <Choices name="decayConstantSource" defaultValue={decaySource(m)} labels={DECAY_LABEL} />
+        </Field>
+        <NumberField
+          label="Apparent barrier height"
+          unit="eV"
+          hint="from an I(z) curve: 0.952·(d ln I/dz [Å⁻¹])²"
+          error={fe("barrierHeight_eV")}
+          name="barrierHeight_eV"
+          value={m.barrierHeight_eV ?? ""}
+        />
+        <NoteField fe={fe} />
+      </fieldset>
+      <p className="text-xs text-muted">
+        Tip and sample work functions come from each session&apos;s tip and from the sample (edit them there).
+      </p>
+      <div className="flex justify-end">
+        <Button type="submit">Save field model as v{data.fieldModel.version + 1}</Button>
+      </div>
+    </form>
+  );
+}
