@@ -38,6 +38,7 @@ export const SUITE_CATEGORIES = {
   repeats: "4 repeats at one point; in half of the points a tip change after the second",
   realistic: "two to four of the imperfections above at once",
   tilted: "a plain linear background added to dI/dV (tip states, capacitive leakage), nothing else",
+  "tilted-mix": "a tilted background with one to three of the other imperfections at once",
 } as const;
 export type SuiteCategory = keyof typeof SUITE_CATEGORIES;
 
@@ -69,7 +70,7 @@ function base(rng: Rng, seed: number, gapRange: [number, number] = [0.04, 0.5]):
 type Maker = (rng: Rng, seed: number) => SpectrumModel;
 
 /** Each imperfection as a change to a base model (used alone in its category and mixed in "realistic"). */
-const imperfections: Record<Exclude<SuiteCategory, "model" | "metal" | "repeats" | "realistic" | "nearly-closed" | "broad">, (m: SpectrumModel, rng: Rng) => SpectrumModel> = {
+const imperfections: Record<Exclude<SuiteCategory, "model" | "metal" | "repeats" | "realistic" | "tilted-mix" | "nearly-closed" | "broad">, (m: SpectrumModel, rng: Rng) => SpectrumModel> = {
   "edge-states": (m, rng) => ({ ...m, inGap: { ...m.inGap, level: ((m.cbEdge_V - m.vbEdge_V) / 2) * between(rng, 0.1, 0.4) } }),
   "v-in-gap": (m, rng) => ({ ...m, inGap: { ...m.inGap, vSlope: between(rng, 0.05, 0.3) } }),
   tilted: (m, rng) => ({ ...m, additive: { ...m.additive, linear: (m.amplitude ?? 10) * between(rng, 0.1, 0.5) * (rng.uniform() < 0.5 ? -1 : 1) } }),
@@ -121,6 +122,7 @@ const COUNTS: Record<SuiteCategory, number> = {
   repeats: 20,
   realistic: 60,
   tilted: 30,
+  "tilted-mix": 40,
 };
 
 /**
@@ -149,14 +151,16 @@ export function makeSuite(opts: { seed?: number; perCategory?: number; categorie
       }
       continue;
     }
-    if (category === "realistic") {
+    if (category === "realistic" || category === "tilted-mix") {
       // The mix draws from the imperfections that existed when it was made (a category added later
-      // would change every mixed spectrum of the seed).
+      // would change every mixed spectrum of the seed); "tilted-mix" always holds a tilt.
       const names = (Object.keys(imperfections) as (keyof typeof imperfections)[]).filter((c) => c !== "tilted");
+      const tilt = category === "tilted-mix";
       for (let k = 0; k < count; k++) {
         let m = base(rng, seedOf(k));
-        const howMany = 2 + Math.floor(3 * rng.uniform());
+        const howMany = (tilt ? 1 : 2) + Math.floor(3 * rng.uniform());
         const chosen = new Set<keyof typeof imperfections>();
+        if (tilt) chosen.add("tilted");
         while (chosen.size < howMany) chosen.add(pick(rng, names));
         // Only one noise kind at a time.
         if (chosen.has("ar1") && chosen.has("pink")) chosen.delete("pink");

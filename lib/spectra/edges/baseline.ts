@@ -105,11 +105,13 @@ export function autocorrelationTime(x: ArrayLike<number>): { tau: number; rho1: 
  * follow. Test each end for an onset: the polynomial plus a step and a kink, H(x) and x·H(x) at a
  * trial edge in the outer half of the region (16 trials), against the polynomial alone. If the best
  * trial lowers χ² (σ² × τ per point, for correlated noise) by more than `minDeltaChi2`, the region ends
- * at that edge. Returns the new range (unchanged when no end holds an onset).
+ * at that edge. With `sigma` null, σ and τ come from the residuals of the best trial (the largest model:
+ * the polynomial's own residuals hold the onset it misses). Returns the new range (unchanged when no end
+ * holds an onset).
  */
-export function trimOnsets(bias: Float64Array, y: Float64Array, from: number, to: number, degree: number, center: number, sigma: number, tau: number, minDeltaChi2: number): { from: number; to: number } {
+export function trimOnsets(bias: Float64Array, y: Float64Array, from: number, to: number, degree: number, center: number, sigma: number | null, tau: number, minDeltaChi2: number): { from: number; to: number } {
   const npts = to - from + 1;
-  if (npts < 16 || !(sigma > 0)) return { from, to };
+  if (npts < 16 || (sigma !== null && !(sigma > 0))) return { from, to };
   const scale = Math.max(Math.abs(bias[from] - center), Math.abs(bias[to] - center), 1e-9);
   const poly: Float64Array[] = [];
   for (let k = 0; k <= degree; k++) poly.push(Float64Array.from({ length: npts }, (_, i) => ((bias[from + i] - center) / scale) ** k));
@@ -118,7 +120,7 @@ export function trimOnsets(bias: Float64Array, y: Float64Array, from: number, to
   if (rss0 === undefined) return { from, to };
   const out = { from, to };
   for (const dir of [1, -1] as const) {
-    let best = { rss: Infinity, idx: -1 };
+    let best: { rss: number; idx: number; cols: Float64Array[]; coef: ArrayLike<number> } = { rss: Infinity, idx: -1, cols: [], coef: [] };
     for (let t = 0; t < 16; t++) {
       // Trial edges from the middle of the region to 4 points before its end.
       const frac = 0.5 + (0.5 * t) / 16;
@@ -133,11 +135,28 @@ export function trimOnsets(bias: Float64Array, y: Float64Array, from: number, to
       }
       const r = linearLeastSquares([...poly, step, kink], yy);
       if (!r) continue;
-      // An onset rises away from the gap: a kink that bends down is not one.
+      // An onset rises away from the gap: a kink that bends down is not one; and the band lies above the
+      // floor it leaves (a floor cut off a band's straight stretch is a convex corner seen from the band).
       if (r.coef[degree + 2] <= 0) continue;
-      if (r.rss < best.rss) best = { rss: r.rss, idx };
+      let cut = 0;
+      let kept = 0;
+      let nCut = 0;
+      for (let i = 0; i < npts; i++) {
+        if (step[i]) {
+          cut += yy[i];
+          nCut++;
+        } else kept += yy[i];
+      }
+      if (!(nCut > 0 && nCut < npts && cut / nCut > kept / (npts - nCut))) continue;
+      if (r.rss < best.rss) best = { rss: r.rss, idx, cols: [...poly, step, kink], coef: r.coef };
     }
-    if (best.idx >= 0 && (rss0 - best.rss) / (sigma * sigma * tau) > minDeltaChi2) {
+    if (best.idx < 0) continue;
+    let noise2 = sigma === null ? 0 : sigma * sigma * tau;
+    if (sigma === null) {
+      const res = Float64Array.from(yy, (v, i) => v - best.cols.reduce((f, c, k) => f + best.coef[k] * c[i], 0));
+      noise2 = (best.rss / Math.max(1, npts - degree - 3)) * autocorrelationTime(res).tau;
+    }
+    if (noise2 > 0 && (rss0 - best.rss) / noise2 > minDeltaChi2) {
       if (dir === 1) out.to = Math.max(out.from + 4, best.idx - 1);
       else out.from = Math.min(out.to - 4, best.idx + 1);
     }
@@ -190,22 +209,24 @@ export function fitBaselineOn(
   // Degree by a penalised χ²: a higher degree must lower χ² (σ² per point, τ for correlation) by more
   // than DEGREE_PENALTY, so a slope or curve is used only where the data show it; a polynomial fitted
   // to noise would tilt the floor and move the edges when extrapolated.
-  let best = robust(0);
+  // The noise scale is that of the largest model (Mallows' Cp; common practice): the residuals of a
+  // smaller model hold the slope or curve it misses, and judged by them a slope never pays.
+  const fits = [robust(0)];
+  for (let d = 1; d <= allowed; d++) fits.push(robust(d));
+  const noiseOf = (f: { coef: Float64Array; sigma: number }) => {
+    for (let i = from; i <= to; i++) res[i - from] = y[i] - baselineAt({ coef: f.coef, center }, bias[i]);
+    return f.sigma * f.sigma * autocorrelationTime(res).tau;
+  };
   let degree = 0;
-  if (allowed > 0) {
-    const tau0 = autocorrelationTime(res).tau;
-    const sig2 = best.sigma * best.sigma * tau0;
-    let score = best.rss / sig2;
-    for (let d = 1; d <= allowed; d++) {
-      const r = robust(d);
-      const sc = r.rss / sig2 + DEGREE_PENALTY * d;
-      if (sc < score) {
-        score = sc;
-        best = r;
-        degree = d;
-      }
+  if (allowed >= 1) {
+    const sig2 = noiseOf(fits[1]);
+    if (fits[0].rss / sig2 > fits[1].rss / sig2 + DEGREE_PENALTY) degree = 1;
+    if (allowed >= 2) {
+      const sig2c = noiseOf(fits[0]);
+      if (fits[degree].rss / sig2c + DEGREE_PENALTY * degree > fits[2].rss / sig2c + DEGREE_PENALTY * 2) degree = 2;
     }
   }
+  const best = fits[degree];
   const { coef, sigma } = best;
   for (let i = from; i <= to; i++) res[i - from] = y[i] - baselineAt({ coef, center }, bias[i]);
   const rs = new Float64Array(npts);

@@ -4,7 +4,7 @@
  * σ is 1.4826 × their median absolute deviation (MAD → σ for Gaussian noise). Three passes, starting
  * from the smoothed minimum and the MAD of the smoothing residuals over the whole spectrum.
  */
-import { madSigma, median } from "../stats";
+import { madSigma, median, quantile } from "../stats";
 
 
 export interface NoiseFloor {
@@ -58,4 +58,51 @@ export function noiseFloor(y: Float64Array, s: Float64Array, gain: number, k: nu
     if (pass > 0 && from === f0 && to === t0) break;
   }
   return { floor, sigma, sigmaSmoothed: sigma * gain, from, to, iMin };
+}
+
+/**
+ * A floor that tilts. A linear background in dI/dV (tip states, capacitive leakage into the lock-in)
+ * tilts the in-gap floor, and a flat first look then finds only the stretch near its lower end, with
+ * the rest of the gap read as a band. Under the right tilt the floor is one long quiet run: for each
+ * trial slope m (a coarse grid, then a finer one around the best), the run of the smoothed curve minus
+ * m·V around its minimum that stays below that minimum + 2k·σ_smoothed; the slope giving the longest
+ * run wins, slope 0 on ties. The run must hold the flat look's minimum `iMin` (the lowest point of a tilted
+ * floor is its lower end; a long straight stretch of a band elsewhere is a run too, but not the floor). The caller decides whether the tilt is worth taking (it must lengthen the
+ * run by far) and the baseline fit decides from the data whether the slope is real.
+ */
+export function quietTilt(bias: Float64Array, s: Float64Array, sigmaSmoothed: number, k: number, lo: number, hi: number, iMin: number): { slope: number; from: number; to: number; flatWidth: number } {
+  const c = 0.5 * (bias[lo] + bias[hi]);
+  let sMin = s[lo];
+  for (let i = lo; i <= hi; i++) if (s[i] < sMin) sMin = s[i];
+  const spread = quantile(s.subarray(lo, hi + 1), 0.95) - sMin;
+  const mMax = (2 * spread) / Math.max(bias[hi] - bias[lo], 1e-12);
+  const run = (m: number) => {
+    let j = lo;
+    let dj = Infinity;
+    for (let i = lo; i <= hi; i++) {
+      const d = s[i] - m * (bias[i] - c);
+      if (d < dj) { dj = d; j = i; }
+    }
+    const level = dj + 2 * k * sigmaSmoothed;
+    let from = j;
+    let to = j;
+    while (from > lo && s[from - 1] - m * (bias[from - 1] - c) < level) from--;
+    while (to < hi && s[to + 1] - m * (bias[to + 1] - c) < level) to++;
+    return { from, to, width: to - from + 1 };
+  };
+  const flat = run(0);
+  let best = { slope: 0, ...flat };
+  const scan = (a: number, b: number, steps: number) => {
+    for (let t = 0; t <= steps; t++) {
+      const m = a + ((b - a) * t) / steps;
+      const r = run(m);
+      if (r.width > best.width && r.from <= iMin && iMin <= r.to) best = { slope: m, ...r };
+    }
+  };
+  if (mMax > 0) {
+    scan(-mMax, mMax, 40);
+    const dm = mMax / 20;
+    scan(best.slope - dm, best.slope + dm, 20);
+  }
+  return { slope: best.slope, from: best.from, to: best.to, flatWidth: flat.width };
 }

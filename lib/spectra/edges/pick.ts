@@ -24,10 +24,10 @@
 import { type BroadeningKernel, broadeningKernel, convolvedOnset, energyResolution_mV } from "../resolution";
 import { DEFAULT_EXTRACTION_SETTINGS, type ExtractionSettings, resolveExtractionSettings, type DeepPartial } from "../settings";
 import { smoothSpectrum } from "../smooth/apply";
-import { linearLeastSquares, madSigma, movingAverage, quantile } from "../stats";
+import { linearLeastSquares, madSigma, median, movingAverage, quantile } from "../stats";
 import { type Baseline, autocorrelationTime, baselineAt, fitBaselineOn, trimOnsets } from "./baseline";
 import { edgeProfileRange, fitEdges } from "./fit";
-import { noiseFloor } from "./noise";
+import { noiseFloor, quietTilt } from "./noise";
 import { logOnset, sustainedEdge } from "./threshold";
 import type { SpectrumMeta } from "../import/types";
 import type { QualityFlag } from "./flags";
@@ -142,11 +142,27 @@ function vShapeTest(bias: Float64Array, y: Float64Array, iv: number, ic: number,
   return { deviation: best.deviation, m: best.m, v: best.v, sigma: madSigma(res), tau: ac.tau };
 }
 
+/**
+ * Does a baseline fitted to a wider region agree with the narrower region's baseline over that narrower
+ * region? The rms difference there must stay within three standard errors of the narrower fit's
+ * prediction, σ·√(τ·(degree + 1)/n) (the rms prediction error of a least-squares polynomial over its own
+ * points; common practice).
+ */
+function baselinesAgree(narrow: Baseline, wide: Baseline, bias: Float64Array): boolean {
+  const n = narrow.to - narrow.from + 1;
+  let ss = 0;
+  for (let i = narrow.from; i <= narrow.to; i++) ss += (baselineAt(wide, bias[i]) - baselineAt(narrow, bias[i])) ** 2;
+  const se = narrow.sigma * Math.sqrt((narrow.tau * (narrow.degree + 1)) / n);
+  return Math.sqrt(ss / n) <= 3 * se;
+}
+
 /** Δχ² of the zero-gap model below which a zero gap is not excluded: simulated 95% and 99% points (see pickGap). */
 export const ZERO_GAP_DCHI2_95 = 7.0;
 export const ZERO_GAP_DCHI2_99 = 9.8;
 /** An onset this many noise levels (σ_smoothed·√τ) above the baseline half a band window out is strong. */
 const STRONG_ONSET = 15;
+/** Below this many noise levels half a band window out, an onset read against a sloped floor is weak. */
+const WEAK_ON_SLOPE = 10;
 /** Share of the sustained stretch (threshold.sustain_mV) a band edge spends above the threshold. */
 const SUSTAINED_SHARE = 0.9;
 
@@ -334,12 +350,48 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   const d = new Float64Array(n);
   for (let i = 0; i < n; i++) d[i] = s[i] - nf.floor;
   let e = walk(d, nf.iMin, st.threshold.k * sigmaWide);
+  const flatLook = e;
+  {
+    // A tilted floor (a linear background): under the right tilt the gap is one long quiet run. Take
+    // the tilt for the first look only when it at least doubles the run; the baseline fit below then
+    // judges the slope on the data.
+    const qt = quietTilt(bias, s, sigmaWide, st.threshold.k, lo + margin, hi - margin, nf.iMin);
+    if (qt.slope !== 0 && qt.to - qt.from + 1 >= 2 * qt.flatWidth && bias[qt.to] - bias[qt.from] >= Math.max(8 * res_V, 0.04)) {
+      const c = 0.5 * (bias[qt.from] + bias[qt.to]);
+      const f0 = median(Float64Array.from({ length: qt.to - qt.from + 1 }, (_, j) => y[qt.from + j] - qt.slope * (bias[qt.from + j] - c)));
+      let iMin = qt.from;
+      for (let i = 0; i < n; i++) {
+        d[i] = s[i] - f0 - qt.slope * (bias[i] - c);
+        if (i >= qt.from && i <= qt.to && d[i] < d[iMin]) iMin = i;
+      }
+      const tilted = walk(d, iMin, st.threshold.k * sigmaWide);
+      const Wt = Math.max(4, Math.round(Math.max(st.fit.minBandWindow_mV / 1000, 4 * res_V) / step));
+      const excess = (a: number, dir: 1 | -1) => {
+        let sum = 0;
+        let cnt = 0;
+        for (let j = 1; j <= Wt; j++) {
+          const i = a + dir * j;
+          if (i < lo || i > hi) break;
+          sum += d[i];
+          cnt++;
+        }
+        return cnt ? sum / cnt / sigmaWide : 0;
+      };
+      if (tilted.v && tilted.c && Math.min(excess(qt.from, -1), excess(qt.to, 1)) >= 4 * st.threshold.k) e = tilted;
+    }
+  }
   const keep = Math.max(1, Math.ceil(res_V / step));
   const base = new Float64Array(n);
   let bl: Baseline | null = null;
+  // Where a weak onset was found inside the region, later regions stop there (a threshold crosses a
+  // weak band late, and a region reaching into it would tilt the baseline towards it again).
+  let fenceLo = -1;
+  let fenceHi = n;
+  let trimmed = { vb: false, cb: false };
+  let prev: { bl: Baseline; e: typeof e } | null = null;
   for (let round = 0; round < 5; round++) {
-    let from = e.v ? e.v.index + keep : lo + margin;
-    let to = e.c ? e.c.index - keep : hi - margin;
+    let from = Math.max(e.v ? e.v.index + keep : lo + margin, fenceLo);
+    let to = Math.min(e.c ? e.c.index - keep : hi - margin, fenceHi);
     if (to - from < 6) {
       const mid = e.v && e.c ? (e.v.index + e.c.index) >> 1 : nf.iMin;
       from = Math.max(lo, mid - 3);
@@ -352,6 +404,28 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
       to = tr.to;
     }
     bl = fitBaselineOn(bias, y, s, sm.gain, from, to, st.baseline.maxDegree, st.baseline.widthPerDegree_mV / 1000);
+    if (bl.degree >= 1) {
+      // A slope may be a weak onset inside the region (flat, then rising from a kink): test each end.
+      const tr = trimOnsets(bias, y, from, to, 1, bl.center, null, 1, 30);
+      if (tr.from !== from || tr.to !== to) {
+        if (tr.from !== from) fenceLo = tr.from;
+        if (tr.to !== to) fenceHi = tr.to;
+        trimmed = { vb: trimmed.vb || tr.from !== from, cb: trimmed.cb || tr.to !== to };
+        bl = fitBaselineOn(bias, y, s, sm.gain, tr.from, tr.to, st.baseline.maxDegree, st.baseline.widthPerDegree_mV / 1000);
+      }
+    }
+    if (prev && prev.bl.degree + bl.degree >= 1 && !baselinesAgree(prev.bl, bl, bias)) {
+      // The wider region's baseline disagrees with the narrower one where both hold: the region has
+      // grown into a band (a weak onset the threshold crossed late), not along the floor. Keep the last
+      // edges that agreed.
+      bl = prev.bl;
+      e = prev.e;
+      for (let i = 0; i < n; i++) {
+        base[i] = baselineAt(bl, bias[i]);
+        d[i] = s[i] - base[i];
+      }
+      break;
+    }
     for (let i = 0; i < n; i++) {
       base[i] = baselineAt(bl, bias[i]);
       d[i] = s[i] - base[i];
@@ -361,6 +435,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     // An edge lost against the new baseline means that baseline does not hold beyond its region
     // (a polynomial extrapolated): keep the edges that had one.
     if (same || ((!next.v || !next.c) && e.v && e.c)) break;
+    prev = { bl, e };
     e = next;
   }
   bl = bl!;
@@ -479,6 +554,39 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     if (f_warnings.some((w) => w.includes("search limit")))
       flags.push({ code: "unreliable-edge", message: "The edge fit reached the end of its search range: the onset does not look like a band edge there." });
   }
+  // The background model's share of the uncertainty: a weak onset read against a sloped floor depends on
+  // the slope (a weak band rising slowly and a tilted floor look alike). Where the onset half a band
+  // window out is below WEAK_ON_SLOPE noise levels, the edge read against a flat floor (the first look)
+  // is as plausible: the uncertainty covers both readings, and a flag says so.
+  let bgSigma = 0;
+  {
+    const halfW = Math.max(1, Math.round(W / 2 / step));
+    for (const side of ["vb", "cb"] as const) {
+      // The floor was sloped, or its region was cut short on this side as the start of a weak band.
+      if (!(bl.degree > 0 || trimmed[side])) continue;
+      const at = side === "vb" ? Math.max(lo, main.v.index - halfW) : Math.min(hi, main.c.index + halfW);
+      const strength = d[at] / (sigS * Math.sqrt(bl.tau));
+      const edge = side === "vb" ? vb : cb;
+      const alt = (side === "vb" ? flatLook.v : flatLook.c)?.edge;
+      if (!(strength < WEAK_ON_SLOPE) || alt === undefined) continue;
+      // The onset itself may start anywhere from the floor's quietest point to the sloped reading (a weak
+      // band crosses any threshold late): that range is the edge's honest ±2σ.
+      const inner = bias[nf.iMin];
+      const from = Math.min(inner, edge, alt);
+      const to = Math.max(inner, edge, alt);
+      const sig = Math.max(edge - from, to - edge) / 2;
+      const own = side === "vb" ? vbSigma : cbSigma;
+      if (!(sig > own)) continue;
+      if (side === "vb") vbSigma = sig;
+      else cbSigma = sig;
+      bgSigma = Math.hypot(bgSigma, sig);
+      flags.push({
+        code: "unreliable-edge",
+        message: `The ${sideName[side]} onset is weak and the in-gap floor ${bl.degree > 0 ? "slopes" : "wanders"}: the rise may be the floor's ${bl.degree > 0 ? "slope" : "drift"} or a weak band. Read against the ${bl.degree > 0 ? "sloped" : "fitted"} floor the edge is at ${mV(edge)}, against a flat first look at ${mV(alt)}, and the floor's quietest point is at ${mV(inner)}: the onset is not pinned down between ${mV(from)} and ${mV(to)}.`,
+        at_V: [from, to],
+      });
+    }
+  }
   // The in-gap floor: say so when it slopes or curves enough to matter for the threshold.
   if (bl.degree > 0) {
     const change = Math.abs(baselineAt(bl, cb) - baselineAt(bl, vb));
@@ -491,6 +599,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   // Jointly fitted edges are strongly correlated: the gap's own profile is its uncertainty (the edges'
   // separate σ add in quadrature only for separate fits).
   let uncertainty = method === "fit-joint" ? Math.max(gapSigmaProfile, Math.hypot(sampling / 4, 0.05 * res_V)) : Math.max(Math.hypot(vbSigma, cbSigma), gapSigmaProfile);
+  uncertainty = Math.max(uncertainty, bgSigma);
   if (zeroNotExcluded) {
     // A zero gap is not excluded (Δχ² below its simulated 99% point): the 95% range reaches zero.
     uncertainty = Math.max(uncertainty, gap / 1.959963984540054);

@@ -162,3 +162,20 @@ describe("repeats at one point", () => {
     expect(repeatGroups([declared, declared, declared])).toEqual([[0, 1, 2]]);
   });
 });
+
+describe("tilted floors (a linear background in dI/dV)", () => {
+  // Before the tilt-aware first look, 8 of these 12 were read from a stretch near one end of the floor:
+  // an edge placed hundreds of meV inside the gap with a stated uncertainty of a few meV and no flag.
+  it("a plainly tilted floor is read whole: at least 11 of 12 gaps within 2u or 15 meV (the suite's p90 goal)", () => {
+    const xs = category("tilted", 12);
+    for (const x of xs) expect(x.p.status).toBe("ok");
+    // Open: tilted-10 of this seed (a 62 meV error, u 9 meV, no flag) is still read short.
+    expect(xs.filter((x) => errMeV(x) <= Math.max(2000 * x.p.uncertainty_eV!, 15)).length).toBeGreaterThanOrEqual(11);
+  });
+  it("a tilt with other imperfections: right within 2u or flagged, never 'closed'", () => {
+    for (const x of category("tilted-mix", 12)) {
+      expect(honest(x)).toBe(true);
+      expect(x.p.closed).toBe(false);
+    }
+  });
+});
