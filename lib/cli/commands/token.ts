@@ -3,10 +3,9 @@
  * Run on the server: talks to the database directly and prints a new API token for a member of the
  * lab (by default its first owner). The token is on the last line of the output.
  */
-import fs from "node:fs";
-import path from "node:path";
 import type { Command } from "../io";
 import { CliUsageError } from "../io";
+import { haveDatabase } from "../server-env";
 import { parse } from "../shared";
 
 const usage = `usage: bandcross token create --lab SLUG [--email EMAIL] [--name NAME]
@@ -34,13 +33,7 @@ export const token: Command = {
     }
     const lab = values.lab as string | undefined;
     if (!lab) throw new CliUsageError("--lab is required");
-    const local = path.join(process.cwd(), ".data", "env.local");
-    // Node's own reader (KEY=value, quoted or not); what the environment sets already is kept.
-    if (!process.env.DATABASE_URL && fs.existsSync(local)) process.loadEnvFile(local);
-    if (!process.env.DATABASE_URL) {
-      io.err("bandcross token: DATABASE_URL is not set and .data/env.local was not found (start the stack with npm start first)\n");
-      return 1;
-    }
+    if (!haveDatabase("token", io)) return 1;
     const [{ createTokenForLab }, { systemContext, closeSystemContext }] = await Promise.all([import("../../services/tokens/createTokenForLab"), import("../../services/system")]);
     try {
       const made = await createTokenForLab({ ctx: systemContext("token command"), input: { labSlug: lab, email: values.email as string | undefined, name: values.name as string | undefined } });
