@@ -95,6 +95,7 @@ describe("a group's own lab from the first start", () => {
 
     // The sign-in page of a new installation leads to setup.
     await page.goto(`${URL_}/sign-in`);
+    await shot(page, "sign-in-new-installation");
     await page.click('[data-testid="setup-link"] a');
     await page.waitForURL("**/setup");
     await shot(page, "setup");
@@ -160,6 +161,7 @@ describe("a group's own lab from the first start", () => {
     // A session joining them.
     await page.goto(`${URL_}/labs/okafor-group/sessions`);
     expect(await stepDone(page, "sample")).toBe("true");
+    await shot(page, "first-steps-two-done");
     await page.click('[data-testid="start-step-session"] a');
     await page.waitForSelector('[data-testid="session-form"]');
     await fill(page, "session-form", { label: "first approach", date: "2026-12-01" });

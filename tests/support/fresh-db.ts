@@ -25,6 +25,8 @@ export async function freshDatabase(): Promise<FreshDatabase> {
   const url = new URL(base);
   url.pathname = `/${name}`;
   const pool = new Pool({ connectionString: url.toString(), max: 4 });
+  // Dropping the database ends its connections; a client still closing hears of it, harmlessly.
+  pool.on("error", () => {});
   const db = drizzle(pool, { schema });
   await migrate(db, { migrationsFolder: path.resolve("drizzle") });
   return {

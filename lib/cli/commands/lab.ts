@@ -5,8 +5,7 @@
  */
 import type { Command } from "../io";
 import { CliUsageError } from "../io";
-import { haveDatabase } from "../server-env";
-import { parse } from "../shared";
+import { createOptions, haveDatabase } from "../server-env";
 
 const usage = `usage: bandcross lab create --name NAME --owner-email EMAIL [--slug SLUG] [--json]
                            [--tip-work-function EV] [--tip-work-function-sigma EV]
@@ -47,17 +46,8 @@ export const lab: Command = {
   summary: "create a lab and print its owner's invitation link (run on the server)",
   usage,
   async run(argv, io) {
-    const [verb, ...rest] = argv;
-    if (verb === "--help" || verb === "-h") {
-      io.out(usage + "\n");
-      return 0;
-    }
-    if (verb !== "create") throw new CliUsageError(verb ? `unknown lab action "${verb}"` : "say what to do: lab create");
-    const { values } = parse(rest, OPTIONS);
-    if (values.help) {
-      io.out(usage + "\n");
-      return 0;
-    }
+    const values = createOptions("lab", argv, OPTIONS, usage, io);
+    if (!values) return 0;
     if (!values.name) throw new CliUsageError("--name is required");
     if (!values["owner-email"]) throw new CliUsageError("--owner-email is required");
     if (!haveDatabase("lab", io)) return 1;

@@ -5,8 +5,7 @@
  */
 import type { Command } from "../io";
 import { CliUsageError } from "../io";
-import { haveDatabase } from "../server-env";
-import { parse } from "../shared";
+import { createOptions, haveDatabase } from "../server-env";
 
 const usage = `usage: bandcross token create --lab SLUG [--email EMAIL] [--name NAME]
   --lab SLUG      the lab's slug (the demo lab's is "demo")
@@ -14,23 +13,20 @@ const usage = `usage: bandcross token create --lab SLUG [--email EMAIL] [--name 
   --name NAME     a label shown in lab settings (default "command line")
 Needs DATABASE_URL, or the local stack's .data/env.local (written by npm start).`;
 
+const OPTIONS = {
+  lab: { type: "string" },
+  email: { type: "string" },
+  name: { type: "string" },
+  help: { type: "boolean", short: "h" },
+} as const;
 
 export const token: Command = {
   name: "token",
   summary: "create an API token for a lab member (run on the server)",
   usage,
   async run(argv, io) {
-    const [verb, ...rest] = argv;
-    if (verb === "--help" || verb === "-h") {
-      io.out(usage + "\n");
-      return 0;
-    }
-    if (verb !== "create") throw new CliUsageError(verb ? `unknown token action "${verb}"` : "say what to do: token create");
-    const { values } = parse(rest, { lab: { type: "string" }, email: { type: "string" }, name: { type: "string" }, help: { type: "boolean", short: "h" } });
-    if (values.help) {
-      io.out(usage + "\n");
-      return 0;
-    }
+    const values = createOptions("token", argv, OPTIONS, usage, io);
+    if (!values) return 0;
     const lab = values.lab as string | undefined;
     if (!lab) throw new CliUsageError("--lab is required");
     if (!haveDatabase("token", io)) return 1;
