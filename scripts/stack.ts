@@ -299,14 +299,20 @@ async function bringUpServices(): Promise<Record<string, string>> {
 }
 
 /** Runs a script to its end; its output goes to its log (and the terminal unless `silent`) and is returned. */
-async function oneShot(label: string, file: string, env: Record<string, string | undefined>, silent = quiet): Promise<string> {
+async function oneShot(
+  label: string,
+  file: string,
+  env: Record<string, string | undefined>,
+  silent = quiet,
+): Promise<string> {
   if (!exists(file)) {
     say(`${file} not found yet — skipping ${label}`);
     return "";
   }
   const logFile = path.join(logDir, `${label}.log`);
   // react-server: the demo seed uses the server-only storage and queue modules.
-  const r = await sup.run(label, NODE, ["--conditions=react-server", ...TSX, file], { env, output: silent ? "log" : "tee", logFile });
+  const args = ["--conditions=react-server", ...TSX, file];
+  const r = await sup.run(label, NODE, args, { env, output: silent ? "log" : "tee", logFile });
   await checkpoint();
   if (r.code !== 0) {
     if (silent) console.error(tail(logFile));

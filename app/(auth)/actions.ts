@@ -107,7 +107,8 @@ export async function acceptInviteAction(token: string, _prev: ActionState, form
  * is signed in and lands in the lab, or, where sign-in cannot happen here, is sent to sign in.
  */
 export async function setUpAction(_prev: ActionState, formData: FormData): Promise<ActionState> {
-  const input = Object.fromEntries([...formData.entries()].filter(([k, v]) => typeof v === "string" && !k.startsWith("$")));
+  const fields = [...formData.entries()].filter(([k, v]) => typeof v === "string" && !k.startsWith("$"));
+  const input = Object.fromEntries(fields);
   let slug: string;
   try {
     ({ lab: { slug } } = await setUpLab({ ctx: systemContext("setup"), input }));

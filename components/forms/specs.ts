@@ -90,7 +90,13 @@ export function sessionFields(
 
 /** A lab's name and the work functions its new tips and samples start with (settings, new lab, setup). */
 export function labFields(v: Partial<Record<string, string>> = {}): FieldSpec[] {
-  const wf = (name: string, label: string): FieldSpec => ({ name, label, unit: "eV", type: "number", defaultValue: v[name] });
+  const wf = (name: string, label: string): FieldSpec => ({
+    name,
+    label,
+    unit: "eV",
+    type: "number",
+    defaultValue: v[name],
+  });
   return [
     { name: "name", label: "Lab name", placeholder: "e.g. Surface Physics Group", defaultValue: v.name, wide: true },
     wf("defaultTipWorkFunction_eV", "Tip work function"),

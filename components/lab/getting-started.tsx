@@ -1,5 +1,8 @@
 import Link from "next/link";
 
+const NEXT_STEP = "border-copper/50 bg-copper-soft/40";
+const STEP_LINK = "font-medium underline-offset-2 hover:underline";
+
 export interface StartSteps {
   tip: boolean;
   sample: boolean;
@@ -24,9 +27,30 @@ export interface StartAbilities {
 export function GettingStarted({ lab, steps, may }: { lab: string; steps: StartSteps; may: StartAbilities }) {
   const base = `/labs/${lab}`;
   const items = [
-    { key: "tip", done: steps.tip, may: may.tip, href: `${base}/tips/new`, title: "Add a tip", text: "its material and work function" },
-    { key: "sample", done: steps.sample, may: may.sample, href: `${base}/samples/new`, title: "Add a sample", text: "the film, its substrate and work function" },
-    { key: "session", done: steps.session, may: may.session, href: `${base}/sessions/new`, title: "Create a session", text: "a day at the instrument with that sample and tip" },
+    {
+      key: "tip",
+      done: steps.tip,
+      may: may.tip,
+      href: `${base}/tips/new`,
+      title: "Add a tip",
+      text: "its material and work function",
+    },
+    {
+      key: "sample",
+      done: steps.sample,
+      may: may.sample,
+      href: `${base}/samples/new`,
+      title: "Add a sample",
+      text: "the film, its substrate and work function",
+    },
+    {
+      key: "session",
+      done: steps.session,
+      may: may.session,
+      href: `${base}/sessions/new`,
+      title: "Create a session",
+      text: "a day at the instrument with that sample and tip",
+    },
     {
       key: "upload",
       done: steps.upload,
@@ -38,7 +62,11 @@ export function GettingStarted({ lab, steps, may }: { lab: string; steps: StartS
   ] as const;
   const next = items.find((i) => !i.done)?.key;
   return (
-    <section className="mb-6 rounded-xl border border-line bg-card px-5 py-4" data-testid="getting-started" aria-labelledby="start-title">
+    <section
+      className="mb-6 rounded-xl border border-line bg-card px-5 py-4"
+      data-testid="getting-started"
+      aria-labelledby="start-title"
+    >
       <h2 id="start-title" className="text-sm font-semibold tracking-wide text-ink">
         First steps in this lab
       </h2>
@@ -48,7 +76,7 @@ export function GettingStarted({ lab, steps, may }: { lab: string; steps: StartS
             key={item.key}
             data-testid={`start-step-${item.key}`}
             data-done={item.done ? "true" : "false"}
-            className={`flex gap-3 rounded-lg border px-3 py-2.5 ${item.key === next ? "border-copper/50 bg-copper-soft/40" : "border-line"}`}
+            className={`flex gap-3 rounded-lg border px-3 py-2.5 ${item.key === next ? NEXT_STEP : "border-line"}`}
           >
             <span
               aria-hidden
@@ -61,14 +89,19 @@ export function GettingStarted({ lab, steps, may }: { lab: string; steps: StartS
             </span>
             <span className="min-w-0 text-sm">
               {item.may ? (
-                <Link href={item.href} className={`font-medium underline-offset-2 hover:underline ${item.done ? "text-ink-soft" : "text-copper"}`}>
+                <Link
+                  href={item.href}
+                  className={`${STEP_LINK} ${item.done ? "text-ink-soft" : "text-copper"}`}
+                >
                   {item.title}
                 </Link>
               ) : (
                 <span className="font-medium text-ink-soft">{item.title}</span>
               )}
               <span className="sr-only">{item.done ? " (done)" : " (to do)"}</span>
-              <span className="block text-xs text-muted">{item.may ? item.text : "done by the lab's microscopists or owners"}</span>
+              <span className="block text-xs text-muted">
+                {item.may ? item.text : "done by the lab's microscopists or owners"}
+              </span>
             </span>
           </li>
         ))}

@@ -18,6 +18,7 @@ const ROLE_LABEL: Record<MemberRole, string> = {
 const NAV_LINK = "flex items-center gap-2 rounded-md px-3 py-2 text-sm";
 const NAV_ACTIVE = "bg-white/10 font-medium text-white";
 const NAV_IDLE = "text-white/70 hover:bg-white/5 hover:text-white";
+const NAV_CURRENT_LAB = "font-medium text-white";
 
 export function LabNav({
   lab,
@@ -104,7 +105,7 @@ export function LabNav({
                 {labs.map((l) => (
                   <li key={l.slug}>
                     <Link
-                      className={`block truncate ${l.slug === lab.slug ? "font-medium text-white" : "hover:text-white"}`}
+                      className={`block truncate ${l.slug === lab.slug ? NAV_CURRENT_LAB : "hover:text-white"}`}
                       href={`/labs/${l.slug}`}
                       aria-current={l.slug === lab.slug ? "page" : undefined}
                       title={l.name}

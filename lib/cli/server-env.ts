@@ -1,4 +1,7 @@
-/** For the commands that run on the server (`token`, `lab`): the database address, from the environment or the local stack. */
+/**
+ * For the commands that run on the server (`token`, `lab`): the database address, from the
+ * environment or the local stack, and their one action's options.
+ */
 import fs from "node:fs";
 import path from "node:path";
 import type { ParseArgsConfig } from "node:util";
@@ -14,7 +17,10 @@ export function haveDatabase(command: string, io: Io): boolean {
   // Node's own reader (KEY=value, quoted or not).
   if (!process.env.DATABASE_URL && fs.existsSync(local)) process.loadEnvFile(local);
   if (process.env.DATABASE_URL) return true;
-  io.err(`bandcross ${command}: DATABASE_URL is not set and .data/env.local was not found (start the stack with npm start first)\n`);
+  io.err(
+    `bandcross ${command}: DATABASE_URL is not set and .data/env.local was not found ` +
+      "(start the stack with npm start first)\n",
+  );
   return false;
 }
 
@@ -31,7 +37,8 @@ export function createOptions(
 ): ParsedArgs["values"] | null {
   const [verb, ...rest] = argv;
   if (verb !== "--help" && verb !== "-h") {
-    if (verb !== "create") throw new CliUsageError(verb ? `unknown ${command} action "${verb}"` : `say what to do: ${command} create`);
+    if (verb !== "create")
+      throw new CliUsageError(verb ? `unknown ${command} action "${verb}"` : `say what to do: ${command} create`);
     const { values } = parse(rest, options);
     if (!values.help) return values;
   }

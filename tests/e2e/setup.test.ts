@@ -28,7 +28,9 @@ const env = () => ({ ...process.env, DATABASE_URL: fresh.url, APP_URL: URL_, AUT
 /** The start log's line, from the script `npm start` runs (scripts/setup-code.ts). */
 function setupCodeFromScript(): Promise<string> {
   return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "scripts/setup-code.ts"], { env: env() });
+    const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "scripts/setup-code.ts"], {
+      env: env(),
+    });
     let out = "";
     child.stdout.on("data", (d: Buffer) => (out += d.toString()));
     child.stderr.on("data", (d: Buffer) => (out += d.toString()));
@@ -83,7 +85,8 @@ afterAll(async () => {
 });
 
 async function fill(page: Page, form: string, values: Record<string, string>) {
-  for (const [name, value] of Object.entries(values)) await page.fill(`[data-testid="${form}"] [name="${name}"]`, value);
+  for (const [name, value] of Object.entries(values))
+    await page.fill(`[data-testid="${form}"] [name="${name}"]`, value);
 }
 
 const stepDone = (page: Page, step: string) => page.getAttribute(`[data-testid="start-step-${step}"]`, "data-done");

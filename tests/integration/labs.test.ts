@@ -52,14 +52,22 @@ describe("a member starts a lab of their own", () => {
     expect([lab.defaultTipWorkFunctionEv, lab.defaultTipWorkFunctionSigmaEv]).toEqual([5.3, 0.2]);
     expect([lab.defaultSampleWorkFunctionEv, lab.defaultSampleWorkFunctionSigmaEv]).toEqual([4.3, 0.1]);
     const mine = await listMembershipsOfUser({ db: db(), userId: home.people.analyst.id });
-    expect(mine.map((l) => [l.slug, l.role]).sort()).toEqual([[home.lab.slug, "analyst"], [slug, "owner"]].sort());
+    expect(mine.map((l) => [l.slug, l.role]).sort()).toEqual(
+      [
+        [home.lab.slug, "analyst"],
+        [slug, "owner"],
+      ].sort(),
+    );
     const audit = await db().select().from(auditEvents).where(eq(auditEvents.labId, made.id));
     expect(audit.map((a) => [a.action, a.actorId])).toEqual([["lab.create", home.people.analyst.id]]);
   });
 
   it("makes a slug from the name when none is given", async () => {
     const t = tag();
-    const made = await createLab({ ctx: home.ctx("collaborator"), input: newLab("", { name: `Ångström Probes ${t}` }) });
+    const made = await createLab({
+      ctx: home.ctx("collaborator"),
+      input: newLab("", { name: `Ångström Probes ${t}` }),
+    });
     expect(made.slug).toBe(`angstrom-probes-${t}`);
   });
 
@@ -77,7 +85,9 @@ describe("a member starts a lab of their own", () => {
     };
     expect(reserved.fieldErrors?.slug?.[0]).toMatch(/kept for the demo lab/);
     // Below 2 eV is no metal's or film's work function (CRC Handbook; the schema's bound).
-    const low = (await rejection(createLab({ ctx: owner, input: newLab(`x-${tag()}`, { name, defaultTipWorkFunction_eV: "1.2" }) }))) as {
+    const low = (await rejection(
+      createLab({ ctx: owner, input: newLab(`x-${tag()}`, { name, defaultTipWorkFunction_eV: "1.2" }) }),
+    )) as {
       fieldErrors?: Record<string, string[]>;
     };
     expect(low.fieldErrors?.defaultTipWorkFunction_eV?.[0]).toMatch(/below 2 eV is not physical/);
@@ -94,8 +104,14 @@ describe("a lab made on the server for its owner", () => {
     const secret = new URL(made.invitation.link).pathname.split("/").pop()!;
     const [invite] = await db().select().from(invitations).where(eq(invitations.labId, made.lab.id));
     expect(invite.tokenHash).toBe(sha256Hex(secret)); // only the hash is kept
-    expect(await describeInvitation({ ctx: system(), input: { token: secret } })).toMatchObject({ role: "owner", email });
-    await acceptInvitation({ ctx: system(), input: { token: secret, name: "Operator's Owner", password: "a-long-password" } });
+    expect(await describeInvitation({ ctx: system(), input: { token: secret } })).toMatchObject({
+      role: "owner",
+      email,
+    });
+    await acceptInvitation({
+      ctx: system(),
+      input: { token: secret, name: "Operator's Owner", password: "a-long-password" },
+    });
     const roles = await db()
       .select({ role: memberships.role })
       .from(memberships)
@@ -105,7 +121,9 @@ describe("a lab made on the server for its owner", () => {
 
   it("refuses a bad e-mail and stores neither lab nor invitation", async () => {
     const slug = `bad-${tag()}`;
-    const e = (await rejection(createLabForOwner({ ctx: system(), input: { ...newLab(slug), ownerEmail: "nobody" } }))) as {
+    const e = (await rejection(
+      createLabForOwner({ ctx: system(), input: { ...newLab(slug), ownerEmail: "nobody" } }),
+    )) as {
       fieldErrors?: Record<string, string[]>;
     };
     expect(e.fieldErrors?.ownerEmail?.[0]).toBe("Enter the owner's e-mail address.");
@@ -129,8 +147,16 @@ describe("a new lab's first steps", () => {
     });
     expect(await steps()).toMatchObject({ session: true, upload: false, uploadSessionId: session.id });
     // A collaborator sees the same ticks but gets no session to upload into.
-    expect(await getStartSteps({ ctx: fresh.ctx("collaborator") })).toMatchObject({ session: true, uploadSessionId: null });
-    await uploadFile(owner, session.id, "first.csv", bytesOf(spectrumToCsv(makeSpectrum({ vbEdge_V: -0.2, cbEdge_V: 0.2, seed: 3 }))));
+    expect(await getStartSteps({ ctx: fresh.ctx("collaborator") })).toMatchObject({
+      session: true,
+      uploadSessionId: null,
+    });
+    await uploadFile(
+      owner,
+      session.id,
+      "first.csv",
+      bytesOf(spectrumToCsv(makeSpectrum({ vbEdge_V: -0.2, cbEdge_V: 0.2, seed: 3 }))),
+    );
     expect(await steps()).toMatchObject({ upload: true, allDone: true });
   });
 });
@@ -159,14 +185,28 @@ describe("bandcross lab create", () => {
     expect(out.invitation).toMatchObject({ email, role: "owner" });
     expect(new Date(out.invitation.expiresAt).getTime()).toBeGreaterThan(Date.now());
     const secret = String(out.invitation.link).split("/invite/")[1];
-    expect(await describeInvitation({ ctx: system(), input: { token: secret } })).toMatchObject({ role: "owner", email });
+    expect(await describeInvitation({ ctx: system(), input: { token: secret } })).toMatchObject({
+      role: "owner",
+      email,
+    });
     const [lab] = await db().select().from(labs).where(eq(labs.slug, slug));
     expect([lab.defaultTipWorkFunctionEv, lab.defaultSampleWorkFunctionEv]).toEqual([4.5, 4.5]);
   });
 
   it("prints the link alone on the last line of its output, and takes the lab's work functions", async () => {
     const slug = `cli-${tag()}`;
-    const r = await cli(["lab", "create", "--name", "Text", "--slug", slug, "--owner-email", "t@group.example", "--tip-work-function", "4.8"]);
+    const r = await cli([
+      "lab",
+      "create",
+      "--name",
+      "Text",
+      "--slug",
+      slug,
+      "--owner-email",
+      "t@group.example",
+      "--tip-work-function",
+      "4.8",
+    ]);
     expect(r.code).toBe(0);
     expect(r.stdout.trim()).toMatch(new RegExp(`^${process.env.APP_URL}/invite/bxi_[\\w-]+$`));
     expect(r.stderr).toMatch(/t@group\.example becomes its owner/);
@@ -176,7 +216,18 @@ describe("bandcross lab create", () => {
 
   it("names the option at fault and creates nothing; a missing option is a usage error", async () => {
     const slug = `cli-${tag()}`;
-    const r = await cli(["lab", "create", "--name", "Bad", "--slug", slug, "--owner-email", "b@group.example", "--tip-work-function", "12"]);
+    const r = await cli([
+      "lab",
+      "create",
+      "--name",
+      "Bad",
+      "--slug",
+      slug,
+      "--owner-email",
+      "b@group.example",
+      "--tip-work-function",
+      "12",
+    ]);
     expect(r.code).toBe(1);
     expect(r.stderr).toMatch(/--tip-work-function: A work function above 7 eV is not physical/);
     expect(r.stdout).toBe("");

@@ -46,8 +46,19 @@ const setupBody = (code: string, over: Record<string, unknown> = {}) => ({
 async function counts(f: FreshDatabase) {
   const n = async (t: typeof labs | typeof users | typeof memberships | typeof auditEvents) =>
     (await f.db.select({ n: sql<number>`count(*)::int` }).from(t))[0].n;
-  const used = (await f.db.select({ n: sql<number>`count(*)::int` }).from(setupCodes).where(sql`used_at is not null`))[0].n;
-  return { labs: await n(labs), users: await n(users), memberships: await n(memberships), audit: await n(auditEvents), used };
+  const used = (
+    await f.db
+      .select({ n: sql<number>`count(*)::int` })
+      .from(setupCodes)
+      .where(sql`used_at is not null`)
+  )[0].n;
+  return {
+    labs: await n(labs),
+    users: await n(users),
+    memberships: await n(memberships),
+    audit: await n(auditEvents),
+    used,
+  };
 }
 
 describe("setup of a group's own lab", () => {
@@ -116,7 +127,10 @@ describe("setup of a group's own lab", () => {
     const [owner] = await first.db.select().from(users).where(eq(users.email, "adaeze@okafor-lab.example"));
     expect(owner.name).toBe("Adaeze Okafor");
     expect(await verifyPassword("tunnelling-2026", owner.passwordHash)).toBe(true);
-    const roles = await first.db.select({ role: memberships.role }).from(memberships).where(eq(memberships.labId, lab.id));
+    const roles = await first.db
+      .select({ role: memberships.role })
+      .from(memberships)
+      .where(eq(memberships.labId, lab.id));
     expect(roles).toEqual([{ role: "owner" }]);
     const audit = await first.db.select().from(auditEvents).where(eq(auditEvents.labId, lab.id));
     expect(audit.map((a) => [a.action, a.actorId])).toEqual([["lab.setup", owner.id]]);

@@ -22,11 +22,17 @@ export default async function SetupPage() {
       <p className="text-xs font-semibold uppercase tracking-[0.14em] text-copper">First start</p>
       <h1 className="mt-1 text-2xl font-semibold tracking-tight">Set up your group's lab</h1>
       <p className="mt-2 text-sm text-ink-soft">
-        Name the lab, give the work functions its new tips and samples start with, and create its first owner: you.
-        Then invite your group from the lab's settings.
+        Name the lab, give the work functions its new tips and samples start with, and create its first owner: you. Then
+        invite your group from the lab's settings.
       </p>
       <div className="mt-8">
-        <EntityForm action={setUpAction} schema="setup" submitLabel="Create the lab" testId="setup-form" fields={setupFields(newLabDefaultValues())} />
+        <EntityForm
+          action={setUpAction}
+          schema="setup"
+          submitLabel="Create the lab"
+          testId="setup-form"
+          fields={setupFields(newLabDefaultValues())}
+        />
       </div>
     </div>
   );

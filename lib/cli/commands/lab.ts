@@ -62,7 +62,8 @@ export const lab: Command = {
       ownerEmail: values["owner-email"],
       slug: values.slug,
       defaultTipWorkFunction_eV: values["tip-work-function"] ?? NEW_LAB_DEFAULTS.defaultTipWorkFunction_eV,
-      defaultTipWorkFunctionSigma_eV: values["tip-work-function-sigma"] ?? NEW_LAB_DEFAULTS.defaultTipWorkFunctionSigma_eV,
+      defaultTipWorkFunctionSigma_eV:
+        values["tip-work-function-sigma"] ?? NEW_LAB_DEFAULTS.defaultTipWorkFunctionSigma_eV,
       defaultSampleWorkFunction_eV: values["sample-work-function"] ?? NEW_LAB_DEFAULTS.defaultSampleWorkFunction_eV,
       defaultSampleWorkFunctionSigma_eV:
         values["sample-work-function-sigma"] ?? NEW_LAB_DEFAULTS.defaultSampleWorkFunctionSigma_eV,

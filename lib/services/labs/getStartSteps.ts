@@ -21,7 +21,8 @@ export async function getStartSteps({ ctx }: { ctx: Ctx }) {
       sample: exists(samples, labId),
       session: exists(measurementSessions, labId),
       // A file counts once its bytes arrived (a registered upload never sent stays `pending`).
-      upload: sql<boolean>`exists (select 1 from ${uploads} where ${uploads.labId} = ${labId} and ${uploads.status} <> 'pending')`,
+      upload: sql<boolean>`exists (select 1 from ${uploads}
+        where ${uploads.labId} = ${labId} and ${uploads.status} <> 'pending')`,
     })
     .from(sql`(select 1) as one`);
   let uploadSessionId: string | null = null;

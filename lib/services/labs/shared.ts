@@ -13,7 +13,10 @@ import { DEMO_LAB_SLUG, slugFromName, type NewLabInput } from "@/lib/schemas/lab
  * no other lab may take). Until then `/setup` is open.
  */
 export async function ownLabExists(db: DbOrTx): Promise<boolean> {
-  const [row] = await db.select({ n: sql<number>`count(*)::int` }).from(labs).where(ne(labs.slug, DEMO_LAB_SLUG));
+  const [row] = await db
+    .select({ n: sql<number>`count(*)::int` })
+    .from(labs)
+    .where(ne(labs.slug, DEMO_LAB_SLUG));
   return row.n > 0;
 }
 
@@ -46,7 +49,11 @@ export async function insertLab(db: DbOrTx, data: NewLabInput, ownerId: string |
 }
 
 /** The new lab's owner as an actor, so its creation is audited in the new lab itself. */
-export function ownerCtx(db: DbOrTx, lab: { id: string; slug: string; name: string }, user: Omit<Actor, "labId" | "labSlug" | "labName" | "role">): Ctx {
+export function ownerCtx(
+  db: DbOrTx,
+  lab: { id: string; slug: string; name: string },
+  user: Omit<Actor, "labId" | "labSlug" | "labName" | "role">,
+): Ctx {
   return { db, actor: { ...user, labId: lab.id, labSlug: lab.slug, labName: lab.name, role: "owner" } };
 }
 

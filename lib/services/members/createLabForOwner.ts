@@ -14,7 +14,12 @@ export async function createLabForOwner({ ctx, input }: { ctx: SystemCtx; input:
   const data = parseInput(labForOwnerInput, input);
   return ctx.db.transaction(async (tx) => {
     const lab = await insertLab(tx, data, null);
-    const { invite, link } = await insertInvitation(tx, { labId: lab.id, email: data.ownerEmail, role: "owner", invitedBy: null });
+    const { invite, link } = await insertInvitation(tx, {
+      labId: lab.id,
+      email: data.ownerEmail,
+      role: "owner",
+      invitedBy: null,
+    });
     return {
       lab: { id: lab.id, slug: lab.slug, name: lab.name },
       invitation: { email: invite.email, role: invite.role, expiresAt: invite.expiresAt, link },

@@ -45,7 +45,14 @@ describe("a lab's address", () => {
 
 describe("the setup form", () => {
   it("needs the code, an owner, an e-mail and a password of 10 characters or more", () => {
-    const r = setupInput.safeParse({ ...NEW_LAB_DEFAULTS, name: "Lab", code: "", ownerName: "", email: "x", password: "short" });
+    const r = setupInput.safeParse({
+      ...NEW_LAB_DEFAULTS,
+      name: "Lab",
+      code: "",
+      ownerName: "",
+      email: "x",
+      password: "short",
+    });
     expect(r.success).toBe(false);
     const fields = new Set(r.error!.issues.map((i) => i.path.join(".")));
     expect([...fields].sort()).toEqual(["code", "email", "ownerName", "password"]);
