@@ -298,19 +298,27 @@ async function bringUpServices(): Promise<Record<string, string>> {
   return env;
 }
 
-async function oneShot(label: string, file: string, env: Record<string, string | undefined>) {
+/** Runs a script to its end; its output goes to its log (and the terminal unless `silent`) and is returned. */
+async function oneShot(
+  label: string,
+  file: string,
+  env: Record<string, string | undefined>,
+  silent = quiet,
+): Promise<string> {
   if (!exists(file)) {
     say(`${file} not found yet — skipping ${label}`);
-    return;
+    return "";
   }
   const logFile = path.join(logDir, `${label}.log`);
   // react-server: the demo seed uses the server-only storage and queue modules.
-  const r = await sup.run(label, NODE, ["--conditions=react-server", ...TSX, file], { env, output: quiet ? "log" : "tee", logFile });
+  const args = ["--conditions=react-server", ...TSX, file];
+  const r = await sup.run(label, NODE, args, { env, output: silent ? "log" : "tee", logFile });
   await checkpoint();
   if (r.code !== 0) {
-    if (quiet) console.error(tail(logFile));
+    if (silent) console.error(tail(logFile));
     throw new Error(`${label} (${file}) failed with exit code ${r.code}; see ${rel(logFile)}`);
   }
+  return r.output;
 }
 
 async function build(env: Record<string, string | undefined>): Promise<boolean> {
@@ -397,15 +405,31 @@ function demoHint(): string {
 
 // ---------------------------------------------------------------------------------------------------
 
+/** Where a new group starts: set up its own lab at /setup with the code, while it has none. */
+function setupHint(appUrl: string, code: string): string {
+  return [
+    "Set up your group's own lab (first owner, lab defaults):",
+    `    ${appUrl}/setup   setup code ${code}`,
+    "    (one use; every start prints a new code until a lab of your own exists)",
+    "",
+  ].join("\n");
+}
+
 async function startMode() {
   await reclaim();
+  // BANDCROSS_DEMO=0: no demo lab (a group's own installation); by default it is seeded once.
+  const demo = process.env.BANDCROSS_DEMO !== "0";
+  let setupCode: string | undefined;
   say(`data in ${rel(cfg.dataDir)}/`);
   let env: Record<string, string>;
   try {
     env = await bringUpServices();
     const childEnv = { ...process.env, ...env };
     await oneShot("migrate", "scripts/migrate.ts", childEnv);
-    await oneShot("seed", "scripts/seed.ts", childEnv);
+    if (demo) await oneShot("seed", "scripts/seed.ts", childEnv);
+    else say("BANDCROSS_DEMO=0 — starting without the demo lab");
+    // While no lab of the group's own exists, a fresh one-time code for /setup (printed below).
+    setupCode = /^setup code: (\S+)/m.exec(await oneShot("setup-code", "scripts/setup-code.ts", childEnv, true))?.[1];
     const built = await build(childEnv);
     await checkpoint();
     if (!built) return shutdown(1);
@@ -424,8 +448,8 @@ async function startMode() {
       "",
       `Bandcross is up (${secs()}):  ${env.APP_URL}`,
       "",
-      demoHint(),
-      "",
+      ...(demo ? [demoHint(), ""] : []),
+      ...(setupCode ? [setupHint(env.APP_URL!, setupCode)] : []),
       `  storage fake  ${env.S3_ENDPOINT}/${BUCKET}   files in ${d}/s3`,
       `  mail fake     ${env.RESEND_BASE_URL}/emails   outbox ${d}/mail`,
       `  PostgreSQL    127.0.0.1:${cfg.ports.pg}   psql: set -a; . ${d}/env.local; set +a; psql "$DATABASE_URL"`,

@@ -8,6 +8,7 @@ import { checkRequestHost, untrustedHostMessage } from "@/lib/auth/here";
 import type { ActionState } from "@/lib/actions/types";
 import { acceptInvitation } from "@/lib/services/members/acceptInvitation";
 import { isServiceError } from "@/lib/base/errors";
+import { setUpLab } from "@/lib/services/labs/setUpLab";
 import { systemContext } from "@/lib/services/system";
 
 const signInInput = z.object({
@@ -98,5 +99,30 @@ export async function acceptInviteAction(token: string, _prev: ActionState, form
     if (isRedirect(e)) throw e;
     // An existing account keeps its own password: send them to sign in with it.
     return { ok: true, message: "You have joined the lab. Sign in with your existing password." };
+  }
+}
+
+/**
+ * `/setup`: the group's first lab and owner (the setup code is the credential); then the new owner
+ * is signed in and lands in the lab, or, where sign-in cannot happen here, is sent to sign in.
+ */
+export async function setUpAction(_prev: ActionState, formData: FormData): Promise<ActionState> {
+  const fields = [...formData.entries()].filter(([k, v]) => typeof v === "string" && !k.startsWith("$"));
+  const input = Object.fromEntries(fields);
+  let slug: string;
+  try {
+    ({ lab: { slug } } = await setUpLab({ ctx: systemContext("setup"), input }));
+  } catch (e) {
+    if (!isServiceError(e)) throw e;
+    const { password: _typed, ...values } = input as Record<string, string>;
+    return { ok: false, message: e.message, fieldErrors: e.fieldErrors, values };
+  }
+  const host = await checkRequestHost();
+  if (!host.trusted) redirect("/sign-in");
+  try {
+    return await signInHere(String(input.email), String(input.password), `/labs/${slug}`);
+  } catch (e) {
+    if (isRedirect(e)) throw e;
+    redirect(`/sign-in?next=/labs/${slug}`);
   }
 }

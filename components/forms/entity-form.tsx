@@ -12,8 +12,10 @@ import {
   flaggedInFitInput,
   inviteInput,
   labDefaultsInput,
+  newLabInput,
   sampleInput,
   sessionInput,
+  setupInput,
   tipInput,
   tokenInput,
 } from "@/lib/schemas/lab";
@@ -25,6 +27,8 @@ const SCHEMAS = {
   session: sessionInput,
   invite: inviteInput,
   labDefaults: labDefaultsInput,
+  newLab: newLabInput,
+  setup: setupInput,
   flaggedInFit: flaggedInFitInput,
   token: tokenInput,
 } satisfies Record<string, z.ZodType>;
@@ -32,7 +36,7 @@ const SCHEMAS = {
 export type FieldSpec = {
   name: string;
   label: string;
-  type?: "text" | "number" | "date" | "email" | "select" | "textarea";
+  type?: "text" | "number" | "date" | "email" | "password" | "select" | "textarea";
   unit?: string;
   hint?: string;
   step?: string;
@@ -127,6 +131,7 @@ export function EntityForm({
                     defaultValue={value}
                     error={err}
                     placeholder={f.placeholder}
+                    autoComplete={f.type === "password" ? "new-password" : undefined}
                     required={f.required}
                     className={f.type === "number" ? "num" : ""}
                   />

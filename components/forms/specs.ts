@@ -1,3 +1,4 @@
+import { NEW_LAB_DEFAULTS } from "@/lib/schemas/lab";
 import type { FieldSpec } from "./entity-form";
 
 /** Field layouts of the lab's forms; the values' rules live in lib/schemas/lab.ts. */
@@ -85,4 +86,58 @@ export function sessionFields(
     },
     { name: "notes", label: "Notes", type: "textarea", defaultValue: v.notes },
   ];
+}
+
+/** A lab's name and the work functions its new tips and samples start with (settings, new lab, setup). */
+export function labFields(v: Partial<Record<string, string>> = {}): FieldSpec[] {
+  const wf = (name: string, label: string): FieldSpec => ({
+    name,
+    label,
+    unit: "eV",
+    type: "number",
+    defaultValue: v[name],
+  });
+  return [
+    { name: "name", label: "Lab name", placeholder: "e.g. Surface Physics Group", defaultValue: v.name, wide: true },
+    wf("defaultTipWorkFunction_eV", "Tip work function"),
+    wf("defaultTipWorkFunctionSigma_eV", "Its uncertainty (1σ)"),
+    wf("defaultSampleWorkFunction_eV", "Sample work function"),
+    wf("defaultSampleWorkFunctionSigma_eV", "Its uncertainty (1σ)"),
+  ];
+}
+
+/** A new lab: its fields and its address. */
+export function newLabFields(v: Partial<Record<string, string>> = {}): FieldSpec[] {
+  const [name, ...defaults] = labFields(v);
+  const slug: FieldSpec = {
+    name: "slug",
+    label: "Address",
+    placeholder: "e.g. surface-physics",
+    hint: "The lab's pages live at /labs/<address>: lowercase letters, digits, hyphens. Blank: made from the name.",
+    defaultValue: v.slug,
+    wide: true,
+  };
+  return [name, slug, ...defaults];
+}
+
+/** `/setup`: the group's first lab, its first owner, and the setup code of the start log. */
+export function setupFields(v: Partial<Record<string, string>> = {}): FieldSpec[] {
+  return [
+    {
+      name: "code",
+      label: "Setup code",
+      placeholder: "XXXX-XXXX-XXXX-XXXX",
+      hint: "Printed in the start log of the server (npm start); it works once.",
+      wide: true,
+    },
+    ...newLabFields(v),
+    { name: "ownerName", label: "Your name", placeholder: "e.g. Adaeze Okafor" },
+    { name: "email", label: "Your e-mail", type: "email", placeholder: "you@your-group.example" },
+    { name: "password", label: "Choose a password", hint: "At least 10 characters.", type: "password" },
+  ];
+}
+
+/** What a new lab's work-function fields start from (NEW_LAB_DEFAULTS), as form text. */
+export function newLabDefaultValues(): Record<string, string> {
+  return Object.fromEntries(Object.entries(NEW_LAB_DEFAULTS).map(([k, v]) => [k, String(v)]));
 }

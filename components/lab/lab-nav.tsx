@@ -18,18 +18,20 @@ const ROLE_LABEL: Record<MemberRole, string> = {
 const NAV_LINK = "flex items-center gap-2 rounded-md px-3 py-2 text-sm";
 const NAV_ACTIVE = "bg-white/10 font-medium text-white";
 const NAV_IDLE = "text-white/70 hover:bg-white/5 hover:text-white";
+const NAV_CURRENT_LAB = "font-medium text-white";
 
 export function LabNav({
   lab,
   user,
-  otherLabs,
+  labs,
   canConfigure,
   signOut,
   unreadCount = 0,
 }: {
   lab: { slug: string; name: string };
   user: { name: string; email: string; role: MemberRole };
-  otherLabs: { slug: string; name: string }[];
+  /** Every lab of the person, this one included (the switcher lists them all). */
+  labs: { slug: string; name: string }[];
   canConfigure: boolean;
   signOut: () => Promise<void>;
   /** Crossing alerts: unread notifications of this person in this lab, shown as a badge on "Alerts". */
@@ -97,20 +99,29 @@ export function LabNav({
             <p className="truncate text-sm font-medium" title={lab.name}>
               {lab.name}
             </p>
-            {otherLabs.length ? (
-              <details className="mt-1 text-xs text-white/70">
-                <summary className="cursor-pointer">Switch lab</summary>
-                <ul className="mt-1 space-y-1">
-                  {otherLabs.map((l) => (
-                    <li key={l.slug}>
-                      <Link className="hover:text-white" href={`/labs/${l.slug}`}>
-                        {l.name}
-                      </Link>
-                    </li>
-                  ))}
-                </ul>
-              </details>
-            ) : null}
+            <details className="mt-1 text-xs text-white/70" data-testid="lab-switcher">
+              <summary className="cursor-pointer">{labs.length > 1 ? "Switch lab" : "Labs"}</summary>
+              <ul className="mt-1.5 space-y-1">
+                {labs.map((l) => (
+                  <li key={l.slug}>
+                    <Link
+                      className={`block truncate ${l.slug === lab.slug ? NAV_CURRENT_LAB : "hover:text-white"}`}
+                      href={`/labs/${l.slug}`}
+                      aria-current={l.slug === lab.slug ? "page" : undefined}
+                      title={l.name}
+                    >
+                      {l.slug === lab.slug ? "✓ " : ""}
+                      {l.name}
+                    </Link>
+                  </li>
+                ))}
+                <li className="border-t border-white/10 pt-1.5">
+                  <Link className="text-copper-soft hover:text-white" href={`${base}/new-lab`}>
+                    + New lab
+                  </Link>
+                </li>
+              </ul>
+            </details>
           </div>
           <nav aria-label="Lab">
             <ul className="space-y-0.5">

@@ -102,3 +102,20 @@ export const signInThrottle = pgTable("sign_in_throttle", {
   windowStart: timestamp("window_start", { withTimezone: true }).notNull(),
   failures: integer("failures").notNull().default(0),
 });
+
+/**
+ * One-time codes that guard `/setup`, the creation of a group's first own lab (one that is not the
+ * demo lab, slug `demo`). Each start of the local stack issues a fresh code while no own lab exists
+ * and drops the unused older ones; only the SHA-256 of a code is kept. A used code records its lab.
+ */
+export const setupCodes = pgTable(
+  "setup_codes",
+  {
+    id: id(),
+    codeHash: text("code_hash").notNull(),
+    usedAt: timestamp("used_at", { withTimezone: true }),
+    labId: uuid("lab_id").references(() => labs.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("setup_codes_hash_unique").on(t.codeHash)],
+);

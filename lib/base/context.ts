@@ -35,9 +35,9 @@ export interface Faults {
 
 /**
  * Work no signed-in person asks for at that moment: the worker's jobs, links that are their own
- * credential (an invitation, an unsubscribe link), sign-in itself, the seed and the command line's
- * `token create`. `task` names it for logs and audit; there is no actor, so such a verb checks
- * what its own credential allows (the job's row, the link's token).
+ * credential (an invitation, an unsubscribe link), sign-in itself, the seed, the command line's
+ * `token create` and `lab create`, and `/setup` (its code). `task` names it for logs and audit; there
+ * is no actor, so such a verb checks what its own credential allows (the job's row, the link's token).
  */
 export interface SystemCtx extends DbCtx {
   task: string;

@@ -16,6 +16,8 @@ export const PERMISSIONS = {
   "members:manage": ["owner"],
   "tokens:manage": ["owner"],
   "lab:configure": ["owner"],
+  /** A new lab of one's own (its owner from the start): changes nothing in the lab one acts from. */
+  "lab:create": ["owner", "microscopist", "analyst", "collaborator"],
 } as const satisfies Record<string, readonly MemberRole[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

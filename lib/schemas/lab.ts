@@ -82,12 +82,73 @@ export const inviteInput = z.object({
   role: memberRoleSchema,
 });
 
+export const passwordSchema = z
+  .string()
+  .min(10, "Use at least 10 characters.")
+  .max(200, "At most 200 characters.");
+
 export const labDefaultsInput = z.object({
   name: z.string().trim().min(1, "Give the lab a name.").max(120),
   defaultTipWorkFunction_eV: workFunction,
   defaultTipWorkFunctionSigma_eV: workFunctionSigma,
   defaultSampleWorkFunction_eV: workFunction,
   defaultSampleWorkFunctionSigma_eV: workFunctionSigma,
+});
+
+/** The demo lab's slug: no other lab may take it, so "an own lab" is exactly a lab with another slug. */
+export const DEMO_LAB_SLUG = "demo";
+
+/** A lab's address in `/labs/<slug>`: 3–40 lowercase letters, digits and single hyphens, from a letter. */
+export const labSlug = z
+  .string()
+  .trim()
+  .toLowerCase()
+  .min(3, "Use at least 3 characters.")
+  .max(40, "At most 40 characters.")
+  .regex(/^[a-z][a-z0-9]*(-[a-z0-9]+)*$/, "Use lowercase letters, digits and single hyphens, starting with a letter.")
+  .refine((s) => s !== DEMO_LAB_SLUG, `"${DEMO_LAB_SLUG}" is kept for the demo lab; choose another.`);
+
+/** A slug made from a lab's name (accents dropped, other characters to hyphens), for forms that leave it blank. */
+export function slugFromName(name: string): string {
+  const s = name
+    .normalize("NFKD")
+    .replace(/[\u0300-\u036f]/g, "")
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, "-")
+    .replace(/^[^a-z]+|-+$/g, "")
+    .slice(0, 40)
+    .replace(/-+$/, "");
+  return s.length >= 3 && s !== DEMO_LAB_SLUG ? s : `lab-${s}`.replace(/-+$/, "").padEnd(3, "0");
+}
+
+/**
+ * What a new lab's forms start from: the `labs` table's column defaults (db/schema/auth.ts), 4.5 eV
+ * for tip and sample alike (polycrystalline W is 4.32–4.55 eV, CRC Handbook, from memory) with 0.1 eV.
+ */
+export const NEW_LAB_DEFAULTS = {
+  defaultTipWorkFunction_eV: 4.5,
+  defaultTipWorkFunctionSigma_eV: 0.1,
+  defaultSampleWorkFunction_eV: 4.5,
+  defaultSampleWorkFunctionSigma_eV: 0.1,
+} as const;
+
+/** A new lab: its name, its slug (blank: made from the name) and the defaults of its tips and samples. */
+export const newLabInput = labDefaultsInput.extend({
+  slug: z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? undefined : v), labSlug.optional()),
+});
+export type NewLabInput = z.infer<typeof newLabInput>;
+
+/** `/setup`: the group's first own lab and its first owner, guarded by the setup code of the start log. */
+export const setupInput = newLabInput.extend({
+  code: z.string().trim().min(1, "Enter the setup code from the start log."),
+  ownerName: z.string().trim().min(1, "Tell us your name.").max(120, "At most 120 characters."),
+  email: z.string().trim().toLowerCase().email("Enter an e-mail address."),
+  password: passwordSchema,
+});
+
+/** `bandcross lab create`: a lab made on the server for an owner who is invited by a link. */
+export const labForOwnerInput = newLabInput.extend({
+  ownerEmail: z.string().trim().toLowerCase().email("Enter the owner's e-mail address."),
 });
 
 /** The lab's setting for spectra whose automatic pick carries a quality flag, in the critical-field fit. */
@@ -103,11 +164,6 @@ export const tokenInput = z.object({
     .optional()
     .or(z.literal("").transform(() => undefined)),
 });
-
-export const passwordSchema = z
-  .string()
-  .min(10, "Use at least 10 characters.")
-  .max(200, "At most 200 characters.");
 
 export const acceptInviteInput = z.object({
   token: z.string().min(20),

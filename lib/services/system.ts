@@ -4,8 +4,9 @@ import type { Faults, SystemCtx } from "@/lib/base/context";
 
 /**
  * The context of work no signed-in person asks for (lib/base/context.ts `SystemCtx`): the worker's
- * jobs, links that are their own credential, the seed, the command line's `token create`. Callers
- * above the services get their database through this, never from `db/client` themselves.
+ * jobs, links that are their own credential, the seed, the command line's `token create` and
+ * `lab create`, `/setup`. Callers above the services get their database through this, never from
+ * `db/client` themselves.
  */
 export function systemContext(task: string, faults?: Faults): SystemCtx {
   return { db: db(), task, ...(faults && { faults }) };

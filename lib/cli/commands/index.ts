@@ -1,6 +1,7 @@
 /** Subcommand registry: add a command by importing it and listing it here. */
 import type { Command } from "../io";
 import { analyze } from "./analyze";
+import { lab } from "./lab";
 import { push } from "./push";
 import { sweep } from "./sweep";
 import { token } from "./token";
@@ -10,4 +11,5 @@ export const commands: Record<string, Command> = {
   [sweep.name]: sweep,
   [push.name]: push,
   [token.name]: token,
+  [lab.name]: lab,
 };

@@ -3,11 +3,9 @@
  * Run on the server: talks to the database directly and prints a new API token for a member of the
  * lab (by default its first owner). The token is on the last line of the output.
  */
-import fs from "node:fs";
-import path from "node:path";
 import type { Command } from "../io";
 import { CliUsageError } from "../io";
-import { parse } from "../shared";
+import { createOptions, haveDatabase } from "../server-env";
 
 const usage = `usage: bandcross token create --lab SLUG [--email EMAIL] [--name NAME]
   --lab SLUG      the lab's slug (the demo lab's is "demo")
@@ -15,32 +13,23 @@ const usage = `usage: bandcross token create --lab SLUG [--email EMAIL] [--name 
   --name NAME     a label shown in lab settings (default "command line")
 Needs DATABASE_URL, or the local stack's .data/env.local (written by npm start).`;
 
+const OPTIONS = {
+  lab: { type: "string" },
+  email: { type: "string" },
+  name: { type: "string" },
+  help: { type: "boolean", short: "h" },
+} as const;
 
 export const token: Command = {
   name: "token",
   summary: "create an API token for a lab member (run on the server)",
   usage,
   async run(argv, io) {
-    const [verb, ...rest] = argv;
-    if (verb === "--help" || verb === "-h") {
-      io.out(usage + "\n");
-      return 0;
-    }
-    if (verb !== "create") throw new CliUsageError(verb ? `unknown token action "${verb}"` : "say what to do: token create");
-    const { values } = parse(rest, { lab: { type: "string" }, email: { type: "string" }, name: { type: "string" }, help: { type: "boolean", short: "h" } });
-    if (values.help) {
-      io.out(usage + "\n");
-      return 0;
-    }
+    const values = createOptions("token", argv, OPTIONS, usage, io);
+    if (!values) return 0;
     const lab = values.lab as string | undefined;
     if (!lab) throw new CliUsageError("--lab is required");
-    const local = path.join(process.cwd(), ".data", "env.local");
-    // Node's own reader (KEY=value, quoted or not); what the environment sets already is kept.
-    if (!process.env.DATABASE_URL && fs.existsSync(local)) process.loadEnvFile(local);
-    if (!process.env.DATABASE_URL) {
-      io.err("bandcross token: DATABASE_URL is not set and .data/env.local was not found (start the stack with npm start first)\n");
-      return 1;
-    }
+    if (!haveDatabase("token", io)) return 1;
     const [{ createTokenForLab }, { systemContext, closeSystemContext }] = await Promise.all([import("../../services/tokens/createTokenForLab"), import("../../services/system")]);
     try {
       const made = await createTokenForLab({ ctx: systemContext("token command"), input: { labSlug: lab, email: values.email as string | undefined, name: values.name as string | undefined } });

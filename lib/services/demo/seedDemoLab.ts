@@ -3,9 +3,14 @@ import { eq } from "drizzle-orm";
 import bcrypt from "bcryptjs";
 import { extractionSettingsVersions, fieldModelVersions, labs, subscriptions, measurementSessions, memberships, samples, tips, users, type MemberRole } from "@/db/schema";
 import type { SystemCtx } from "@/lib/base/context";
+import { DEMO_LAB_SLUG } from "@/lib/schemas/lab";
 import { initialVersionRows } from "../samples/initialVersions";
 
-export const DEMO_LAB = { slug: "demo", name: "Halvorsen Surface Physics Group", institution: "Lindqvist Institute (invented)" };
+export const DEMO_LAB = {
+  slug: DEMO_LAB_SLUG,
+  name: "Halvorsen Surface Physics Group",
+  institution: "Lindqvist Institute (invented)",
+};
 
 export const DEMO_PEOPLE: { name: string; email: string; password: string; role: MemberRole }[] = [
   { name: "Ingrid Halvorsen", email: "ingrid@halvorsen-lab.example", password: "demo-owner-2026", role: "owner" },

@@ -40,7 +40,7 @@ const EXPECTED: Record<Permission, string[]> = {
   "lab:read": [
     ...["getSample", "getSampleVersions", "getSession", "getSpectrum", "getTip", "getUpload", "listMembers", "listNotifications", "listSamples"],
     ...["listSessionSpectra", "listSessionUploads", "listSessions", "listTips", "markNotificationsRead", "phaseCsv", "pickHistoryOf"],
-    ...["spectraCsv", "tipsOfSample", "watchSample"],
+    ...["spectraCsv", "tipsOfSample", "watchSample", "getStartSteps"],
   ],
   "sample:write": ["createSample", "updateSample"],
   "tip:write": ["createTip", "updateTip"],
@@ -51,6 +51,7 @@ const EXPECTED: Record<Permission, string[]> = {
   "members:manage": ["changeRole", "inviteMember", "listSampleAccess", "removeMember", "revokeInvitation", "setSampleAccess"],
   "tokens:manage": ["createToken", "listTokens", "revokeToken"],
   "lab:configure": ["setFlaggedInFit", "updateLabDefaults"],
+  "lab:create": ["createLab"],
 };
 
 describe("authorisation comes first in every verb", () => {
@@ -82,8 +83,13 @@ describe("authorisation comes first in every verb", () => {
   it("gives collaborators reading only, and owners everything", () => {
     for (const p of Object.keys(PERMISSIONS) as Permission[]) {
       expect(can("owner", p)).toBe(true);
-      expect(can("collaborator", p)).toBe(p === "lab:read");
+      // A lab of their own is the one thing a collaborator may start: it changes nothing in this lab.
+      expect(can("collaborator", p)).toBe(p === "lab:read" || p === "lab:create");
     }
+  });
+
+  it("lets every member start a lab of their own", () => {
+    for (const role of ROLES) expect(can(role, "lab:create")).toBe(true);
   });
 });
 

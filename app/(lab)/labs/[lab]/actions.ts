@@ -4,6 +4,7 @@ import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import type { ActionState } from "@/lib/actions/types";
 import { runAction } from "@/lib/actions/validated";
+import { createLab } from "@/lib/services/labs/createLab";
 import { setFlaggedInFit } from "@/lib/services/labs/setFlaggedInFit";
 import { updateLabDefaults } from "@/lib/services/labs/updateLabDefaults";
 import { changeRole } from "@/lib/services/members/changeRole";
@@ -186,4 +187,14 @@ export async function setSampleAccessAction(
   return state.ok
     ? { ...state, message: sampleIds.length ? `Limited to ${sampleIds.length} sample(s).` : "Sees every sample." }
     : state;
+}
+
+/** A new lab of one's own, from the lab switcher: its creator owns it and lands in it. */
+export async function createLabAction(lab: string, _s: ActionState, fd: FormData): Promise<ActionState> {
+  let slug: string | undefined;
+  const state = await runAction(lab, fd, async (ctx) => {
+    slug = (await createLab({ ctx, input: form(fd) })).slug;
+  });
+  if (state.ok && slug) redirect(`/labs/${slug}`);
+  return state;
 }

@@ -27,9 +27,7 @@ export default async function LabLayout({
       <LabNav
         lab={{ slug: actor.labSlug, name: actor.labName }}
         user={{ name: actor.name, email: actor.email, role: actor.role }}
-        otherLabs={(session?.user?.labs ?? [])
-          .filter((l) => l.slug !== actor.labSlug)
-          .map((l) => ({ slug: l.slug, name: l.name }))}
+        labs={(session?.user?.labs ?? []).map((l) => ({ slug: l.slug, name: l.name }))}
         canConfigure={can(actor.role, "members:manage")}
         signOut={signOutAction}
         unreadCount={unread}

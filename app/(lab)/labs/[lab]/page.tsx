@@ -5,6 +5,7 @@ import { pageCtx } from "@/lib/actions/validated";
 import { can } from "@/lib/base/permissions";
 import { listSamples } from "@/lib/services/samples/listSamples";
 import { SamplesTable } from "./samples-table";
+import { LabStart } from "./lab-start";
 
 export const metadata: Metadata = { title: "Samples" };
 
@@ -21,6 +22,7 @@ export default async function LabHome({ params }: { params: Promise<{ lab: strin
         description="Each sample's spectra, its latest band gap and where its gap closes under the tip's field."
         actions={canWrite ? <ButtonLink href={`/labs/${lab}/samples/new`}>New sample</ButtonLink> : null}
       />
+      <LabStart ctx={ctx} lab={lab} />
       {samples.length === 0 ? (
         <EmptyState
           title="No samples yet"

@@ -5,6 +5,7 @@ import { pageCtx } from "@/lib/actions/validated";
 import { can } from "@/lib/base/permissions";
 import { listSessions } from "@/lib/services/sessions/listSessions";
 import { SessionsTable } from "./sessions-table";
+import { LabStart } from "../lab-start";
 
 export const metadata: Metadata = { title: "Sessions" };
 
@@ -21,6 +22,7 @@ export default async function SessionsPage({ params }: { params: Promise<{ lab: 
         description="One row per measurement session at the instrument: its sample, tip, temperature and spectra."
         actions={canWrite ? <ButtonLink href={`/labs/${lab}/sessions/new`}>New session</ButtonLink> : null}
       />
+      <LabStart ctx={ctx} lab={lab} />
       <SessionsTable lab={lab} sessions={rows.map((r) => ({ ...r, temperatureK: r.temperatureK ?? null }))} />
     </>
   );

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { EntityForm } from "@/components/forms/entity-form";
+import { labFields } from "@/components/forms/specs";
 import { Card, PageHeader } from "@/components/ui/card";
 import { pageCtx } from "@/lib/actions/validated";
 import { can, ROLE_LABEL, ROLES } from "@/lib/base/permissions";
@@ -89,37 +90,13 @@ export default async function SettingsPage({ params }: { params: Promise<{ lab: 
             submitLabel="Save defaults"
             testId="lab-defaults-form"
             onSuccessMessage="Saved."
-            fields={[
-              { name: "name", label: "Lab name", defaultValue: labRow.name, wide: true },
-              {
-                name: "defaultTipWorkFunction_eV",
-                label: "Tip work function",
-                unit: "eV",
-                type: "number",
-                defaultValue: String(labRow.defaultTipWorkFunctionEv),
-              },
-              {
-                name: "defaultTipWorkFunctionSigma_eV",
-                label: "Its uncertainty (1σ)",
-                unit: "eV",
-                type: "number",
-                defaultValue: String(labRow.defaultTipWorkFunctionSigmaEv),
-              },
-              {
-                name: "defaultSampleWorkFunction_eV",
-                label: "Sample work function",
-                unit: "eV",
-                type: "number",
-                defaultValue: String(labRow.defaultSampleWorkFunctionEv),
-              },
-              {
-                name: "defaultSampleWorkFunctionSigma_eV",
-                label: "Its uncertainty (1σ)",
-                unit: "eV",
-                type: "number",
-                defaultValue: String(labRow.defaultSampleWorkFunctionSigmaEv),
-              },
-            ]}
+            fields={labFields({
+              name: labRow.name,
+              defaultTipWorkFunction_eV: String(labRow.defaultTipWorkFunctionEv),
+              defaultTipWorkFunctionSigma_eV: String(labRow.defaultTipWorkFunctionSigmaEv),
+              defaultSampleWorkFunction_eV: String(labRow.defaultSampleWorkFunctionEv),
+              defaultSampleWorkFunctionSigma_eV: String(labRow.defaultSampleWorkFunctionSigmaEv),
+            })}
           />
         </Card>
         <Card title="Flagged spectra in the critical-field fit">

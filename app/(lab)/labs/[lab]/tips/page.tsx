@@ -5,6 +5,7 @@ import { pageCtx } from "@/lib/actions/validated";
 import { can } from "@/lib/base/permissions";
 import { listTips } from "@/lib/services/tips/listTips";
 import { TipsTable } from "./tips-table";
+import { LabStart } from "../lab-start";
 
 export const metadata: Metadata = { title: "Tips" };
 
@@ -23,6 +24,7 @@ export default async function TipsPage({ params }: { params: Promise<{ lab: stri
         }
         actions={canWrite ? <ButtonLink href={`/labs/${lab}/tips/new`}>New tip</ButtonLink> : null}
       />
+      <LabStart ctx={ctx} lab={lab} />
       <TipsTable
         lab={lab}
         canWrite={canWrite}
