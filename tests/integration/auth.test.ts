@@ -1,15 +1,19 @@
-import { eq } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
-import { apiTokens, invitations, users } from "@/db/schema";
+import { apiTokens, auditEvents, invitations, samples, users } from "@/db/schema";
+import { actorForToken } from "@/lib/auth/actor";
 import { MAX_FAILURES } from "@/lib/auth/throttle";
 import { verifyCredentials } from "@/lib/auth/credentials";
 import { acceptInvitation } from "@/lib/services/members/acceptInvitation";
 import { describeInvitation } from "@/lib/services/members/describeInvitation";
 import { inviteMember } from "@/lib/services/members/inviteMember";
 import { listMembers } from "@/lib/services/members/listMembers";
+import { removeMember } from "@/lib/services/members/removeMember";
+import { createSample } from "@/lib/services/samples/createSample";
+import { createTip } from "@/lib/services/tips/createTip";
 import { createToken } from "@/lib/services/tokens/createToken";
-import { makeLab, rejection, TEST_PASSWORD, system } from "../support/fixtures";
+import { makeLab, rejection, sampleBody, TEST_PASSWORD, system, tipBody } from "../support/fixtures";
 import { linkIn, mailsTo } from "../support/outbox";
 
 afterAll(closeDb);
@@ -96,5 +100,47 @@ describe("API tokens", () => {
     const [stored] = await db().select().from(apiTokens).where(eq(apiTokens.id, row.id));
     expect(stored.tokenHash).toMatch(/^[0-9a-f]{64}$/);
     expect(JSON.stringify(stored)).not.toContain(token.slice(12));
+  });
+});
+
+describe("removing a member", () => {
+  it("revokes their API tokens, audited; inviting the same person again does not bring a token back", async () => {
+    const f = await makeLab("Remove revokes");
+    const owner = f.ctx("owner");
+    const { token } = await createToken({ ctx: owner, input: { name: "analyst PC", userId: f.people.analyst.id } });
+    expect((await actorForToken(db(), token)).role).toBe("analyst");
+    const membershipId = (await listMembers({ ctx: owner })).members.find((m) => m.userId === f.people.analyst.id)!.id;
+    await removeMember({ ctx: owner, input: { membershipId } });
+
+    // The same person invited again, with another role, joins with their existing account.
+    await inviteMember({ ctx: owner, input: { email: f.people.analyst.email, role: "microscopist" } });
+    const [mail] = await mailsTo(f.people.analyst.email);
+    const link = linkIn(mail.text, "/invite/").split("/invite/")[1];
+    await acceptInvitation({ ctx: system(), input: { token: link, name: f.people.analyst.name, password: "an unused long password" } });
+    expect((await listMembers({ ctx: owner })).members.find((m) => m.userId === f.people.analyst.id)?.role).toBe("microscopist");
+
+    // The old token stays dead: it must not act with the new role.
+    expect((await rejection(actorForToken(db(), token))).status).toBe(401);
+    const [stored] = await db().select().from(apiTokens).where(eq(apiTokens.labId, f.lab.id));
+    expect(stored.revokedAt).toBeInstanceOf(Date);
+    const events = await db().select().from(auditEvents).where(and(eq(auditEvents.labId, f.lab.id), eq(auditEvents.action, "token.revoke")));
+    expect(events).toEqual([expect.objectContaining({ targetId: stored.id, actorId: f.people.owner.id, data: expect.objectContaining({ reason: "member removed" }) })]);
+  });
+});
+
+describe("text with a NUL character", () => {
+  // PostgreSQL text cannot hold the character U+0000 (PostgreSQL manual, "Character Types":
+  // "the character with code zero (sometimes called NUL) cannot be stored").
+  it("is refused with a 422 naming the field, in a name and in a note, and nothing is stored", async () => {
+    const f = await makeLab("NUL text");
+    const owner = f.ctx("owner");
+    const named = (await rejection(createSample({ ctx: owner, input: sampleBody("GX\u0000-01") }))) as { status: number; fieldErrors?: Record<string, string[]> };
+    expect(named.status).toBe(422);
+    expect(Object.keys(named.fieldErrors ?? {})).toEqual(["name"]);
+    const noted = (await rejection(createTip({ ctx: owner, input: { ...tipBody(), notes: "cleaned\u0000 by field emission" } }))) as { status: number; fieldErrors?: Record<string, string[]> };
+    expect(noted.status).toBe(422);
+    expect(Object.keys(noted.fieldErrors ?? {})).toEqual(["notes"]);
+    expect(noted.fieldErrors?.notes?.[0]).toMatch(/NUL|control character/i);
+    expect(await db().select().from(samples).where(eq(samples.labId, f.lab.id))).toEqual([]);
   });
 });
