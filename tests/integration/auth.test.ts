@@ -3,7 +3,8 @@ import { afterAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db/client";
 import { apiTokens, auditEvents, invitations, samples, users } from "@/db/schema";
 import { actorForToken } from "@/lib/auth/actor";
-import { MAX_FAILURES } from "@/lib/auth/throttle";
+import { LIMITS, waitAfter } from "@/lib/auth/throttle";
+import { deviceOf, newDeviceCookie } from "@/lib/auth/device";
 import { verifyCredentials } from "@/lib/auth/credentials";
 import { acceptInvitation } from "@/lib/services/members/acceptInvitation";
 import { describeInvitation } from "@/lib/services/members/describeInvitation";
@@ -29,24 +30,52 @@ describe("sign-in", () => {
     expect(unknown).toEqual(wrong);
   });
 
-  it(`throttles an e-mail after ${MAX_FAILURES} failures, even with the right password then`, async () => {
+  it("slows an account after its free failures, by a wait that doubles and stops at a minute", async () => {
     const f = await makeLab("Throttle");
     const email = f.people.collaborator.email;
-    for (let i = 0; i < MAX_FAILURES; i++) {
-      expect((await verifyCredentials({ db: db(), input: { email, password: `guess ${i}` } })).ok).toBe(false);
+    const { free, capSeconds } = LIMITS.account;
+    let now = new Date();
+    const tryAt = (password: string, client: string) => verifyCredentials({ db: db(), input: { email, password, client }, now });
+    // A stranger from many addresses (documentation range, RFC 5737), each guess as soon as it may.
+    for (let i = 0; i < free + 12; i++) {
+      const r = await tryAt(`guess ${i}`, `192.0.2.${i + 1}`);
+      expect(r).toEqual({ ok: false, reason: "invalid" });
+      const wait = waitAfter("account", i + 1);
+      if (i + 1 > free) expect(await tryAt(TEST_PASSWORD, "198.51.100.7")).toEqual({ ok: false, reason: "throttled", retryAfterSeconds: wait });
+      now = new Date(now.getTime() + wait * 1000);
     }
-    expect(await verifyCredentials({ db: db(), input: { email, password: TEST_PASSWORD } })).toEqual({ ok: false, reason: "throttled" });
-    // Another person is not affected.
-    expect((await verifyCredentials({ db: db(), input: { email: f.people.owner.email, password: TEST_PASSWORD } })).ok).toBe(true);
+    // The waits were 1, 2, 4 … s and stopped at the cap (OWASP: no lockout, a capped delay).
+    expect(waitAfter("account", free + 1)).toBe(1);
+    expect(waitAfter("account", free + 12)).toBe(capSeconds);
+    expect(capSeconds).toBeLessThanOrEqual(60);
+    // The owner of the account, from a browser new to it, gets in after at most the cap.
+    expect((await tryAt(TEST_PASSWORD, "198.51.100.7")).ok).toBe(true);
+    // Another person is not affected at any time.
+    expect((await verifyCredentials({ db: db(), input: { email: f.people.owner.email, password: TEST_PASSWORD }, now })).ok).toBe(true);
   });
 
-  it("throttles one client address across e-mails", async () => {
+  it("throttles one client address across e-mails, more strictly", async () => {
     const f = await makeLab("Throttle client");
-    const clientKey = `203.0.113.${Math.floor(Math.random() * 250)}`; // TEST-NET-3 (RFC 5737)
-    for (let i = 0; i < MAX_FAILURES; i++) {
-      await verifyCredentials({ db: db(), input: { email: `spray-${i}@lab.example`, password: "x", clientKey } });
+    const client = `203.0.113.${Math.floor(Math.random() * 250)}`; // TEST-NET-3 (RFC 5737)
+    const now = new Date();
+    for (let i = 0; i < LIMITS.client.free + 1; i++) {
+      await verifyCredentials({ db: db(), input: { email: `spray-${i}-${client}@lab.example`, password: "x", client }, now });
     }
-    expect((await verifyCredentials({ db: db(), input: { email: f.people.owner.email, password: TEST_PASSWORD, clientKey } })).ok).toBe(false);
+    expect(await verifyCredentials({ db: db(), input: { email: f.people.owner.email, password: TEST_PASSWORD, client }, now })).toEqual({ ok: false, reason: "throttled", retryAfterSeconds: 1 });
+    expect(LIMITS.client.capSeconds).toBeGreaterThan(LIMITS.account.capSeconds);
+  });
+
+  it("a browser where the account signed in before is not slowed by a stranger's failures", async () => {
+    const f = await makeLab("Throttle device");
+    const email = f.people.owner.email;
+    const device = newDeviceCookie(email);
+    const now = new Date();
+    for (let i = 0; i < LIMITS.account.free + 10; i++) await verifyCredentials({ db: db(), input: { email, password: `guess ${i}`, client: "192.0.2.77" }, now });
+    expect((await verifyCredentials({ db: db(), input: { email, password: TEST_PASSWORD, client: "192.0.2.77" }, now })).ok).toBe(false);
+    expect((await verifyCredentials({ db: db(), input: { email, password: TEST_PASSWORD, client: "192.0.2.77", device }, now })).ok).toBe(true);
+    // A device cookie of another account, or a forged one, counts for nothing.
+    expect(deviceOf(device, f.people.analyst.email)).toBeNull();
+    expect(deviceOf(`${device.slice(0, -2)}xx`, email)).toBeNull();
   });
 });
 
