@@ -122,7 +122,12 @@ describe("sessions end on the server", () => {
     // The analyst of `other` is also a member of a second lab, the one she is removed from.
     const person = other.people.analyst;
     await db().insert(memberships).values({ labId: lab.lab.id, userId: person.id, role: "analyst" });
-    const { context } = await signedIn(browser, person.email, TEST_PASSWORD, other.lab.slug);
+    // With two labs she lands on the list of her labs.
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await new SignInPage(page).open();
+    await new SignInPage(page).signIn(person.email, TEST_PASSWORD);
+    await page.waitForURL("**/labs");
     const cookie = (await context.cookies()).map((c) => `${c.name}=${c.value}`).join("; ");
     expect((await api(`/me?lab=${other.lab.slug}`, { headers: { cookie } })).status).toBe(200);
     const id = (await listMembers({ ctx: lab.ctx("owner") })).members.find((m) => m.userId === person.id)!.id;
@@ -172,7 +177,9 @@ describe("headers", () => {
       if (/Content.Security.Policy|Permissions.Policy/i.test(m.text())) violations.push(m.text());
     });
     await page.addInitScript(() => {
-      document.addEventListener("securitypolicyviolation", (e) => console.error(`Content-Security-Policy violation: ${e.violatedDirective} ${e.blockedURI}`));
+      document.addEventListener("securitypolicyviolation", (e) =>
+        console.error(`Content-Security-Policy violation: ${e.violatedDirective} ${e.blockedURI} at ${e.sourceFile}:${e.lineNumber}:${e.columnNumber} ${e.sample}`),
+      );
     });
     const res = await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
     const csp = res?.headers()["content-security-policy"] ?? "";
