@@ -7,7 +7,7 @@ import { db } from "@/db/client";
 import { env } from "@/lib/env";
 import { clientOf } from "./client";
 import { verifyCredentials } from "./credentials";
-import { cookieFrom, DEVICE_MAX_AGE_S, deviceCookieName, newDeviceCookie } from "./device";
+import { cookieFrom, DEVICE_MAX_AGE_S, deviceCookieName, deviceOf, newDeviceCookie } from "./device";
 import { listMembershipsOfUser } from "./memberships";
 import { endSession, SESSION_MAX_AGE_S, sessionIsLive, startSession } from "./sessions";
 import type { MemberRole } from "@/db/schema";
@@ -25,9 +25,9 @@ class Throttled extends CredentialsSignin {
   }
 }
 
-/** After a successful sign-in, the browser's device cookie for the account (`device.ts`); kept if it has one. */
-async function rememberDevice(email: string, had: boolean) {
-  if (had) return;
+/** After a successful sign-in, the browser's device cookie for the account (`device.ts`); a genuine one is kept. */
+async function rememberDevice(email: string, had: string | undefined) {
+  if (had && deviceOf(had, email)) return;
   try {
     (await cookies()).set(deviceCookieName(email), newDeviceCookie(email), {
       httpOnly: true,
@@ -77,7 +77,7 @@ export const { handlers, auth, signIn, signOut } = NextAuth({
           if (result.reason === "throttled") throw new Throttled(result.retryAfterSeconds);
           return null;
         }
-        await rememberDevice(parsed.data.email, Boolean(device));
+        await rememberDevice(parsed.data.email, device);
         return result.user;
       },
     }),

@@ -96,6 +96,34 @@ describe("sign-in throttle", () => {
     await new SignInPage(page).signIn(owner.email, TEST_PASSWORD);
     await page.waitForURL(`**/labs/${lab.lab.slug}`, { timeout: 15_000 });
     await context.close();
+    // From a browser new to the account she may have to wait, but seconds (at most a minute), not
+    // the old 15 minutes: each refusal says how long, and the try after that wait gets in.
+    // The stranger keeps guessing, as fast as he is let: 8 failures in a row (a 4 s wait after the
+    // last, lib/auth/throttle.ts), the old lock's count.
+    for (let failures = 0; failures < 8; ) {
+      if ((await attempt(owner.email, `more guesses ${failures}`)) === "invalid") failures++;
+      else await new Promise((r) => setTimeout(r, 500));
+    }
+    const fresh = await browser.newContext();
+    const elsewhere = await fresh.newPage();
+    const form = new SignInPage(elsewhere);
+    await form.open();
+    const t0 = Date.now();
+    let waits = 0;
+    for (;;) {
+      await form.signIn(owner.email, TEST_PASSWORD);
+      const landed = await elsewhere.waitForURL(`**/labs/${lab.lab.slug}`, { timeout: 3_000 }).then(() => true, () => false);
+      if (landed) break;
+      const notice = (await elsewhere.locator("text=Too many failed attempts").textContent()) ?? "";
+      const seconds = Number(/Try again in (\d+) seconds?\./.exec(notice)?.[1]);
+      expect(seconds).toBeGreaterThan(0);
+      expect(seconds).toBeLessThanOrEqual(60);
+      if (waits++ === 0) await shot(elsewhere, "sign-in-throttled");
+      await elsewhere.waitForTimeout(seconds * 1000);
+    }
+    expect(waits).toBeGreaterThan(0);
+    expect(Date.now() - t0).toBeLessThan(75_000);
+    await fresh.close();
   });
 });
 
