@@ -26,7 +26,7 @@ describe("vendorPlotly", () => {
     expect(text).toMatch(/^(\/\*[\s\S]*?\*\/\s*)*var Plotly=/);
     // The trace types beyond the core, by the names Plotly registers them under.
     for (const t of PLOTLY_TRACES) expect(text).toContain(`"${t}"`);
-    // The focus canvas made on the first selection (patches 1 and 2): property names survive minifying.
+    // The focus canvas made on the first selection (patches 2 and 3): property names survive minifying.
     expect(text.split("_focusReglWanted").length - 1).toBe(2);
     // The CSP-safe WebGL scatter: every draw procedure Plotly generated ahead of time is in the file,
     // under the SHA-256 key regl looks it up by (plotly.js's own list, src/traces/scattergl/regl_precompiled.js).
