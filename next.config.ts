@@ -1,5 +1,6 @@
 import type { NextConfig } from "next";
 import { PHASE_PRODUCTION_SERVER } from "next/constants";
+import { PERMISSIONS_POLICY } from "./lib/web/csp";
 import { builtPlotly, vendorPlotly } from "./scripts/plotly-vendor";
 
 /**
@@ -27,7 +28,13 @@ export default async function nextConfig(phase: string): Promise<NextConfig> {
             { key: "X-Content-Type-Options", value: "nosniff" },
             { key: "Referrer-Policy", value: "same-origin" },
             { key: "X-Frame-Options", value: "DENY" },
+            { key: "Permissions-Policy", value: PERMISSIONS_POLICY },
           ],
+        },
+        {
+          // JSON and CSV answers: nothing in them may load or run (pages get theirs from proxy.ts).
+          source: "/api/:path*",
+          headers: [{ key: "Content-Security-Policy", value: "default-src 'none'; frame-ancestors 'none'" }],
         },
         {
           // Pages that plot: the browser starts fetching the library with the response's headers,

@@ -1,7 +1,10 @@
 import Link from "next/link";
+import { connection } from "next/server";
 import { BrandMark } from "@/components/brand";
 
-export default function NotFound() {
+/** Rendered per request, so its scripts carry the response's CSP nonce (proxy.ts); a prerendered page has none. */
+export default async function NotFound() {
+  await connection();
   return (
     <main className="mx-auto flex min-h-screen max-w-md flex-col justify-center px-6">
       <BrandMark />

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { checkTrustedProxies } from "@/lib/auth/client";
 
 /**
  * The process environment, validated once (style: one zod-checked env module instead of
@@ -14,6 +15,20 @@ const schema = z.object({
   APP_URL: z.string().url().default("http://localhost:3000"),
   /** Host names sign-in is honoured under besides APP_URL's (lib/auth/hosts.ts); unset: localhost, 127.0.0.1, [::1]. */
   BANDCROSS_TRUSTED_HOSTS: z.string().optional(),
+  /**
+   * Reverse proxies whose X-Forwarded-For is believed (lib/auth/client.ts): comma-separated
+   * addresses, CIDR ranges or `loopback`, `linklocal`, `uniquelocal`. Unset: none, the TCP peer is the client.
+   */
+  BANDCROSS_TRUSTED_PROXIES: z
+    .string()
+    .optional()
+    .superRefine((v, ctx) => {
+      try {
+        checkTrustedProxies(v);
+      } catch (e) {
+        ctx.addIssue({ code: "custom", message: `not a list of addresses or CIDR ranges (${(e as Error).message})` });
+      }
+    }),
   S3_ENDPOINT: z.string().url().optional(),
   S3_PUBLIC_ENDPOINT: z.string().url().optional(),
   S3_REGION: z.string().default("us-east-1"),

@@ -57,11 +57,9 @@ export async function signInAction(_prev: ActionState, formData: FormData): Prom
     if (e instanceof AuthError) {
       const code = (e as AuthError & { code?: string }).code;
       if (code === "throttled") {
-        return {
-          ok: false,
-          message: "Too many failed attempts. Wait 15 minutes, or ask your lab owner to check your account.",
-          values: { email },
-        };
+        const wait = Math.max(1, Math.ceil((e as { retryAfterSeconds?: number }).retryAfterSeconds ?? 60));
+        const when = wait < 90 ? `${wait} second${wait === 1 ? "" : "s"}` : `${Math.ceil(wait / 60)} minutes`;
+        return { ok: false, message: `Too many failed attempts. Try again in ${when}.`, values: { email } };
       }
       // Unknown e-mail and wrong password get the same words.
       return { ok: false, message: "That e-mail and password do not match an account.", values: { email } };

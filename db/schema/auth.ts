@@ -96,11 +96,16 @@ export const apiTokens = pgTable(
 );
 export type ApiToken = typeof apiTokens.$inferSelect;
 
-/** Failed sign-in counters per key (e-mail, and client address), in fixed windows; shared by every app process. */
+/**
+ * Failed sign-ins in a row per key (`account:`, `client:`, `device:`, lib/auth/throttle.ts) and
+ * the time before which the key lets no try through; shared by every app process.
+ */
 export const signInThrottle = pgTable("sign_in_throttle", {
   key: text("key").primaryKey(),
+  /** When this run of failures began. */
   windowStart: timestamp("window_start", { withTimezone: true }).notNull(),
   failures: integer("failures").notNull().default(0),
+  blockedUntil: timestamp("blocked_until", { withTimezone: true }).notNull().defaultNow(),
 });
 
 /**
@@ -118,4 +123,21 @@ export const setupCodes = pgTable(
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex("setup_codes_hash_unique").on(t.codeHash)],
+);
+
+/**
+ * Signed-in browsers (lib/auth/sessions.ts): the session cookie carries a row's id, checked on every
+ * request, so signing out, removal from a lab or a new password ends a session on the server.
+ */
+export const authSessions = pgTable(
+  "auth_sessions",
+  {
+    id: id(),
+    userId: uuid("user_id").notNull().references(() => users.id, { onDelete: "cascade" }),
+    createdAt: createdAt(),
+    endedAt: timestamp("ended_at", { withTimezone: true }),
+    /** "signed out", "removed from a lab", "password changed". */
+    endedReason: text("ended_reason"),
+  },
+  (t) => [index("auth_sessions_user_idx").on(t.userId)],
 );

@@ -4,7 +4,7 @@ import { cache } from "react";
 import { auth } from "@/lib/auth";
 import { contextForUser } from "@/lib/auth/actor";
 import type { Ctx } from "@/lib/base/context";
-import { isServiceError } from "@/lib/base/errors";
+import { isServiceError, isUnstorableText, unstorableText } from "@/lib/base/errors";
 import { getSample } from "@/lib/services/samples/getSample";
 
 import type { ActionState } from "./types";
@@ -31,7 +31,8 @@ export async function runAction(
     const ctx = await labCtx(labSlug);
     const result = await fn(ctx);
     return { ok: true, ...(result ?? {}) };
-  } catch (e) {
+  } catch (thrown) {
+    const e = isUnstorableText(thrown) ? unstorableText() : thrown;
     if (isServiceError(e)) return { ok: false, message: e.message, fieldErrors: e.fieldErrors, values };
     if (e && typeof e === "object" && "digest" in e && String((e as { digest: unknown }).digest).startsWith("NEXT_REDIRECT")) throw e;
     console.error("[action] unexpected error:", e);

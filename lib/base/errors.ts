@@ -53,12 +53,24 @@ export function isServiceError(e: unknown): e is ServiceError {
   return e instanceof ServiceError;
 }
 
-/** PostgreSQL unique violation (SQLSTATE 23505), seen through drizzle's wrapped errors too. */
-export function isUniqueViolation(e: unknown): boolean {
+/** Whether a PostgreSQL error with one of `codes` (SQLSTATE) is `e` or its cause (drizzle wraps them). */
+function hasSqlState(e: unknown, codes: string[]): boolean {
   let cur: unknown = e;
   for (let i = 0; i < 4 && cur; i++) {
-    if (typeof cur === "object" && cur !== null && (cur as { code?: string }).code === "23505") return true;
+    if (typeof cur === "object" && cur !== null && codes.includes((cur as { code?: string }).code ?? "")) return true;
     cur = (cur as { cause?: unknown }).cause;
   }
   return false;
 }
+
+/** PostgreSQL unique violation (SQLSTATE 23505), seen through drizzle's wrapped errors too. */
+export const isUniqueViolation = (e: unknown) => hasSqlState(e, ["23505"]);
+
+/**
+ * Text PostgreSQL cannot store: a NUL character in text (22021, character_not_in_repertoire) or in
+ * jsonb (22P05, untranslatable_character). The shared text schema (`lib/schemas/text.ts`) refuses
+ * it with the field's name first; this catches a field that does not go through it.
+ */
+export const isUnstorableText = (e: unknown) => hasSqlState(e, ["22021", "22P05"]);
+
+export const unstorableText = () => badRequest("Text cannot contain the NUL character (U+0000).");

@@ -3,7 +3,7 @@ import { NextResponse } from "next/server";
 import { auth } from "@/lib/auth";
 import { contextForRequest } from "@/lib/auth/actor";
 import type { Ctx } from "@/lib/base/context";
-import { badRequest, isServiceError, tooLarge } from "@/lib/base/errors";
+import { badRequest, isServiceError, isUnstorableText, tooLarge, unstorableText } from "@/lib/base/errors";
 
 /** The JSON error body every API route returns: `{ error: { code, message, fields? } }`. */
 export function errorResponse(status: number, code: string, message: string, extra?: Record<string, unknown>) {
@@ -11,7 +11,8 @@ export function errorResponse(status: number, code: string, message: string, ext
 }
 
 /** Maps anything thrown by a handler to a response, once for all routes; unknown errors hide their text. */
-export function toErrorResponse(e: unknown): NextResponse {
+export function toErrorResponse(thrown: unknown): NextResponse {
+  const e = isUnstorableText(thrown) ? unstorableText() : thrown;
   if (isServiceError(e)) {
     return errorResponse(e.status, e.code, e.message, {
       ...(e.fieldErrors && { fields: e.fieldErrors }),

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { numberInput } from "./number";
+import { text } from "./text";
 
 /**
  * Inputs for samples, tips, sessions and members: one schema each, used by the browser forms, the
@@ -9,8 +10,7 @@ import { numberInput } from "./number";
  * (CRC Handbook, 2008, work functions of the elements); an uncertainty above 1 eV is a typo.
  */
 const optionalText = (max: number) =>
-  z
-    .string()
+  text()
     .trim()
     .max(max, `At most ${max} characters.`)
     .optional()
@@ -32,8 +32,8 @@ const workFunctionSigma = numberInput(
 const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use the form YYYY-MM-DD.");
 
 export const sampleInput = z.object({
-  name: z.string().trim().min(1, "Give the sample a name.").max(120, "At most 120 characters."),
-  material: z.string().trim().min(1, "Name the material, e.g. germanene.").max(120, "At most 120 characters."),
+  name: text().trim().min(1, "Give the sample a name.").max(120, "At most 120 characters."),
+  material: text().trim().min(1, "Name the material, e.g. germanene.").max(120, "At most 120 characters."),
   substrate: optionalText(120),
   workFunction_eV: workFunction,
   workFunctionSigma_eV: workFunctionSigma,
@@ -43,8 +43,8 @@ export type SampleInput = z.infer<typeof sampleInput>;
 export const samplePatch = sampleInput.partial();
 
 export const tipInput = z.object({
-  label: z.string().trim().min(1, "Give the tip a label.").max(80, "At most 80 characters."),
-  material: z.string().trim().min(1, "Name the tip material, e.g. W or PtIr.").max(80, "At most 80 characters."),
+  label: text().trim().min(1, "Give the tip a label.").max(80, "At most 80 characters."),
+  material: text().trim().min(1, "Name the tip material, e.g. W or PtIr.").max(80, "At most 80 characters."),
   workFunction_eV: workFunction,
   workFunctionSigma_eV: workFunctionSigma,
   preparedOn: isoDate.optional().or(z.literal("").transform(() => undefined)),
@@ -59,7 +59,7 @@ export const sessionInput = z.object({
     .uuid("Choose a tip.")
     .optional()
     .or(z.literal("").transform(() => undefined)),
-  label: z.string().trim().min(1, "Give the session a label.").max(120, "At most 120 characters."),
+  label: text().trim().min(1, "Give the session a label.").max(120, "At most 120 characters."),
   date: isoDate,
   instrument: optionalText(120),
   temperature_K: numberInput(
@@ -78,17 +78,16 @@ export const memberRoleSchema = z.enum(["owner", "microscopist", "analyst", "col
 });
 
 export const inviteInput = z.object({
-  email: z.string().trim().toLowerCase().email("Enter an e-mail address."),
+  email: text().trim().toLowerCase().email("Enter an e-mail address."),
   role: memberRoleSchema,
 });
 
-export const passwordSchema = z
-  .string()
+export const passwordSchema = text()
   .min(10, "Use at least 10 characters.")
   .max(200, "At most 200 characters.");
 
 export const labDefaultsInput = z.object({
-  name: z.string().trim().min(1, "Give the lab a name.").max(120),
+  name: text().trim().min(1, "Give the lab a name.").max(120),
   defaultTipWorkFunction_eV: workFunction,
   defaultTipWorkFunctionSigma_eV: workFunctionSigma,
   defaultSampleWorkFunction_eV: workFunction,
@@ -157,7 +156,7 @@ export const flaggedInFitInput = z.object({
 });
 
 export const tokenInput = z.object({
-  name: z.string().trim().min(1, "Name the token, e.g. 'acquisition PC'.").max(80),
+  name: text().trim().min(1, "Name the token, e.g. 'acquisition PC'.").max(80),
   userId: z
     .string()
     .uuid()
@@ -166,8 +165,8 @@ export const tokenInput = z.object({
 });
 
 export const acceptInviteInput = z.object({
-  token: z.string().min(20),
-  name: z.string().trim().min(1, "Tell us your name.").max(120),
+  token: text().min(20),
+  name: text().trim().min(1, "Tell us your name.").max(120),
   password: passwordSchema,
 });
 

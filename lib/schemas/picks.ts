@@ -1,7 +1,8 @@
 import { z } from "zod";
 import { numberInput } from "./number";
+import { text } from "./text";
 
-const reason = z.string().trim().min(3, "Say why, in a few words (kept in the pick's history).").max(500, "At most 500 characters.");
+const reason = text().trim().min(3, "Say why, in a few words (kept in the pick's history).").max(500, "At most 500 characters.");
 const version = numberInput(z.number({ error: "must be the version number the pick was read at" }).int("must be a whole number").min(1, "must be 1 or more"));
 const edge = numberInput(z.number({ error: "must be a bias in V" }));
 

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { QUALITY_FLAG_CODES } from "@/lib/spectra/edges/flags";
 import { numberInput } from "./number";
+import { text } from "./text";
 
 /** File names as the browser or the command line sends them: a base name, no folders or control characters. */
 const fileName = z
@@ -31,7 +32,7 @@ const num = (unit: string) => z.number({ error: `must be a number (in ${unit})` 
 
 export const tagPatch = z
   .object({
-    region: z.string().trim().max(80).nullable().optional(),
+    region: text().trim().max(80).nullable().optional(),
     setpointBias_V: numberInput(num("V").refine((v) => v !== 0, "The setpoint bias cannot be zero.").nullable().optional()),
     setpointCurrent_A: numberInput(num("A").positive("The setpoint current is positive (in A, e.g. 1e-10 for 100 pA).").max(1e-6, "Above 1 µA is not a tunnelling setpoint.").nullable().optional()),
     zOffset_pm: numberInput(num("pm").min(-2000, "A z offset beyond ±2000 pm is not a tunnelling change.").max(2000, "A z offset beyond ±2000 pm is not a tunnelling change.").nullable().optional()),
@@ -49,8 +50,8 @@ export const spectraQuery = z.object({
   pageSize: z.coerce.number().int().min(1).max(500).default(50),
   sort: z.enum(["index", "file", "region", "setpointCurrent", "zOffset", "gap", "field"]).default("index"),
   dir: z.enum(["asc", "desc"]).default("asc"),
-  q: z.string().trim().max(120).optional(),
-  region: z.string().trim().max(80).optional(),
+  q: text().trim().max(120).optional(),
+  region: text().trim().max(80).optional(),
   /** `flagged` (any quality flag), `unflagged`, or one flag's code. */
   flag: z.enum(["flagged", "unflagged", ...QUALITY_FLAG_CODES], { error: `flag is one of flagged, unflagged, ${QUALITY_FLAG_CODES.join(", ")}` }).optional(),
 });
@@ -63,5 +64,5 @@ export const fieldModelInput = z.object({
   decayConstantSource: z.enum(["mean-work-function", "measured"]).default("mean-work-function"),
   barrierHeight_eV: numberInput(num("eV").min(0.1, "An apparent barrier below 0.1 eV is not a tunnel barrier.").max(10, "An apparent barrier above 10 eV is not physical.").nullable().optional()),
   screening: numberInput(num("a factor").min(1, "A screening factor below 1 would amplify the field.").max(100, "A screening factor above 100 leaves no field.").default(1)),
-  note: z.string().trim().max(500).optional(),
+  note: text().trim().max(500).optional(),
 }).refine((m) => m.decayConstantSource !== "measured" || m.barrierHeight_eV != null, { message: "Give the measured apparent barrier height.", path: ["barrierHeight_eV"] });

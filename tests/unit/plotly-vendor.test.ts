@@ -28,6 +28,12 @@ describe("vendorPlotly", () => {
     for (const t of PLOTLY_TRACES) expect(text).toContain(`"${t}"`);
     // The focus canvas made on the first selection (patches 2 and 3): property names survive minifying.
     expect(text.split("_focusReglWanted").length - 1).toBe(2);
+    // The CSP-safe WebGL scatter: every draw procedure Plotly generated ahead of time is in the file,
+    // under the SHA-256 key regl looks it up by (plotly.js's own list, src/traces/scattergl/regl_precompiled.js).
+    const precompiled = fs.readFileSync(path.resolve("node_modules/plotly.js/src/traces/scattergl/regl_precompiled.js"), "utf8");
+    const keys = [...precompiled.matchAll(/'([0-9a-f]{64})': v\d+/g)].map((m) => m[1]);
+    expect(keys.length).toBeGreaterThan(5);
+    for (const k of keys) expect(text).toContain(k);
     // Older builds are removed; a second call keeps the file as it is.
     expect(fs.existsSync(stale)).toBe(false);
     const mtime = fs.statSync(file).mtimeMs;

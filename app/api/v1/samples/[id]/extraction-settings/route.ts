@@ -1,5 +1,6 @@
 import { NextResponse } from "next/server";
 import { z } from "zod";
+import { text } from "@/lib/schemas/text";
 import { apiRoute, readJson } from "@/lib/http/respond";
 import { parseInput } from "@/lib/services/parse";
 import { getSampleVersions } from "@/lib/services/analysis/getSampleVersions";
@@ -9,7 +10,7 @@ import { saveExtractionSettings } from "@/lib/services/analysis/saveExtractionSe
  * Body: `{ settings: {...partial extraction settings}, note? }`; the settings are checked against the analysis core's
  * schema.
  */
-const body = z.object({ settings: z.record(z.string(), z.unknown()), note: z.string().max(500).optional() });
+const body = z.object({ settings: z.record(z.string(), z.unknown()), note: text().max(500).optional() });
 
 export const GET = apiRoute<{ id: string }>(async ({ ctx, params }) => {
   const { settings } = await getSampleVersions({ ctx, input: { sampleId: params.id } });
