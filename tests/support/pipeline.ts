@@ -41,24 +41,34 @@ export async function waitForUploads(ids: string[], { timeoutMs = 60_000, until 
   }
 }
 
-/** Starts a worker process with the test environment (plus overrides); resolves once it listens. */
-export function startWorkerProcess(extraEnv: Record<string, string> = {}): Promise<ChildProcess> {
+/** A worker process started by a test, with everything it has printed so far. */
+export type WorkerProcess = ChildProcess & { output: () => string };
+
+/**
+ * Starts a worker process with the test environment (plus overrides); resolves once it listens.
+ * The queue's upkeep runs every second unless `productionTimings` keeps the product's defaults.
+ */
+export function startWorkerProcess(extraEnv: Record<string, string> = {}, { productionTimings = false } = {}): Promise<WorkerProcess> {
+  const env: Record<string, string | undefined> = { ...process.env, NODE_ENV: "test", ...(!productionTimings && { JOB_MAINTENANCE_SECONDS: "1" }), ...extraEnv };
+  if (productionTimings) for (const k of Object.keys(env)) if (k.startsWith("JOB_") && !(k in extraEnv)) delete env[k];
   const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "lib/worker/worker.ts"], {
-    env: { ...process.env, NODE_ENV: "test", JOB_MAINTENANCE_SECONDS: "1", ...extraEnv },
+    env,
     stdio: ["ignore", "pipe", "pipe"],
-  });
+  }) as WorkerProcess;
   let log = "";
+  child.output = () => log;
+  child.stdout!.on("data", (d: Buffer) => (log += d.toString()));
+  child.stderr!.on("data", (d: Buffer) => (log += d.toString()));
   return new Promise((resolve, reject) => {
     const timer = setTimeout(() => reject(new Error(`worker did not start:\n${log}`)), 30_000);
-    const onData = (d: Buffer) => {
-      log += d.toString();
+    const onData = () => {
       if (log.includes("listening on")) {
         clearTimeout(timer);
+        child.stdout!.off("data", onData);
         resolve(child);
       }
     };
     child.stdout!.on("data", onData);
-    child.stderr!.on("data", (d: Buffer) => (log += d.toString()));
     child.on("exit", (code) => {
       clearTimeout(timer);
       if (!log.includes("listening on")) reject(new Error(`worker exited ${code}:\n${log}`));
