@@ -36,7 +36,10 @@ export async function waitForUploads(ids: string[], { timeoutMs = 60_000, until 
   for (;;) {
     const rows = await Promise.all(ids.map(async (id) => (await db().select().from(uploads).where(eq(uploads.id, id)))[0]));
     if (rows.every((r) => until.includes(r.status))) return rows;
-    if (Date.now() > deadline) throw new Error(`uploads still ${rows.map((r) => r.status).join(", ")} after ${timeoutMs} ms`);
+    if (Date.now() > deadline) {
+      const messages = [...new Set(rows.map((r) => r.message).filter(Boolean))].slice(0, 3).join(" | ");
+      throw new Error(`uploads still ${rows.map((r) => r.status).join(", ")} after ${timeoutMs} ms${messages ? ` (${messages})` : ""}`);
+    }
     await new Promise((r) => setTimeout(r, 200));
   }
 }
@@ -49,7 +52,7 @@ export type WorkerProcess = ChildProcess & { output: () => string };
  * The queue's upkeep runs every second unless `productionTimings` keeps the product's defaults.
  */
 export function startWorkerProcess(extraEnv: Record<string, string> = {}, { productionTimings = false } = {}): Promise<WorkerProcess> {
-  const env: Record<string, string | undefined> = { ...process.env, NODE_ENV: "test", ...(!productionTimings && { JOB_MAINTENANCE_SECONDS: "1" }), ...extraEnv };
+  const env: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: "test", ...(!productionTimings && { JOB_MAINTENANCE_SECONDS: "1" }), ...extraEnv };
   if (productionTimings) for (const k of Object.keys(env)) if (k.startsWith("JOB_") && !(k in extraEnv)) delete env[k];
   const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "lib/worker/worker.ts"], {
     env,
@@ -77,7 +80,7 @@ export function startWorkerProcess(extraEnv: Record<string, string> = {}, { prod
 }
 
 export async function stopWorkerProcess(child: ChildProcess | undefined, signal: NodeJS.Signals = "SIGTERM"): Promise<void> {
-  if (!child || child.exitCode !== null) return;
+  if (!child || child.exitCode !== null || child.signalCode !== null) return;
   await new Promise<void>((resolve) => {
     child.once("exit", () => resolve());
     child.kill(signal);
