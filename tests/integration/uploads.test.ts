@@ -1,3 +1,4 @@
+import fs from "node:fs";
 import { PutObjectCommand, S3Client } from "@aws-sdk/client-s3";
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -150,6 +151,46 @@ describe("a transfer that went wrong", () => {
     await put(again.url!, again.headers, genuine);
     await completeUpload({ ctx: lab.ctx("microscopist"), input: { id: t.id } });
     expect((await processUpload({ ctx: system(), input: { uploadId: t.id } })).status).toBe("done");
+  });
+});
+
+describe("files stored before staging", () => {
+  it("are read from the key their row names (labs/<lab>/raw/<sha256>)", async () => {
+    const bytes = fileBytes(5);
+    const sha = sha256(bytes);
+    const key = `labs/${lab.lab.id}/raw/${sha}`;
+    await putInternal(key, bytes);
+    const [row] = await db()
+      .insert(uploads)
+      .values({ labId: lab.lab.id, sessionId, fileName: "before.csv", sizeBytes: bytes.length, sha256: sha, storageKey: key, status: "queued" })
+      .returning();
+    expect((await processUpload({ ctx: system(), input: { uploadId: row.id } })).status).toBe("done");
+    expect(await db().select().from(spectra).where(eq(spectra.uploadId, row.id))).toHaveLength(1);
+    expect((await register("before.csv", bytes.length, sha)).duplicate).toBe(true);
+  });
+
+  it("a file failed on a hash mismatch before is opened again by migration 0005, and the genuine file uploads", async () => {
+    const genuine = fileBytes(6);
+    const sha = sha256(genuine);
+    const [row] = await db()
+      .insert(uploads)
+      .values({
+        labId: lab.lab.id, sessionId, fileName: "blocked.csv", sizeBytes: genuine.length, sha256: sha,
+        storageKey: `labs/${lab.lab.id}/raw/${sha}`, status: "failed",
+        message: "The stored bytes do not match the file's SHA-256: the transfer was damaged. Upload the file again.",
+      })
+      .returning();
+    expect((await register("blocked.csv", genuine.length, sha)).duplicate).toBe(true);
+    // The migration's data statement, as written in the committed file.
+    const sql = fs.readFileSync("drizzle/0005_upload_hash_mismatch.sql", "utf8").split("--> statement-breakpoint").map((x) => x.trim());
+    const update = sql.find((x) => /UPDATE "uploads"/.test(x))!;
+    await db().execute(update);
+    const again = await register("blocked.csv", genuine.length, sha);
+    expect(again).toMatchObject({ id: row.id, duplicate: false });
+    await put(again.url!, again.headers, genuine);
+    await completeUpload({ ctx: lab.ctx("microscopist"), input: { id: row.id } });
+    expect((await processUpload({ ctx: system(), input: { uploadId: row.id } })).status).toBe("done");
+    expect(sha256(await getObjectBytes((await rowOf(row.id)).storageKey))).toBe(sha);
   });
 });
 
