@@ -40,6 +40,14 @@ async function put(url: string, headers: Record<string, string>, body: Uint8Arra
   if (!res.ok) throw new Error(`presigned PUT answered ${res.status}: ${await res.text()}`);
 }
 
+/** Registers, sends and completes a file: the upload's row afterwards. */
+async function sendFile(name: string, bytes: Uint8Array) {
+  const t = await register(name, bytes.length, sha256(bytes));
+  await put(t.url!, t.headers, bytes);
+  await completeUpload({ ctx: lab.ctx("microscopist"), input: { id: t.id } });
+  return { t, row: await rowOf(t.id) };
+}
+
 const rowOf = async (id: string) => (await db().select().from(uploads).where(eq(uploads.id, id)))[0];
 
 beforeAll(async () => {
@@ -75,10 +83,7 @@ describe("raw files are immutable", () => {
 
   it("never presigns a PUT to a content-addressed key, and presigned URLs live minutes", async () => {
     const bytes = fileBytes(1);
-    const t = await register("short.csv", bytes.length, sha256(bytes));
-    await put(t.url!, t.headers, bytes);
-    await completeUpload({ ctx: lab.ctx("microscopist"), input: { id: t.id } });
-    const row = await rowOf(t.id);
+    const { t, row } = await sendFile("short.csv", bytes);
     await expect(presignPut(row.storageKey, bytes.length)).rejects.toThrow(/staging/);
     // X-Amz-Expires is the URL's lifetime in seconds (SigV4 query authentication); "minutes" is
     // the rule of the product, 5 minutes at most (common practice for upload URLs).
@@ -112,11 +117,8 @@ describe("a transfer that went wrong", () => {
 
   it("stored bytes found damaged when processing free the hash too, and the genuine file then uploads", async () => {
     const genuine = fileBytes(3);
-    const t = await register("damaged.csv", genuine.length, sha256(genuine));
-    await put(t.url!, t.headers, genuine);
-    await completeUpload({ ctx: lab.ctx("microscopist"), input: { id: t.id } });
+    const { t, row } = await sendFile("damaged.csv", genuine);
     // Damage the stored object behind the app's back (a storage fault), then process it.
-    const row = await rowOf(t.id);
     await putInternal(row.storageKey, sameLengthOtherBytes(genuine));
     const out = await processUpload({ ctx: system(), input: { uploadId: t.id } });
     expect(out).toMatchObject({ status: "failed" });
