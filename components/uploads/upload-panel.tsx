@@ -141,10 +141,8 @@ export function UploadPanel({
           patch(key, { phase: "uploading" });
           // URLs live a few minutes: one near its end is asked for again before sending.
           const left = (ticket.issuedAt ?? 0) + (ticket.expiresInSeconds ?? Infinity) * 1000 - Date.now();
-          const now =
-            left > 60_000
-              ? ticket
-              : (await api<{ uploads: Ticket[] }>(lab, "POST", "/uploads", { sessionId, files: [{ name: file.name, size: file.size, sha256 }] })).uploads[0];
+          const again = { sessionId, files: [{ name: file.name, size: file.size, sha256 }] };
+          const now = left > 60_000 ? ticket : (await api<{ uploads: Ticket[] }>(lab, "POST", "/uploads", again)).uploads[0];
           if (now.url) await putWithProgress(now.url, file, now.headers, (p) => patch(key, { progress: p }));
           await api(lab, "POST", `/uploads/${ticket.id}/complete`);
           patch(key, { phase: "sent", progress: 1 });

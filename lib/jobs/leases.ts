@@ -32,6 +32,9 @@ export function sweepSeconds(): number {
   return Number(process.env.JOB_SWEEP_SECONDS ?? 5);
 }
 
+const LOCK = `SELECT pg_try_advisory_lock($1, hashtext(id)) FROM unnest($2::text[]) AS id`;
+const UNLOCK = `SELECT pg_advisory_unlock($1, hashtext(id)) FROM unnest($2::text[]) AS id`;
+
 const log = (msg: string) => console.log(`[jobs ${process.pid}] ${msg}`);
 
 export class JobLeases {
@@ -47,7 +50,7 @@ export class JobLeases {
     private readonly schema = "pgboss",
   ) {}
 
-  /** Connects, sweeps once (a restarted worker takes up its predecessor's jobs at once) and then every `sweepSeconds()`. */
+  /** Connects and sweeps once (a restarted worker takes up its predecessor's jobs), then every `sweepSeconds()`. */
   async start(): Promise<void> {
     await this.session();
     await this.sweep();
@@ -93,7 +96,7 @@ export class JobLeases {
         [GRACE_SECONDS, [...this.held.keys()], LOCK_SPACE],
       );
       if (!rows.length) return 0;
-      await c.query(`SELECT pg_advisory_unlock($1, hashtext(id)) FROM unnest($2::text[]) AS id`, [LOCK_SPACE, rows.map((r) => r.id)]);
+      await c.query(UNLOCK, [LOCK_SPACE, rows.map((r) => r.id)]);
       const byQueue = new Map<string, string[]>();
       for (const r of rows) byQueue.set(r.name, [...(byQueue.get(r.name) ?? []), r.id]);
       for (const [queue, ids] of byQueue) {
@@ -116,7 +119,7 @@ export class JobLeases {
     if (!fresh.length) return;
     try {
       const c = await this.session();
-      await c.query(`SELECT pg_try_advisory_lock($1, hashtext(id)) FROM unnest($2::text[]) AS id`, [LOCK_SPACE, fresh]);
+      await c.query(LOCK, [LOCK_SPACE, fresh]);
     } catch (e) {
       // Working on without the lock is safe: another worker may run the job too, and stores it once.
       log(`could not lock jobs: ${(e as Error).message}`);
@@ -135,14 +138,18 @@ export class JobLeases {
       }
     }
     if (!free.length || !this.client) return;
-    await this.client.query(`SELECT pg_advisory_unlock($1, hashtext(id)) FROM unnest($2::text[]) AS id`, [LOCK_SPACE, free]).catch(() => undefined);
+    await this.client.query(UNLOCK, [LOCK_SPACE, free]).catch(() => undefined);
   }
 
   /** The worker's own session; made again (with the locks of the jobs it holds) after it was lost. */
   private session(): Promise<Client> {
     if (this.client) return Promise.resolve(this.client);
     this.connecting ??= (async () => {
-      const c = new Client({ connectionString: env().DATABASE_URL, application_name: "bandcross-job-leases", keepAlive: true });
+      const c = new Client({
+        connectionString: env().DATABASE_URL,
+        application_name: "bandcross-job-leases",
+        keepAlive: true,
+      });
       c.on("error", (e) => {
         log(`lease session lost: ${e.message}`);
         this.drop();
@@ -150,7 +157,7 @@ export class JobLeases {
       await c.connect();
       // The server ends the session (and frees its locks) ~25 s after this machine stops answering.
       await c.query("SET tcp_keepalives_idle = 10; SET tcp_keepalives_interval = 5; SET tcp_keepalives_count = 3");
-      if (this.held.size) await c.query(`SELECT pg_try_advisory_lock($1, hashtext(id)) FROM unnest($2::text[]) AS id`, [LOCK_SPACE, [...this.held.keys()]]);
+      if (this.held.size) await c.query(LOCK, [LOCK_SPACE, [...this.held.keys()]]);
       this.client = c;
       return c;
     })().finally(() => (this.connecting = null));

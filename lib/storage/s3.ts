@@ -64,14 +64,23 @@ export const isStagingKey = (key: string) => key.startsWith(STAGING);
 export async function presignPut(key: string, size: number): Promise<{ url: string; headers: Record<string, string>; expiresInSeconds: number }> {
   if (!isStagingKey(key)) throw new Error(`presigned PUTs go to staging keys only, not ${key}`);
   const command = new PutObjectCommand({ Bucket: env().S3_BUCKET, Key: key, ContentType: "application/octet-stream", ContentLength: size });
-  const url = await getSignedUrl(clients().presign, command, { expiresIn: PRESIGN_SECONDS, signableHeaders: new Set(["content-type", "content-length"]) });
+  const url = await getSignedUrl(clients().presign, command, {
+    expiresIn: PRESIGN_SECONDS,
+    signableHeaders: new Set(["content-type", "content-length"]),
+  });
   return { url, headers: { "content-type": "application/octet-stream" }, expiresInSeconds: PRESIGN_SECONDS };
 }
 
 /** Stores bytes under a key with the app's own credentials (the content-addressed copy of a checked upload). */
 export async function putObjectBytes(key: string, body: Uint8Array): Promise<void> {
   await clients().internal.send(
-    new PutObjectCommand({ Bucket: env().S3_BUCKET, Key: key, Body: body, ContentLength: body.length, ContentType: "application/octet-stream" }),
+    new PutObjectCommand({
+      Bucket: env().S3_BUCKET,
+      Key: key,
+      Body: body,
+      ContentLength: body.length,
+      ContentType: "application/octet-stream",
+    }),
   );
 }
 

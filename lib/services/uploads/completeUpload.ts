@@ -1,6 +1,6 @@
 import "server-only";
 import { and, eq } from "drizzle-orm";
-import { uploads } from "@/db/schema";
+import { uploads, type Upload } from "@/db/schema";
 import { sha256Hex } from "@/lib/auth/secrets";
 import { assertCan } from "@/lib/base/permissions";
 import { enqueueProcessUpload } from "@/lib/jobs/queue";
@@ -10,7 +10,10 @@ import type { Ctx } from "@/lib/base/context";
 import { conflict, invalid } from "@/lib/base/errors";
 import { loadUpload } from "./shared";
 
-const notArrived = "The file has not arrived in storage yet: send it with the presigned URL first (or ask for a new one if it expired).";
+const notArrived =
+  "The file has not arrived in storage yet: send it with the presigned URL first (or ask for a new one if it expired).";
+const sizeDiffers = (held: number, announced: number) =>
+  `Storage holds ${held} bytes but ${announced} were announced; upload the file again.`;
 
 /**
  * The browser or script says the bytes are in storage. They sit at the upload's staging key, which
@@ -33,16 +36,20 @@ export async function completeUpload({ ctx, input }: { ctx: Ctx; input: { id: st
   const size = await objectSize(u.storageKey);
   if (size == null) return reported();
   if (size !== u.sizeBytes) {
-    await refuse(ctx, u, `Storage holds ${size} bytes but ${u.sizeBytes} were announced; upload the file again.`);
+    await refuse(ctx, u, sizeDiffers(size, u.sizeBytes));
   }
   const bytes = await getObjectBytes(u.storageKey).catch((e) => (isNotFound(e) ? null : Promise.reject(e)));
   if (!bytes) return reported();
   if (bytes.length !== u.sizeBytes) {
-    await refuse(ctx, u, `Storage holds ${bytes.length} bytes but ${u.sizeBytes} were announced; upload the file again.`);
+    await refuse(ctx, u, sizeDiffers(bytes.length, u.sizeBytes));
   }
   const got = sha256Hex(bytes);
   if (got !== u.sha256) {
-    await refuse(ctx, u, `The bytes received do not match the file's SHA-256 (${u.sha256.slice(0, 12)}…, received ${got.slice(0, 12)}…): the transfer was damaged or the file changed. Upload the file again.`);
+    const message =
+      `The bytes received do not match the file's SHA-256 ` +
+      `(${u.sha256.slice(0, 12)}…, received ${got.slice(0, 12)}…): ` +
+      "the transfer was damaged or the file changed. Upload the file again.";
+    await refuse(ctx, u, message);
   }
   // The checked bytes themselves (not a copy of the staging key, which a URL may have rewritten since).
   await putObjectBytes(target, bytes);
@@ -59,11 +66,16 @@ export async function completeUpload({ ctx, input }: { ctx: Ctx; input: { id: st
 }
 
 /** Removes bytes that are not the declared file (never a content-addressed copy) and refuses with the reason. */
-async function refuse(ctx: Ctx, u: { id: string; labId: string; sha256: string; storageKey: string }, message: string): Promise<never> {
+type Staged = Pick<Upload, "id" | "labId" | "sha256" | "storageKey">;
+async function refuse(ctx: Ctx, u: Staged, message: string): Promise<never> {
   if (u.storageKey !== rawKey(u.labId, u.sha256)) await deleteObject(u.storageKey);
-  await ctx.db.update(uploads).set({ message, updatedAt: new Date() }).where(and(eq(uploads.id, u.id), eq(uploads.status, "pending")));
+  await ctx.db
+    .update(uploads)
+    .set({ message, updatedAt: new Date() })
+    .where(and(eq(uploads.id, u.id), eq(uploads.status, "pending")));
   throw invalid(message);
 }
 
 const isNotFound = (e: unknown) =>
-  (e as { name?: string }).name === "NoSuchKey" || (e as { $metadata?: { httpStatusCode?: number } }).$metadata?.httpStatusCode === 404;
+  (e as { name?: string }).name === "NoSuchKey" ||
+  (e as { $metadata?: { httpStatusCode?: number } }).$metadata?.httpStatusCode === 404;

@@ -11,6 +11,11 @@ import type { Ctx } from "@/lib/base/context";
 import { notFound, tooLarge } from "@/lib/base/errors";
 import { parseInput } from "../parse";
 
+const duplicateTicket = (u: Upload): UploadTicket => ({
+  ...{ id: u.id, name: u.fileName, status: u.status, duplicate: true, url: null },
+  ...{ method: "PUT", headers: {}, expiresInSeconds: null },
+});
+
 const canSendAgain = (u: Upload) => u.status === "pending" || (u.status === "failed" && u.hashMismatch);
 
 /**
@@ -21,7 +26,10 @@ const canSendAgain = (u: Upload) => u.status === "pending" || (u.status === "fai
 async function sendAgain(ctx: Ctx, u: Upload, size: number): Promise<Upload> {
   const [row] = await ctx.db
     .update(uploads)
-    .set({ status: "pending", hashMismatch: false, message: null, sizeBytes: size, storageKey: stagingKey(u.labId, u.id), updatedAt: new Date() })
+    .set({
+      ...{ status: "pending" as const, hashMismatch: false, message: null, sizeBytes: size },
+      ...{ storageKey: stagingKey(u.labId, u.id), updatedAt: new Date() },
+    })
     .where(and(eq(uploads.id, u.id), or(eq(uploads.status, "pending"), and(eq(uploads.status, "failed"), eq(uploads.hashMismatch, true)))))
     .returning();
   return row ?? (await ctx.db.select().from(uploads).where(eq(uploads.id, u.id)))[0];
@@ -65,7 +73,7 @@ export async function createUploads({ ctx, input }: { ctx: Ctx; input: unknown }
     const dup = bySha.get(f.sha256);
     // A registered file whose bytes never arrived, or whose bytes did not match its hash, may be sent again.
     if (dup && !canSendAgain(dup)) {
-      out.push({ id: dup.id, name: dup.fileName, status: dup.status, duplicate: true, url: null, method: "PUT", headers: {}, expiresInSeconds: null });
+      out.push(duplicateTicket(dup));
       continue;
     }
     const id = randomUUID();
@@ -74,13 +82,17 @@ export async function createUploads({ ctx, input }: { ctx: Ctx; input: unknown }
       : ((
           await ctx.db
             .insert(uploads)
-            .values({ id, labId: ctx.actor.labId, sessionId: data.sessionId, fileName: f.name, sizeBytes: f.size, sha256: f.sha256, storageKey: stagingKey(ctx.actor.labId, id), status: "pending", createdBy: ctx.actor.userId })
+            .values({
+              ...{ id, labId: ctx.actor.labId, sessionId: data.sessionId, fileName: f.name, sizeBytes: f.size },
+              ...{ sha256: f.sha256, storageKey: stagingKey(ctx.actor.labId, id), status: "pending" as const },
+              createdBy: ctx.actor.userId,
+            })
             .onConflictDoNothing()
             .returning()
         )[0] ?? (await ctx.db.select().from(uploads).where(and(eq(uploads.labId, ctx.actor.labId), eq(uploads.sha256, f.sha256))))[0]);
     bySha.set(f.sha256, row);
     if (!canSendAgain(row)) {
-      out.push({ id: row.id, name: row.fileName, status: row.status, duplicate: true, url: null, method: "PUT", headers: {}, expiresInSeconds: null });
+      out.push(duplicateTicket(row));
       continue;
     }
     const put = await presignPut(row.storageKey, f.size);
