@@ -29,6 +29,9 @@ type Ticket = {
   duplicate: boolean;
   url: string | null;
   headers: Record<string, string>;
+  expiresInSeconds?: number | null;
+  /** When the server issued the URL (ms, this browser's clock). */
+  issuedAt?: number;
 };
 type LocalState = {
   key: string;
@@ -118,7 +121,8 @@ export function UploadPanel({
             sessionId,
             files: part.map((h) => ({ name: h.file.name, size: h.file.size, sha256: h.sha256 })),
           });
-          tickets = tickets.concat(res.uploads);
+          const issuedAt = Date.now();
+          tickets = tickets.concat(res.uploads.map((t) => ({ ...t, issuedAt })));
         }
       } catch (e) {
         const message = e instanceof ApiError ? e.message : "The upload could not be registered.";
@@ -127,7 +131,7 @@ export function UploadPanel({
         return;
       }
       const work = hashed.map((h, i) => ({ ...h, ticket: tickets[i] }));
-      const sendOne = async ({ key, file, ticket }: (typeof work)[number]) => {
+      const sendOne = async ({ key, file, ticket, sha256 }: (typeof work)[number]) => {
         patch(key, { uploadId: ticket.id, duplicate: ticket.duplicate });
         if (ticket.duplicate) {
           patch(key, { phase: "sent", progress: 1 });
@@ -135,7 +139,11 @@ export function UploadPanel({
         }
         try {
           patch(key, { phase: "uploading" });
-          await putWithProgress(ticket.url!, file, ticket.headers, (p) => patch(key, { progress: p }));
+          // URLs live a few minutes: one near its end is asked for again before sending.
+          const left = (ticket.issuedAt ?? 0) + (ticket.expiresInSeconds ?? Infinity) * 1000 - Date.now();
+          const again = { sessionId, files: [{ name: file.name, size: file.size, sha256 }] };
+          const now = left > 60_000 ? ticket : (await api<{ uploads: Ticket[] }>(lab, "POST", "/uploads", again)).uploads[0];
+          if (now.url) await putWithProgress(now.url, file, now.headers, (p) => patch(key, { progress: p }));
           await api(lab, "POST", `/uploads/${ticket.id}/complete`);
           patch(key, { phase: "sent", progress: 1 });
         } catch (e) {

@@ -37,6 +37,11 @@ export const uploads = pgTable(
      * the services); false when the file itself cannot be read, which a retry reads the same way.
      */
     retryable: boolean("retryable").notNull().default(false),
+    /**
+     * The bytes in storage did not match the declared SHA-256 (a damaged transfer or storage
+     * fault): the row holds no file, so the genuine file may be sent again under it.
+     */
+    hashMismatch: boolean("hash_mismatch").notNull().default(false),
     spectraCount: integer("spectra_count").notNull().default(0),
     warnings: jsonb("warnings").$type<string[]>().notNull().default([]),
     attempts: integer("attempts").notNull().default(0),

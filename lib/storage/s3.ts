@@ -1,5 +1,5 @@
 import "server-only";
-import { GetObjectCommand, HeadObjectCommand, PutObjectCommand, S3Client } from "@aws-sdk/client-s3";
+import { DeleteObjectCommand, GetObjectCommand, HeadObjectCommand, PutObjectCommand, S3Client } from "@aws-sdk/client-s3";
 import { getSignedUrl } from "@aws-sdk/s3-request-presigner";
 import { env } from "@/lib/env";
 
@@ -30,19 +30,64 @@ function clients() {
   return globalForS3.bandcrossS3;
 }
 
-export const PRESIGN_SECONDS = 15 * 60;
+/**
+ * Lifetime of a presigned PUT. Anyone holding the URL may write its key until then, so it is short;
+ * clients ask again for a file whose URL is about to run out (`bandcross push`, the upload panel).
+ */
+export const PRESIGN_SECONDS = 5 * 60;
 
-/** Where a lab's raw file lives: content-addressed, so the same bytes are stored once per lab. */
+const STAGING = "staging/";
+const RAW = "raw/";
+
+/**
+ * Where a lab's raw file lives once its SHA-256 was checked: content-addressed, so the same bytes
+ * are stored once per lab. Only the server writes here (`putObjectBytes`), never a presigned URL.
+ * Files stored before staging existed sit at `labs/<lab>/raw/<sha256>`; their upload rows name
+ * that key, and every read goes through the row's key.
+ */
 export function rawKey(labId: string, sha256: string): string {
-  return `labs/${labId}/raw/${sha256}`;
+  return `${RAW}${labId}/${sha256}`;
 }
 
+/** Where the browser or the command line puts an upload's bytes with a presigned PUT. */
+export function stagingKey(labId: string, uploadId: string): string {
+  return `${STAGING}${labId}/${uploadId}`;
+}
+
+export const isStagingKey = (key: string) => key.startsWith(STAGING);
+
+/**
+ * A presigned PUT for a staging key (refused for any other: the bytes a spectrum came from are
+ * never writable by a URL). The signature covers content-length, so S3 refuses a body of another
+ * size than declared (the storage fake checks no signatures; completion checks the size again).
+ */
 export async function presignPut(key: string, size: number): Promise<{ url: string; headers: Record<string, string>; expiresInSeconds: number }> {
+  if (!isStagingKey(key)) throw new Error(`presigned PUTs go to staging keys only, not ${key}`);
   const command = new PutObjectCommand({ Bucket: env().S3_BUCKET, Key: key, ContentType: "application/octet-stream", ContentLength: size });
-  const url = await getSignedUrl(clients().presign, command, { expiresIn: PRESIGN_SECONDS, signableHeaders: new Set(["content-type"]) });
+  const url = await getSignedUrl(clients().presign, command, {
+    expiresIn: PRESIGN_SECONDS,
+    signableHeaders: new Set(["content-type", "content-length"]),
+  });
   return { url, headers: { "content-type": "application/octet-stream" }, expiresInSeconds: PRESIGN_SECONDS };
 }
 
+/** Stores bytes under a key with the app's own credentials (the content-addressed copy of a checked upload). */
+export async function putObjectBytes(key: string, body: Uint8Array): Promise<void> {
+  await clients().internal.send(
+    new PutObjectCommand({
+      Bucket: env().S3_BUCKET,
+      Key: key,
+      Body: body,
+      ContentLength: body.length,
+      ContentType: "application/octet-stream",
+    }),
+  );
+}
+
+/** Removes an object (absent is fine). */
+export async function deleteObject(key: string): Promise<void> {
+  await clients().internal.send(new DeleteObjectCommand({ Bucket: env().S3_BUCKET, Key: key }));
+}
 
 /** Size of a stored object, or null when it is not there. */
 export async function objectSize(key: string): Promise<number | null> {

@@ -7,6 +7,7 @@
 import pLimit from "p-limit";
 import type PgBoss from "pg-boss";
 import type { Faults } from "@/lib/base/context";
+import { JobLeases } from "@/lib/jobs/leases";
 import { boss, QUEUES, stopBoss, type NotifyEventJob, type ProcessUploadJob, type ReanalyzeSampleJob, type RefitSampleJob } from "@/lib/jobs/queue";
 import { deliverEvent } from "@/lib/services/alerts/deliverEvent";
 import { runRefit } from "@/lib/services/analysis/runRefit";
@@ -30,6 +31,9 @@ function testFaults(): Faults | undefined {
 
 export async function startWorker(): Promise<() => Promise<void>> {
   const b = await boss("worker");
+  // Jobs of a worker that stopped are taken up by the others (and by this one when it restarts).
+  const leases = new JobLeases(b);
+  await leases.start();
   const ctx = systemContext("worker", testFaults());
   const concurrency = Number(process.env.WORKER_CONCURRENCY ?? 2);
   const handleUpload = async (job: PgBoss.JobWithMetadata<ProcessUploadJob>) => {
@@ -51,9 +55,10 @@ export async function startWorker(): Promise<() => Promise<void>> {
   const batchSize = Math.max(concurrency, Number(process.env.WORKER_BATCH ?? 4 * concurrency));
   await b.work<ProcessUploadJob>(QUEUES.processUpload, { includeMetadata: true, batchSize, pollingIntervalSeconds: 0.5 }, async (jobs) => {
     const limit = pLimit(concurrency);
-    await Promise.all(jobs.map((job) => limit(() => handleUpload(job))));
+    await leases.holding(jobs, () => Promise.all(jobs.map((job) => limit(() => handleUpload(job)))));
   });
-  await b.work<ReanalyzeSampleJob>(QUEUES.reanalyzeSample, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
+  await b.work<ReanalyzeSampleJob>(QUEUES.reanalyzeSample, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async (jobs) => leases.holding(jobs, async () => {
+    const [job] = jobs;
     const started = Date.now();
     let out;
     try {
@@ -63,15 +68,17 @@ export async function startWorker(): Promise<() => Promise<void>> {
       throw e;
     }
     log(`${QUEUES.reanalyzeSample} ${job.data.sampleId}: ${out === "superseded" ? "superseded by a newer version" : "done"} in ${Date.now() - started} ms (${job.data.reason})`);
-  });
-  await b.work<RefitSampleJob>(QUEUES.refitSample, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
+  }));
+  await b.work<RefitSampleJob>(QUEUES.refitSample, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async (jobs) => leases.holding(jobs, async () => {
+    const [job] = jobs;
     const started = Date.now();
     await runRefit({ ctx, input: job.data });
     log(`${QUEUES.refitSample} ${job.data.sampleId}: done in ${Date.now() - started} ms (${job.data.reason})`);
-  });
+  }));
   // Crossing alerts are decided inside every refit (refitSample → afterRefit); this queue only
   // e-mails them, so a mail-service outage is retried here without redoing any fit.
-  await b.work<NotifyEventJob>(QUEUES.notifyEvent, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
+  await b.work<NotifyEventJob>(QUEUES.notifyEvent, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async (jobs) => leases.holding(jobs, async () => {
+    const [job] = jobs;
     try {
       const out = await deliverEvent({ ctx, input: { eventId: job.data.eventId } });
       log(`${QUEUES.notifyEvent} ${job.data.eventId}: ${out.sent} sent, ${out.skipped} already sent or no longer watching`);
@@ -79,10 +86,11 @@ export async function startWorker(): Promise<() => Promise<void>> {
       log(`${QUEUES.notifyEvent} ${job.data.eventId}: attempt ${job.retryCount + 1} failed: ${(e as Error).message}`);
       throw e;
     }
-  });
+  }));
   log(`listening on ${Object.values(QUEUES).join(", ")} (concurrency ${concurrency})`);
   return async () => {
     await stopBoss();
+    await leases.stop();
     await closeSystemContext();
   };
 }

@@ -36,29 +36,42 @@ export async function waitForUploads(ids: string[], { timeoutMs = 60_000, until 
   for (;;) {
     const rows = await Promise.all(ids.map(async (id) => (await db().select().from(uploads).where(eq(uploads.id, id)))[0]));
     if (rows.every((r) => until.includes(r.status))) return rows;
-    if (Date.now() > deadline) throw new Error(`uploads still ${rows.map((r) => r.status).join(", ")} after ${timeoutMs} ms`);
+    if (Date.now() > deadline) {
+      const messages = [...new Set(rows.map((r) => r.message).filter(Boolean))].slice(0, 3).join(" | ");
+      throw new Error(`uploads still ${rows.map((r) => r.status).join(", ")} after ${timeoutMs} ms${messages ? ` (${messages})` : ""}`);
+    }
     await new Promise((r) => setTimeout(r, 200));
   }
 }
 
-/** Starts a worker process with the test environment (plus overrides); resolves once it listens. */
-export function startWorkerProcess(extraEnv: Record<string, string> = {}): Promise<ChildProcess> {
+/** A worker process started by a test, with everything it has printed so far. */
+export type WorkerProcess = ChildProcess & { output: () => string };
+
+/**
+ * Starts a worker process with the test environment (plus overrides); resolves once it listens.
+ * The queue's upkeep runs every second unless `productionTimings` keeps the product's defaults.
+ */
+export function startWorkerProcess(extraEnv: Record<string, string> = {}, { productionTimings = false } = {}): Promise<WorkerProcess> {
+  const env: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: "test", ...(!productionTimings && { JOB_MAINTENANCE_SECONDS: "1" }), ...extraEnv };
+  if (productionTimings) for (const k of Object.keys(env)) if (k.startsWith("JOB_") && !(k in extraEnv)) delete env[k];
   const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "lib/worker/worker.ts"], {
-    env: { ...process.env, NODE_ENV: "test", JOB_MAINTENANCE_SECONDS: "1", ...extraEnv },
+    env,
     stdio: ["ignore", "pipe", "pipe"],
-  });
+  }) as WorkerProcess;
   let log = "";
+  child.output = () => log;
+  child.stdout!.on("data", (d: Buffer) => (log += d.toString()));
+  child.stderr!.on("data", (d: Buffer) => (log += d.toString()));
   return new Promise((resolve, reject) => {
     const timer = setTimeout(() => reject(new Error(`worker did not start:\n${log}`)), 30_000);
-    const onData = (d: Buffer) => {
-      log += d.toString();
+    const onData = () => {
       if (log.includes("listening on")) {
         clearTimeout(timer);
+        child.stdout!.off("data", onData);
         resolve(child);
       }
     };
     child.stdout!.on("data", onData);
-    child.stderr!.on("data", (d: Buffer) => (log += d.toString()));
     child.on("exit", (code) => {
       clearTimeout(timer);
       if (!log.includes("listening on")) reject(new Error(`worker exited ${code}:\n${log}`));
@@ -67,7 +80,7 @@ export function startWorkerProcess(extraEnv: Record<string, string> = {}): Promi
 }
 
 export async function stopWorkerProcess(child: ChildProcess | undefined, signal: NodeJS.Signals = "SIGTERM"): Promise<void> {
-  if (!child || child.exitCode !== null) return;
+  if (!child || child.exitCode !== null || child.signalCode !== null) return;
   await new Promise<void>((resolve) => {
     child.once("exit", () => resolve());
     child.kill(signal);

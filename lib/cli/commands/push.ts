@@ -45,6 +45,7 @@ interface Ticket {
   duplicate: boolean;
   url: string | null;
   headers: Record<string, string>;
+  expiresInSeconds?: number | null;
 }
 interface Result {
   file: string;
@@ -131,23 +132,36 @@ export const push: Command = {
       return { path: f, name: path.relative(dir, f).split(path.sep).join("_"), bytes, sha256: createHash("sha256").update(bytes).digest("hex") };
     });
     const results = new Map<string, Result>();
-    const tickets: { local: (typeof local)[number]; t: Ticket }[] = [];
-    for (let i = 0; i < local.length; i += 200) {
-      const batch = local.slice(i, i + 200);
-      const { uploads } = await api.call<{ uploads: Ticket[] }>("POST", "/uploads", {
+    const tickets: { local: (typeof local)[number]; t: Ticket; at: number }[] = [];
+    const register = (batch: typeof local) =>
+      api.call<{ uploads: Ticket[] }>("POST", "/uploads", {
         sessionId: values.session,
         files: batch.map((f) => ({ name: f.name, size: f.bytes.length, sha256: f.sha256 })),
       });
-      uploads.forEach((t, j) => tickets.push({ local: batch[j], t }));
+    for (let i = 0; i < local.length; i += 200) {
+      const batch = local.slice(i, i + 200);
+      const at = Date.now();
+      const { uploads } = await register(batch);
+      uploads.forEach((t, j) => tickets.push({ local: batch[j], t, at }));
     }
+    // Upload URLs live a few minutes: a file whose URL is near its end asks for a fresh one first.
+    const fresh = async (x: (typeof tickets)[number]): Promise<Ticket> => {
+      const life = (x.t.expiresInSeconds ?? Infinity) * 1000;
+      if (Date.now() - x.at < life - 60_000) return x.t;
+      const { uploads } = await register([x.local]);
+      return uploads[0];
+    };
 
     const bar = progress(io, tty);
     let sent = 0;
     const toSend = tickets.filter((x) => !x.t.duplicate);
     bar.show("uploading", 0, toSend.length);
-    await pool(toSend, PUT_CONCURRENCY, async ({ local: f, t }) => {
+    await pool(toSend, PUT_CONCURRENCY, async (x) => {
+      const { local: f, t } = x;
       try {
-        const res = await fetch(t.url!, { method: "PUT", headers: t.headers, body: f.bytes });
+        const now = await fresh(x);
+        if (now.duplicate || !now.url) return void bar.show("uploading", ++sent, toSend.length);
+        const res = await fetch(now.url, { method: "PUT", headers: now.headers, body: f.bytes });
         if (!res.ok) throw new Error(`storage answered HTTP ${res.status}`);
         await api.call("POST", `/uploads/${t.id}/complete`);
       } catch (e) {

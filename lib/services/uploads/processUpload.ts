@@ -40,7 +40,12 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
 
   const bytes = await getObjectBytes(u.storageKey);
   if (sha256Hex(bytes) !== u.sha256) {
-    return fail(db, u.id, "The stored bytes do not match the file's SHA-256: the transfer was damaged. Upload the file again.");
+    // Checked at completion, so storage itself changed them. The row holds no file: the genuine
+    // file may be sent again under it (createUploads), instead of being taken for a duplicate.
+    await db.update(uploads).set({ hashMismatch: true }).where(and(eq(uploads.id, u.id), ne(uploads.status, "done")));
+    const message =
+      "The stored bytes do not match the file's SHA-256: the stored copy was damaged. Upload the file again.";
+    return fail(db, u.id, message);
   }
   const files = importSpectra(u.fileName, bytes);
   await faults.afterParse?.();
