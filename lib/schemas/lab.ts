@@ -139,15 +139,15 @@ export type NewLabInput = z.infer<typeof newLabInput>;
 
 /** `/setup`: the group's first own lab and its first owner, guarded by the setup code of the start log. */
 export const setupInput = newLabInput.extend({
-  code: z.string().trim().min(1, "Enter the setup code from the start log."),
-  ownerName: z.string().trim().min(1, "Tell us your name.").max(120, "At most 120 characters."),
-  email: z.string().trim().toLowerCase().email("Enter an e-mail address."),
+  code: text().trim().min(1, "Enter the setup code from the start log."),
+  ownerName: text().trim().min(1, "Tell us your name.").max(120, "At most 120 characters."),
+  email: text().trim().toLowerCase().email("Enter an e-mail address."),
   password: passwordSchema,
 });
 
 /** `bandcross lab create`: a lab made on the server for an owner who is invited by a link. */
 export const labForOwnerInput = newLabInput.extend({
-  ownerEmail: z.string().trim().toLowerCase().email("Enter the owner's e-mail address."),
+  ownerEmail: text().trim().toLowerCase().email("Enter the owner's e-mail address."),
 });
 
 /** The lab's setting for spectra whose automatic pick carries a quality flag, in the critical-field fit. */
