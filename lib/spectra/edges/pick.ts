@@ -414,22 +414,15 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
         bl = fitBaselineOn(bias, y, s, sm.gain, tr.from, tr.to, st.baseline.maxDegree, st.baseline.widthPerDegree_mV / 1000);
       }
     }
-    if (prev && prev.bl.degree + bl.degree >= 1 && !baselinesAgree(prev.bl, bl, bias)) {
-      // The wider region's baseline disagrees with the narrower one where both hold: the region has
-      // grown into a band (a weak onset the threshold crossed late), not along the floor. Keep the last
-      // edges that agreed.
-      bl = prev.bl;
-      e = prev.e;
-      for (let i = 0; i < n; i++) {
-        base[i] = baselineAt(bl, bias[i]);
-        d[i] = s[i] - base[i];
-      }
-      break;
-    }
+    // A wider region whose baseline disagrees with the narrower one where both hold has grown into a
+    // band (a weak onset the threshold crossed late), not along the floor: keep the last edges that agreed.
+    const grewIntoBand = prev !== null && prev.bl.degree + bl.degree >= 1 && !baselinesAgree(prev.bl, bl, bias);
+    if (grewIntoBand) ({ bl, e } = prev!);
     for (let i = 0; i < n; i++) {
       base[i] = baselineAt(bl, bias[i]);
       d[i] = s[i] - base[i];
     }
+    if (grewIntoBand) break;
     const next = walk(d, bl.iMin, st.threshold.k * bl.sigmaSmoothed);
     const same = next.v?.index === e.v?.index && next.c?.index === e.c?.index;
     // An edge lost against the new baseline means that baseline does not hold beyond its region
