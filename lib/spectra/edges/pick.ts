@@ -355,7 +355,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     // A tilted floor (a linear background): under the right tilt the gap is one long quiet run. Take
     // the tilt for the first look only when it at least doubles the run; the baseline fit below then
     // judges the slope on the data.
-    const qt = quietTilt(bias, s, sigmaWide, st.threshold.k, lo + margin, hi - margin, nf.iMin);
+    const qt = quietTilt(bias, s, top, sigmaWide, st.threshold.k, lo + margin, hi - margin, nf.iMin);
     if (qt.slope !== 0 && qt.to - qt.from + 1 >= 2 * qt.flatWidth && bias[qt.to] - bias[qt.from] >= Math.max(8 * res_V, 0.04)) {
       const c = 0.5 * (bias[qt.from] + bias[qt.to]);
       const f0 = median(Float64Array.from({ length: qt.to - qt.from + 1 }, (_, j) => y[qt.from + j] - qt.slope * (bias[qt.from + j] - c)));
