@@ -8,8 +8,12 @@ export type Edges = { vb: number; cb: number };
 
 type Shape = Record<string, unknown>;
 
-/** The noise floor and threshold as dotted and dashed lines across the plot, each with its words. */
-function levels(a: SpectrumData["analysis"]): { shapes: Shape[]; annotations: Shape[] } {
+/**
+ * The noise floor and threshold the edges were read against, dotted and dashed, each with its words:
+ * lines across the plot for a flat floor, curves along the bias for a sloped or curved one (the picker's
+ * baseline, and the threshold at its height above it), so the plot shows what the flags speak of.
+ */
+function levels(a: SpectrumData["analysis"], bias: number[]): { traces: Shape[]; shapes: Shape[]; annotations: Shape[] } {
   const line = (y: number, color: string, dash: string) => ({
     type: "line",
     xref: "paper",
@@ -30,7 +34,17 @@ function levels(a: SpectrumData["analysis"]): { shapes: Shape[]; annotations: Sh
     showarrow: false,
     font: { size: 10, color },
   });
-  const out = { shapes: [] as Shape[], annotations: [] as Shape[] };
+  const out = { traces: [] as Shape[], shapes: [] as Shape[], annotations: [] as Shape[] };
+  if (a.baseline && a.baselineDegree && a.thresholdOffset != null && a.baseline.length === bias.length) {
+    const last = bias.length - 1;
+    const curve = (y: number[], text: string, color: string, dash: string, above: boolean) => {
+      out.traces.push({ x: bias, y, type: "scatter", mode: "lines", line: { color, width: 1, dash }, hoverinfo: "skip", showlegend: false });
+      out.annotations.push({ ...label(y[last], text, color, true), xref: "x", x: bias[last], yanchor: above ? "bottom" : "top" });
+    };
+    curve(a.baseline, "noise floor (sloped)", "#6e6a5f", "dot", false);
+    curve(a.baseline.map((v) => v + a.thresholdOffset!), "threshold", "#b9512a", "dash", true);
+    return out;
+  }
   if (a.noiseFloor != null) {
     out.shapes.push(line(a.noiseFloor, "#6e6a5f", "dot"));
     out.annotations.push(label(a.noiseFloor, "noise floor", "#6e6a5f", false));
@@ -73,7 +87,8 @@ export function reviewFigure(
       name: `smoothed (${a.smoothing})`,
     },
   ];
-  const { shapes, annotations } = levels(a);
+  const { traces: levelTraces, shapes, annotations } = levels(a, b);
+  traces.push(...levelTraces);
   const edgeShape = (x: number, edge: Edge) => ({
     type: "line",
     yref: "paper",

@@ -29,7 +29,8 @@ export const QUALITY_FLAG_LABELS: Record<QualityFlagCode, string> = {
 
 /** What each flag means, for help text and tooltips. */
 export const QUALITY_FLAG_HELP: Record<QualityFlagCode, string> = {
-  "unreliable-edge": "The independent estimates of a band edge (threshold, log-scale onset, broadening-aware fit) disagree beyond their uncertainties.",
+  "unreliable-edge":
+    "The data do not pin a band edge down: its estimates disagree beyond their uncertainties, or they depend on a choice the data cannot make (a weak onset against a sloping floor).",
   "sloped-background": "The in-gap floor is not flat (tip density of states, bias-dependent transmission); the edges were read against a sloped baseline.",
   glitch: "Single-point spikes were replaced by the mean of their neighbours before picking.",
   clipped: "The signal sits at a constant maximum or minimum over several points (amplifier or lock-in saturation).",

@@ -4,7 +4,7 @@
  * σ is 1.4826 × their median absolute deviation (MAD → σ for Gaussian noise). Three passes, starting
  * from the smoothed minimum and the MAD of the smoothing residuals over the whole spectrum.
  */
-import { madSigma, median, quantile } from "../stats";
+import { madSigma, median } from "../stats";
 
 
 export interface NoiseFloor {
@@ -66,15 +66,17 @@ export function noiseFloor(y: Float64Array, s: Float64Array, gain: number, k: nu
  * the rest of the gap read as a band. Under the right tilt the floor is one long quiet run: for each
  * trial slope m (a coarse grid, then a finer one around the best), the run of the smoothed curve minus
  * m·V around its minimum that stays below that minimum + 2k·σ_smoothed; the slope giving the longest
- * run wins, slope 0 on ties. The run must hold the flat look's minimum `iMin` (the lowest point of a tilted
- * floor is its lower end; a long straight stretch of a band elsewhere is a run too, but not the floor). The caller decides whether the tilt is worth taking (it must lengthen the
- * run by far) and the baseline fit decides from the data whether the slope is real.
+ * run wins, slope 0 on ties. The run must hold the flat look's minimum `iMin` (the lowest point of a
+ * tilted floor is its lower end; a long straight stretch of a band elsewhere is a run too, but not the
+ * floor). The caller decides whether the tilt is worth taking (it must lengthen the run by far) and the
+ * baseline fit decides from the data whether the slope is real.
  */
-export function quietTilt(bias: Float64Array, s: Float64Array, sigmaSmoothed: number, k: number, lo: number, hi: number, iMin: number): { slope: number; from: number; to: number; flatWidth: number } {
+export function quietTilt(bias: Float64Array, s: Float64Array, top: number, sigmaSmoothed: number, k: number, lo: number, hi: number, iMin: number): { slope: number; from: number; to: number; flatWidth: number } {
   const c = 0.5 * (bias[lo] + bias[hi]);
   let sMin = s[lo];
   for (let i = lo; i <= hi; i++) if (s[i] < sMin) sMin = s[i];
-  const spread = quantile(s.subarray(lo, hi + 1), 0.95) - sMin;
+  // Slopes up to twice the signal's spread (`top`: its 95th percentile, which the caller has) per range.
+  const spread = top - sMin;
   const mMax = (2 * spread) / Math.max(bias[hi] - bias[lo], 1e-12);
   const run = (m: number) => {
     let j = lo;

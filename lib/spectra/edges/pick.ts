@@ -355,7 +355,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     // A tilted floor (a linear background): under the right tilt the gap is one long quiet run. Take
     // the tilt for the first look only when it at least doubles the run; the baseline fit below then
     // judges the slope on the data.
-    const qt = quietTilt(bias, s, sigmaWide, st.threshold.k, lo + margin, hi - margin, nf.iMin);
+    const qt = quietTilt(bias, s, top, sigmaWide, st.threshold.k, lo + margin, hi - margin, nf.iMin);
     if (qt.slope !== 0 && qt.to - qt.from + 1 >= 2 * qt.flatWidth && bias[qt.to] - bias[qt.from] >= Math.max(8 * res_V, 0.04)) {
       const c = 0.5 * (bias[qt.from] + bias[qt.to]);
       const f0 = median(Float64Array.from({ length: qt.to - qt.from + 1 }, (_, j) => y[qt.from + j] - qt.slope * (bias[qt.from + j] - c)));
@@ -414,22 +414,15 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
         bl = fitBaselineOn(bias, y, s, sm.gain, tr.from, tr.to, st.baseline.maxDegree, st.baseline.widthPerDegree_mV / 1000);
       }
     }
-    if (prev && prev.bl.degree + bl.degree >= 1 && !baselinesAgree(prev.bl, bl, bias)) {
-      // The wider region's baseline disagrees with the narrower one where both hold: the region has
-      // grown into a band (a weak onset the threshold crossed late), not along the floor. Keep the last
-      // edges that agreed.
-      bl = prev.bl;
-      e = prev.e;
-      for (let i = 0; i < n; i++) {
-        base[i] = baselineAt(bl, bias[i]);
-        d[i] = s[i] - base[i];
-      }
-      break;
-    }
+    // A wider region whose baseline disagrees with the narrower one where both hold has grown into a
+    // band (a weak onset the threshold crossed late), not along the floor: keep the last edges that agreed.
+    const grewIntoBand = prev !== null && prev.bl.degree + bl.degree >= 1 && !baselinesAgree(prev.bl, bl, bias);
+    if (grewIntoBand) ({ bl, e } = prev!);
     for (let i = 0; i < n; i++) {
       base[i] = baselineAt(bl, bias[i]);
       d[i] = s[i] - base[i];
     }
+    if (grewIntoBand) break;
     const next = walk(d, bl.iMin, st.threshold.k * bl.sigmaSmoothed);
     const same = next.v?.index === e.v?.index && next.c?.index === e.c?.index;
     // An edge lost against the new baseline means that baseline does not hold beyond its region
