@@ -28,8 +28,10 @@ export function signToken(secret: string, purpose: string, payload: Record<strin
 export function verifyToken(secret: string, purpose: string, token: string): Record<string, string> | null {
   const [body, sig] = token.split(".");
   if (!body || !sig) return null;
-  const expected = createHmac("sha256", secret).update(`${purpose}.${body}`).digest();
-  const given = Buffer.from(sig, "base64url");
+  // Compared as text, not as decoded bytes: base64url decoding ignores the last character's unused bits,
+  // so another spelling of the same signature would pass (RFC 4648 §3.5).
+  const expected = Buffer.from(createHmac("sha256", secret).update(`${purpose}.${body}`).digest("base64url"));
+  const given = Buffer.from(sig);
   if (given.length !== expected.length || !timingSafeEqual(given, expected)) return null;
   try {
     return JSON.parse(Buffer.from(body, "base64url").toString("utf8"));
