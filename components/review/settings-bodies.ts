@@ -24,7 +24,7 @@ export function settingsBody(f: FormData) {
         fftCutoff_mV: num(f.get("fftCutoff_mV")),
       },
       threshold: { k: num(f.get("k")), consecutive: num(f.get("consecutive")), sustain_mV: num(f.get("sustain_mV")) },
-      baseline: { maxDegree: num(f.get("maxDegree")) },
+      baseline: { maxDegree: num(f.get("maxDegree")), tiltedLook: f.get("tiltedLook") === "on" },
       search: { minBias_V: num(f.get("minBias_V")), maxBias_V: num(f.get("maxBias_V")) },
       fit: { enabled: f.get("fit") === "on" },
     },

@@ -77,6 +77,10 @@ export function ReadOnlyVersions({ data }: { data: SampleVersions }) {
                 "a slope or curve",
           ],
           [
+            "First look",
+            s.baseline?.tiltedLook === false ? "flat floor" : "a tilted or curved floor where the gap is one quiet run under it, else flat",
+          ],
+          [
             "Search",
             s.search?.minBias_V == null && s.search?.maxBias_V == null
               ? "whole spectrum"

@@ -91,6 +91,10 @@ export function ExtractionSettingsForm({ data, fe, onSubmit }: FormProps) {
           <input type="checkbox" name="fit" defaultChecked={s.fit?.enabled} /> refine each edge with the
           broadening-aware fit (thermal and lock-in kernels)
         </label>
+        <label className="flex items-center gap-2 text-sm sm:col-span-2">
+          <input type="checkbox" name="tiltedLook" defaultChecked={s.baseline?.tiltedLook ?? true} /> look for a
+          tilted or curved in-gap floor before a flat one
+        </label>
         <NoteField fe={fe} />
       </fieldset>
       <div className="flex justify-end">

@@ -53,6 +53,11 @@ export const extractionSettingsSchema = z.object({
     maxDegree: number().int().min(0).max(2),
     /** The quiet region must span this many mV per degree above 0. */
     widthPerDegree_mV: positive,
+    /**
+     * Before the flat first look is used, look for a tilted or curved floor under which the gap is one
+     * long quiet run whose ends rise like band onsets (edges/noise.ts: quietTilt, quietCurve).
+     */
+    tiltedLook: z.boolean(),
   }),
   /** Restrict the search for the gap to this bias range (V); null = whole spectrum. */
   search: z.object({ minBias_V: number().nullable(), maxBias_V: number().nullable() }),
@@ -91,7 +96,7 @@ export const DEFAULT_EXTRACTION_SETTINGS: ExtractionSettings = deepFreeze({
     minWindowPoints: 5,
   },
   threshold: { k: 3, consecutive: 3, sustain_mV: 40 },
-  baseline: { maxDegree: 2, widthPerDegree_mV: 60 },
+  baseline: { maxDegree: 2, widthPerDegree_mV: 60, tiltedLook: true },
   search: { minBias_V: null, maxBias_V: null },
   fit: { enabled: true, bandWindowPerResolution: 4, minBandWindow_mV: 30 },
   closed: { vShapeMaxDeviation: 1 },

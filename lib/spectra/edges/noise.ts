@@ -4,7 +4,7 @@
  * σ is 1.4826 × their median absolute deviation (MAD → σ for Gaussian noise). Three passes, starting
  * from the smoothed minimum and the MAD of the smoothing residuals over the whole spectrum.
  */
-import { madSigma, median } from "../stats";
+import { linearLeastSquares, madSigma, median } from "../stats";
 
 
 export interface NoiseFloor {
@@ -107,4 +107,38 @@ export function quietTilt(bias: Float64Array, s: Float64Array, top: number, sigm
     scan(best.slope - dm, best.slope + dm, 20);
   }
   return { slope: best.slope, from: best.from, to: best.to, flatWidth: flat.width };
+}
+
+/**
+ * The quiet run of a curved floor (a tilt plus curvature: a bias-dependent transmission or the tip's
+ * density of states): starting from a quiet run, fit a quadratic to the smoothed signal over it and take
+ * the run of points within 2k·σ of that quadratic's lowest residual, around it; repeat while the run
+ * grows (at most `rounds` times). Returns the quadratic (value at bias b: c0 + c1·x + c2·x², x = b − center)
+ * and the run, or null when the fit fails.
+ */
+export function quietCurve(bias: Float64Array, s: Float64Array, sigmaSmoothed: number, k: number, lo: number, hi: number, from: number, to: number, rounds = 4): { coef: [number, number, number]; center: number; from: number; to: number } | null {
+  let out: { coef: [number, number, number]; center: number; from: number; to: number } | null = null;
+  for (let r = 0; r < rounds; r++) {
+    const npts = to - from + 1;
+    if (npts < 12) return out;
+    const center = 0.5 * (bias[from] + bias[to]);
+    const x = Float64Array.from({ length: npts }, (_, i) => bias[from + i] - center);
+    const fit = linearLeastSquares([new Float64Array(npts).fill(1), x, x.map((v) => v * v)], s.subarray(from, to + 1));
+    if (!fit) return out;
+    const coef: [number, number, number] = [fit.coef[0], fit.coef[1], fit.coef[2]];
+    const d = (i: number) => s[i] - (coef[0] + coef[1] * (bias[i] - center) + coef[2] * (bias[i] - center) ** 2);
+    let j = from;
+    for (let i = from; i <= to; i++) if (d(i) < d(j)) j = i;
+    const level = d(j) + 2 * k * sigmaSmoothed;
+    let a = j;
+    let b = j;
+    while (a > lo && d(a - 1) < level) a--;
+    while (b < hi && d(b + 1) < level) b++;
+    const grew = b - a > to - from;
+    out = { coef, center, from: a, to: b };
+    if (!grew) return out;
+    from = a;
+    to = b;
+  }
+  return out;
 }

@@ -172,6 +172,47 @@ describe("tilted floors (a linear background in dI/dV)", () => {
     // Open: tilted-10 of this seed (a 62 meV error, u 9 meV, no flag) is still read short.
     expect(xs.filter((x) => errMeV(x) <= Math.max(2000 * x.p.uncertainty_eV!, 15)).length).toBeGreaterThanOrEqual(11);
   });
+  // Spectra of other draws of the suite that the picker once read confidently wrong (errors of 75–420 meV,
+  // u of 9–19 meV, no flag): each is now right within 2u, or flagged with a reason.
+  const drawn = (seed: number, c: SuiteCategory, i: number) => {
+    const e = makeSuite({ seed, categories: [c] })[i];
+    return { e, p: pickGap(e.spectrum) };
+  };
+  it("a small gap on a steep tilt (the tilted run only 1.6x the flat one) is read whole", () => {
+    const x = drawn(3, "tilted", 28);
+    expect(errMeV(x)).toBeLessThanOrEqual(2000 * x.p.uncertainty_eV!);
+  });
+  it("the tilted look is an extraction setting: switched off, that spectrum is read from the flat first look again", () => {
+    const { e } = drawn(3, "tilted", 28);
+    const off = pickGap(e.spectrum, { baseline: { tiltedLook: false } });
+    expect(Math.abs(off.gap_eV! - e.spectrum.truth.gap_eV) * 1000).toBeGreaterThan(50);
+  });
+  it("a tilted and curved floor: the edge read where the curve crosses the threshold is flagged, with the true onset named", () => {
+    const x = drawn(6, "tilted-mix", 23);
+    expect(honest(x)).toBe(true);
+    const f = x.p.flags.find((f) => f.code === "unreliable-edge" && f.message.includes("conduction-band edge"));
+    expect(Math.abs(f!.at_V![0] - x.e.spectrum.truth.cbEdge_V)).toBeLessThan(3 * x.e.spectrum.truth.resolution_mV / 1000);
+  });
+  it("an edge on a sloped floor with a much sharper onset beyond it is flagged, naming where the onset is", () => {
+    const x = drawn(8, "tilted-mix", 34);
+    expect(honest(x)).toBe(true);
+    const f = x.p.flags.find((f) => f.code === "unreliable-edge" && f.message.includes("more steeply"));
+    expect(f).toBeDefined();
+    // The sharper rise is the true valence onset (within 3 resolutions).
+    expect(Math.abs(f!.at_V![0] - x.e.spectrum.truth.vbEdge_V)).toBeLessThan(3 * x.e.spectrum.truth.resolution_mV / 1000);
+  });
+  it("a weak onset that goes on as one straight line with a steep floor gets an uncertainty that reaches it, and a flag", () => {
+    const x = drawn(3, "tilted-mix", 37);
+    expect(x.p.flags.some((f) => f.code === "unreliable-edge" && f.message.includes("straight line"))).toBe(true);
+    expect(Math.abs(x.p.vbEdge_V! - x.e.spectrum.truth.vbEdge_V)).toBeLessThanOrEqual(2 * x.p.vbSigma_V!);
+  });
+  it("'no gap' with a clear edge on one side only is flagged (a hidden onset cannot be told from no band)", () => {
+    const x = drawn(2, "tilted-mix", 5);
+    expect(x.p.gap_eV).toBeNull();
+    expect(x.p.flags.some((f) => f.code === "unreliable-edge" && f.message.includes("no valence-band edge"))).toBe(true);
+    // A metal stays unflagged: it has no edge on either side.
+    for (const m of category("metal", 4)) expect(m.p.flags.filter((f) => f.code === "unreliable-edge")).toEqual([]);
+  });
   it("a tilt with other imperfections: right within 2u or flagged, never 'closed'", () => {
     for (const x of category("tilted-mix", 12)) {
       expect(honest(x)).toBe(true);
