@@ -113,47 +113,96 @@ export function trimOnsets(bias: Float64Array, y: Float64Array, from: number, to
   const npts = to - from + 1;
   if (npts < 16 || (sigma !== null && !(sigma > 0))) return { from, to };
   const scale = Math.max(Math.abs(bias[from] - center), Math.abs(bias[to] - center), 1e-9);
-  const poly: Float64Array[] = [];
-  for (let k = 0; k <= degree; k++) poly.push(Float64Array.from({ length: npts }, (_, i) => ((bias[from + i] - center) / scale) ** k));
-  const yy = y.subarray(from, to + 1);
-  const rss0 = linearLeastSquares(poly, yy)?.rss;
+  const p = degree + 3;
+  // y about its mean (the constant column absorbs it; χ² as Σy² − bᵀcoef stays well conditioned).
+  let yMean = 0;
+  for (let i = from; i <= to; i++) yMean += y[i];
+  yMean /= npts;
+  // The polynomial's part of the normal equations is the same for every trial: once.
+  const gram = new Float64Array(p * p);
+  const rhs = new Float64Array(p);
+  let syy = 0;
+  const xk = new Float64Array(degree + 1);
+  const powers = (i: number) => {
+    const x = (bias[i] - center) / scale;
+    xk[0] = 1;
+    for (let k = 1; k <= degree; k++) xk[k] = xk[k - 1] * x;
+  };
+  for (let i = from; i <= to; i++) {
+    powers(i);
+    const yi = y[i] - yMean;
+    syy += yi * yi;
+    for (let r = 0; r <= degree; r++) {
+      rhs[r] += xk[r] * yi;
+      for (let c = r; c <= degree; c++) gram[r * p + c] += xk[r] * xk[c];
+    }
+  }
+  const solve = (q: number) => {
+    const a = new Float64Array(q * q);
+    for (let r = 0; r < q; r++) for (let c = 0; c < q; c++) a[r * q + c] = r <= c ? gram[r * p + c] : gram[c * p + r];
+    const coef = solveLinear(a, rhs.subarray(0, q), q);
+    if (!coef) return null;
+    let fit = 0;
+    for (let r = 0; r < q; r++) fit += coef[r] * rhs[r];
+    return { coef, rss: Math.max(0, syy - fit) };
+  };
+  const rss0 = solve(degree + 1)?.rss;
   if (rss0 === undefined) return { from, to };
   const out = { from, to };
+  const S = degree + 1; // the step's column; the kink's is S + 1
   for (const dir of [1, -1] as const) {
-    let best: { rss: number; idx: number; cols: Float64Array[]; coef: ArrayLike<number> } = { rss: Infinity, idx: -1, cols: [], coef: [] };
+    let best: { rss: number; idx: number; coef: ArrayLike<number> } = { rss: Infinity, idx: -1, coef: [] };
     for (let t = 0; t < 16; t++) {
       // Trial edges from the middle of the region to 4 points before its end.
       const frac = 0.5 + (0.5 * t) / 16;
       const idx = dir === 1 ? from + Math.round(frac * (npts - 5)) : to - Math.round(frac * (npts - 5));
       const e = bias[idx];
-      const step = new Float64Array(npts);
-      const kink = new Float64Array(npts);
-      for (let i = 0; i < npts; i++) {
-        const x = dir * (bias[from + i] - e);
-        step[i] = x > 0 ? 1 : 0;
-        kink[i] = x > 0 ? x / scale : 0;
+      // The step's and the kink's entries: sums over the cut part only (both are zero elsewhere).
+      for (let r = 0; r < p; r++) for (let c = S; c < p; c++) gram[r * p + c] = 0;
+      rhs[S] = 0;
+      rhs[S + 1] = 0;
+      let nCut = 0;
+      let cutSum = 0;
+      for (let i = from; i <= to; i++) {
+        const u = dir * (bias[i] - e);
+        if (!(u > 0)) continue;
+        const kink = u / scale;
+        const yi = y[i] - yMean;
+        powers(i);
+        for (let r = 0; r <= degree; r++) {
+          gram[r * p + S] += xk[r];
+          gram[r * p + S + 1] += xk[r] * kink;
+        }
+        gram[S * p + S] += 1;
+        gram[S * p + S + 1] += kink;
+        gram[(S + 1) * p + S + 1] += kink * kink;
+        rhs[S] += yi;
+        rhs[S + 1] += kink * yi;
+        nCut++;
+        cutSum += yi;
       }
-      const r = linearLeastSquares([...poly, step, kink], yy);
+      const r = solve(p);
       if (!r) continue;
       // An onset rises away from the gap: a kink that bends down is not one; and the band lies above the
       // floor it leaves (a floor cut off a band's straight stretch is a convex corner seen from the band).
-      if (r.coef[degree + 2] <= 0) continue;
-      let cut = 0;
-      let kept = 0;
-      let nCut = 0;
-      for (let i = 0; i < npts; i++) {
-        if (step[i]) {
-          cut += yy[i];
-          nCut++;
-        } else kept += yy[i];
-      }
-      if (!(nCut > 0 && nCut < npts && cut / nCut > kept / (npts - nCut))) continue;
-      if (r.rss < best.rss) best = { rss: r.rss, idx, cols: [...poly, step, kink], coef: r.coef };
+      if (r.coef[S + 1] <= 0) continue;
+      // Means about yMean: the cut part above the kept part.
+      if (!(nCut > 0 && nCut < npts && cutSum / nCut > -cutSum / (npts - nCut))) continue;
+      if (r.rss < best.rss) best = { rss: r.rss, idx, coef: r.coef };
     }
     if (best.idx < 0) continue;
     let noise2 = sigma === null ? 0 : sigma * sigma * tau;
     if (sigma === null) {
-      const res = Float64Array.from(yy, (v, i) => v - best.cols.reduce((f, c, k) => f + best.coef[k] * c[i], 0));
+      const e = bias[best.idx];
+      const res = new Float64Array(npts);
+      for (let i = from; i <= to; i++) {
+        powers(i);
+        let f = 0;
+        for (let k = 0; k <= degree; k++) f += best.coef[k] * xk[k];
+        const u = dir * (bias[i] - e);
+        if (u > 0) f += best.coef[S] + (best.coef[S + 1] * u) / scale;
+        res[i - from] = y[i] - yMean - f;
+      }
       noise2 = (best.rss / Math.max(1, npts - degree - 3)) * autocorrelationTime(res).tau;
     }
     if (noise2 > 0 && (rss0 - best.rss) / noise2 > minDeltaChi2) {
