@@ -78,13 +78,29 @@ export function quietTilt(bias: Float64Array, s: Float64Array, top: number, sigm
   // Slopes up to twice the signal's spread (`top`: its 95th percentile, which the caller has) per range.
   const spread = top - sMin;
   const mMax = (2 * spread) / Math.max(bias[hi] - bias[lo], 1e-12);
-  const run = (m: number) => {
-    let j = lo;
-    let dj = Infinity;
-    for (let i = lo; i <= hi; i++) {
-      const d = s[i] - m * (bias[i] - c);
-      if (d < dj) { dj = d; j = i; }
+  // The lowest point under a tilt m (min of s − m·bias) is a vertex of the lower convex hull of the
+  // points: the first vertex whose outgoing edge is at least as steep as m (monotone chain, Andrew 1979).
+  const hull: number[] = [];
+  for (let i = lo; i <= hi; i++) {
+    while (hull.length >= 2) {
+      const a = hull[hull.length - 2];
+      const b = hull[hull.length - 1];
+      if ((s[b] - s[a]) * (bias[i] - bias[a]) >= (s[i] - s[a]) * (bias[b] - bias[a])) hull.pop();
+      else break;
     }
+    hull.push(i);
+  }
+  const edgeSlope = Float64Array.from({ length: hull.length - 1 }, (_, k) => (s[hull[k + 1]] - s[hull[k]]) / (bias[hull[k + 1]] - bias[hull[k]]));
+  const run = (m: number) => {
+    let a = 0;
+    let b = edgeSlope.length;
+    while (a < b) {
+      const mid = (a + b) >> 1;
+      if (edgeSlope[mid] < m) a = mid + 1;
+      else b = mid;
+    }
+    const j = hull[a];
+    const dj = s[j] - m * (bias[j] - c);
     const level = dj + 2 * k * sigmaSmoothed;
     let from = j;
     let to = j;
