@@ -2,8 +2,8 @@ import "server-only";
 import { and, eq, sql } from "drizzle-orm";
 import { extractionSettingsVersions, fieldModelVersions, gapPicks, labs, measurementSessions, samples, spectra, tips, uploads } from "@/db/schema";
 import { assertCan } from "@/lib/base/permissions";
-import { pickGap, resolveExtractionSettings } from "@/lib/spectra";
-import { metaOfRow } from "../analysis/analyzeSpectrum";
+import { normaliseSpectrum, resolveExtractionSettings, type ExtractionSettings, type ViewInput } from "@/lib/spectra";
+import { metaOfRow, pickOnSettingsView } from "../analysis/analyzeSpectrum";
 import { flaggedOutOfFit } from "../analysis/shared";
 import type { Ctx } from "@/lib/base/context";
 import { notFound } from "@/lib/base/errors";
@@ -11,17 +11,37 @@ import { isUuid } from "../samples/getSample";
 import { sampleVisibility } from "../samples/visibility";
 
 /**
+ * The normalised views of a spectrum (Feenstra with the settings' broadening, and setpoint), each its
+ * values with the words saying what was done, or the reason it cannot be made.
+ */
+function viewsOf(input: ViewInput, settings: ExtractionSettings) {
+  const one = (method: "feenstra" | "setpoint") => {
+    try {
+      const v = normaliseSpectrum(input, { ...settings.normalisation, method });
+      return { values: Array.from(v.values), stderr: v.stderr ? Array.from(v.stderr) : null, description: v.description, warnings: v.warnings, error: null };
+    } catch (e) {
+      return { values: null, stderr: null, description: null, warnings: [], error: (e as Error).message };
+    }
+  };
+  return { feenstra: one("feenstra"), setpoint: one("setpoint") };
+}
+
+/**
  * What the review screen draws beside the raw curve: the smoothed curve, noise floor, threshold
  * and resolution, recomputed with the settings version that made the stored pick (about a
- * millisecond for a 512-point spectrum), so nothing derivable is stored twice.
+ * millisecond for a 512-point spectrum), so nothing derivable is stored twice. They belong to the
+ * view the pick was made on (`pickedOn`); the normalised views come along for the view switch.
  */
 async function analysisOf(ctx: Ctx, s: typeof spectra.$inferSelect, settingsVersionId: string | null) {
   const [sv] = settingsVersionId ? await ctx.db.select().from(extractionSettingsVersions).where(eq(extractionSettingsVersions.id, settingsVersionId)) : [];
   const [session] = await ctx.db.select({ t: measurementSessions.temperatureK }).from(measurementSessions).where(eq(measurementSessions.id, s.sessionId));
   const settings = resolveExtractionSettings((sv?.settings ?? {}) as never);
   const meta = metaOfRow(s, session?.t);
-  const pick = pickGap({ bias_V: s.biasV, didv: s.didv, meta }, settings);
+  const input = { bias_V: s.biasV, didv: s.didv, current_A: s.currentA, meta };
+  const { pick, view } = pickOnSettingsView(input, settings);
   return {
+    pickedOn: view,
+    views: viewsOf(input, settings),
     smoothed: Array.from(pick.smoothed),
     smoothing: pick.smoothing,
     noiseFloor: pick.noiseFloor,

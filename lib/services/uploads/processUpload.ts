@@ -64,9 +64,9 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
   const warnings = [...files.flatMap((f) => f.warnings.map((w) => (files.length > 1 ? `${f.file}: ${w}` : w))), ...bad.map((f) => `${f.file} skipped: ${f.message}`)];
   const all: ParsedSpectrum[] = good.flatMap((f) => f.spectra);
   const prepared = all.map((s) => {
-    const { meta, pick, field } = analyzeSpectrum(s, { settings: analysis.settings, model, sessionTemperatureK: session.temperatureK });
+    const { meta, pick, view, field } = analyzeSpectrum(s, { settings: analysis.settings, model, sessionTemperatureK: session.temperatureK });
     const spectrumWarnings = [...s.warnings, ...pick.warnings, ...(field.warning ? [field.warning] : [])];
-    return { s, meta, pick, field, spectrumWarnings };
+    return { s, meta, pick, view, field, spectrumWarnings };
   });
   // Repeats at one point in a file are compared: a tip change or drift between them is flagged.
   repeatFlags(prepared.map((p) => ({ file: p.s.file, meta: p.meta, bias_V: p.s.bias_V, didv: p.s.didv, pick: p.pick }))).forEach((f, i) => prepared[i].pick.flags.push(...f));
@@ -116,7 +116,7 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
           })),
         )
         .returning({ id: spectra.id });
-      await tx.insert(gapPicks).values(batch.map((p, j) => ({ labId: u.labId, spectrumId: rows[j].id, ...pickColumns(p.pick, analysis.settingsVersion.id) })));
+      await tx.insert(gapPicks).values(batch.map((p, j) => ({ labId: u.labId, spectrumId: rows[j].id, ...pickColumns(p.pick, analysis.settingsVersion.id, p.view) })));
     }
     await tx
       .update(uploads)

@@ -9,11 +9,11 @@ import type { ExtractionSettings } from "../settings";
 import { normaliseSpectrum, type Normalised } from "./normalise";
 
 export interface ViewInput {
-  bias_V: Float64Array;
-  didv: Float64Array;
-  current_A?: Float64Array | null;
-  stderr?: Float64Array | null;
-  meta: SpectrumMeta;
+  bias_V: ArrayLike<number>;
+  didv: ArrayLike<number>;
+  current_A?: ArrayLike<number> | null;
+  stderr?: ArrayLike<number> | null;
+  meta?: Partial<SpectrumMeta>;
 }
 
 export interface PickedView {
