@@ -22,7 +22,7 @@ export function pickedView(data: SpectrumData): ReviewView {
 
 /** The values and standard error shown in a view (null when the view cannot be made for this spectrum). */
 export function viewValues(data: SpectrumData, view: ReviewView): { y: number[]; se: number[] | null } | null {
-  if (view === "raw") return { y: data.arrays.didv, se: null };
+  if (view === "raw") return { y: data.arrays.didv, se: data.arrays.stderr };
   const v = data.analysis.views[view];
   return v.values ? { y: v.values, se: v.stderr } : null;
 }
@@ -110,6 +110,24 @@ export function reviewFigure(
       name: view === "raw" ? "raw dI/dV" : VIEW_AXIS[view],
     },
   ];
+  // An average's standard error of the mean, as a band around it.
+  if (shown.se) {
+    const se = shown.se;
+    traces.unshift(
+      { x: b, y: shown.y.map((v, i) => v + se[i]), type: "scatter", mode: "lines", line: { width: 0 }, hoverinfo: "skip", showlegend: false },
+      {
+        x: b,
+        y: shown.y.map((v, i) => v - se[i]),
+        type: "scatter",
+        mode: "lines",
+        line: { width: 0 },
+        fill: "tonexty",
+        fillcolor: "rgba(31,107,115,0.18)",
+        name: "± standard error",
+        hoverinfo: "skip",
+      },
+    );
+  }
   // The smoothed curve, floor and threshold belong to the view the pick was read on.
   const picked = view === pickedView(data);
   if (picked)

@@ -7,6 +7,7 @@ import { Button } from "@/components/ui/button";
 import { api } from "@/lib/api-client";
 import { fileStem } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
+import { AverageMembers } from "./average-members";
 import { BandEdgesCard } from "./band-edges-card";
 import { type History, PickHistory } from "./pick-history";
 import {
@@ -201,6 +202,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
             actions={actions}
             canUndo={history.length > 0}
           />
+          <AverageMembers lab={lab} data={data} canEdit={canEdit} go={go} />
           <SpectrumProvenance lab={lab} data={data} />
           <PickHistory history={history} />
         </div>

@@ -82,7 +82,7 @@ async function reflagRepeats(db: DbOrTx, sampleId: string): Promise<void> {
   const metas = await db
     .select({ id: spectra.id, uploadId: spectra.uploadId, sourceName: spectra.sourceName, x: spectra.xNm, y: spectra.yNm, vset: spectra.setpointBiasV, iset: spectra.setpointCurrentA, extra: spectra.meta })
     .from(spectra)
-    .where(eq(spectra.sampleId, sampleId))
+    .where(and(eq(spectra.sampleId, sampleId), eq(spectra.kind, "measured")))
     .orderBy(spectra.indexInFile);
   const meta = (m: (typeof metas)[number]) => ({ x_nm: m.x ?? undefined, y_nm: m.y ?? undefined, setpoint_bias_V: m.vset ?? undefined, setpoint_current_A: m.iset ?? undefined, extra: m.extra });
   const byFile = new Map<string, (typeof metas)[number][]>();

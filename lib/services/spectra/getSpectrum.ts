@@ -1,6 +1,6 @@
 import "server-only";
 import { and, eq, sql } from "drizzle-orm";
-import { extractionSettingsVersions, fieldModelVersions, gapPicks, labs, measurementSessions, samples, spectra, tips, uploads } from "@/db/schema";
+import { extractionSettingsVersions, fieldModelVersions, gapPicks, labs, measurementSessions, samples, spectra, spectrumAverageMembers, tips, uploads } from "@/db/schema";
 import { assertCan } from "@/lib/base/permissions";
 import { normaliseSpectrum, resolveExtractionSettings, type ExtractionSettings, type ViewInput } from "@/lib/spectra";
 import { metaOfRow, pickOnSettingsView } from "../analysis/analyzeSpectrum";
@@ -37,7 +37,7 @@ async function analysisOf(ctx: Ctx, s: typeof spectra.$inferSelect, settingsVers
   const [session] = await ctx.db.select({ t: measurementSessions.temperatureK }).from(measurementSessions).where(eq(measurementSessions.id, s.sessionId));
   const settings = resolveExtractionSettings((sv?.settings ?? {}) as never);
   const meta = metaOfRow(s, session?.t);
-  const input = { bias_V: s.biasV, didv: s.didv, current_A: s.currentA, meta };
+  const input = { bias_V: s.biasV, didv: s.didv, current_A: s.currentA, stderr: s.stderr, meta };
   const { pick, view } = pickOnSettingsView(input, settings);
   return {
     pickedOn: view,
@@ -86,6 +86,51 @@ async function neighboursOf(ctx: Ctx, sampleId: string, id: string) {
     : { position: 1, total: 1, prev: null, next: null, nextFlagged: null, flagged: 0 };
 }
 
+/**
+ * An average's members (each with its raw file's SHA-256, used or left out and why), and for a
+ * member the average it is in.
+ */
+async function averageOf(ctx: Ctx, s: typeof spectra.$inferSelect) {
+  const members =
+    s.kind === "average"
+      ? await ctx.db
+          .select({
+            id: spectra.id,
+            sourceName: spectra.sourceName,
+            index: spectra.indexInFile,
+            label: spectra.label,
+            rawSha256: spectra.rawSha256,
+            used: spectrumAverageMembers.used,
+            leftOutReason: spectrumAverageMembers.leftOutReason,
+            statistic: spectrumAverageMembers.statistic,
+            limit: spectrumAverageMembers.limit,
+            putBack: spectrumAverageMembers.putBack,
+          })
+          .from(spectrumAverageMembers)
+          .innerJoin(spectra, eq(spectra.id, spectrumAverageMembers.memberId))
+          .where(and(eq(spectrumAverageMembers.averageId, s.id), eq(spectrumAverageMembers.labId, ctx.actor.labId)))
+          .orderBy(spectrumAverageMembers.position)
+      : [];
+  const [into] = await ctx.db
+    .select({ id: spectra.id, label: spectra.label })
+    .from(spectrumAverageMembers)
+    .innerJoin(spectra, eq(spectra.id, spectrumAverageMembers.averageId))
+    .where(and(eq(spectrumAverageMembers.memberId, s.id), eq(spectrumAverageMembers.labId, ctx.actor.labId)));
+  const used = members.filter((m) => m.used).length;
+  return {
+    average:
+      s.kind === "average"
+        ? {
+            members,
+            description:
+              `mean of ${used} of ${members.length} repeats at one point, with the standard error of the mean` +
+              (used < members.length ? `; ${members.length - used} left out (differs beyond the noise)` : ""),
+          }
+        : null,
+    averagedInto: into ?? null,
+  };
+}
+
 /** One spectrum with everything needed to trust its numbers: arrays, metadata, pick, field, versions, raw-file hash. */
 export async function getSpectrum({ ctx, input }: { ctx: Ctx; input: { id: string } }) {
   assertCan(ctx.actor, "lab:read");
@@ -106,8 +151,14 @@ export async function getSpectrum({ ctx, input }: { ctx: Ctx; input: { id: strin
   const { s, p } = row;
   const analysis = await analysisOf(ctx, s, p?.settingsVersionId ?? null);
   const neighbours = await neighboursOf(ctx, s.sampleId, s.id);
+  const { average, averagedInto } = await averageOf(ctx, s);
   return {
     id: s.id,
+    /** `measured` (a column of a file) or `average` (of repeats: `average` lists its members). */
+    kind: s.kind,
+    average,
+    /** For a member of an average: that average (it stands for this spectrum in the fit). */
+    averagedInto,
     sampleId: s.sampleId,
     sampleName: row.sampleName,
     sessionId: s.sessionId,
@@ -129,7 +180,13 @@ export async function getSpectrum({ ctx, input }: { ctx: Ctx; input: { id: strin
       extra: s.meta,
     },
     warnings: s.warnings,
-    arrays: { bias_V: Array.from(s.biasV), didv: Array.from(s.didv), current_A: s.currentA ? Array.from(s.currentA) : null },
+    arrays: {
+      bias_V: Array.from(s.biasV),
+      didv: Array.from(s.didv),
+      current_A: s.currentA ? Array.from(s.currentA) : null,
+      /** Standard error of the mean per point (averages). */
+      stderr: s.stderr ? Array.from(s.stderr) : null,
+    },
     pick: p
       ? {
           version: p.version,

@@ -3,14 +3,27 @@ import { and, eq, inArray, ne, sql } from "drizzle-orm";
 import type { SystemCtx } from "@/lib/base/context";
 import { gapPicks, measurementSessions, spectra, tips, uploads } from "@/db/schema";
 import { sha256Hex } from "@/lib/auth/secrets";
-import { importSpectra, type ParsedSpectrum } from "@/lib/spectra";
+import { importSpectra, pointGroups, PrepareError, type ImportedFile, type ParsedSpectrum } from "@/lib/spectra";
+import { isServiceError } from "@/lib/base/errors";
 import { getObjectBytes } from "@/lib/storage/s3";
 import { analyzeSpectrum, pickColumns, repeatFlags } from "../analysis/analyzeSpectrum";
 import { refitSample } from "../analysis/refitSample";
 import { loadSampleAnalysis } from "../analysis/loadSampleAnalysis";
+import { storeAverage } from "../analysis/storeAverage";
 import { ProcessOutcome, fail } from "./shared";
 
 const INSERT_BATCH = 400;
+
+/** The points of a file with two repeats or more (`# repeats: N` or `point=K` columns), or why they cannot be read. */
+function repeatPoints(f: ImportedFile): { label: string; members: ParsedSpectrum[] }[] | string {
+  try {
+    const g = pointGroups(f.spectra);
+    return g.groups.filter((p) => p.members.length > 1).map((p) => ({ label: p.label, members: p.members.map((i) => f.spectra.find((s) => s.index === i)!) }));
+  } catch (e) {
+    if (e instanceof PrepareError) return e.message;
+    throw e;
+  }
+}
 
 /**
  * The worker's job for one raw file: read it from storage, parse it with the analysis core, store
@@ -82,6 +95,7 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
     if (!now || now.status === "done") return false;
     const old = await tx.select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, u.id));
     if (old.length) await tx.delete(spectra).where(inArray(spectra.id, old.map((o) => o.id)));
+    const idOf = new Map<ParsedSpectrum, string>();
     for (let i = 0; i < prepared.length; i += INSERT_BATCH) {
       const batch = prepared.slice(i, i + INSERT_BATCH);
       const rows = await tx
@@ -117,6 +131,25 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
         )
         .returning({ id: spectra.id });
       await tx.insert(gapPicks).values(batch.map((p, j) => ({ labId: u.labId, spectrumId: rows[j].id, ...pickColumns(p.pick, analysis.settingsVersion.id, p.view) })));
+      batch.forEach((p, j) => idOf.set(p.s, rows[j].id));
+    }
+    // Repeats of one point are averaged (the repeats are kept as they are); a point that cannot be
+    // averaged is said so in the file's warnings and its repeats stay separate spectra.
+    for (const f of good) {
+      const points = repeatPoints(f);
+      if (typeof points === "string") {
+        warnings.push(`${f.file}: repeats not averaged: ${points}`);
+        continue;
+      }
+      for (const p of points)
+        try {
+          const memberIds = p.members.map((m) => idOf.get(m)!);
+          const a = await storeAverage({ ctx: { db: tx }, input: { memberIds, createdBy: u.createdBy } });
+          warnings.push(`${f.file}: ${p.label}: ${p.members.length} repeats averaged${a.leftOut.length ? `, ${a.leftOut.length} left out (differs beyond the noise)` : ""}`);
+        } catch (e) {
+          if (!isServiceError(e)) throw e;
+          warnings.push(`${f.file}: ${p.label}: ${e.message}`);
+        }
     }
     await tx
       .update(uploads)
