@@ -1,6 +1,6 @@
 import "server-only";
-import { and, eq } from "drizzle-orm";
-import { samples, spectra, spectrumAverageMembers } from "@/db/schema";
+import { eq } from "drizzle-orm";
+import { spectra, spectrumAverageMembers } from "@/db/schema";
 import { assertCan } from "@/lib/base/permissions";
 import { putBackMemberInput } from "@/lib/schemas/uploads";
 import type { Ctx } from "@/lib/base/context";
@@ -9,8 +9,7 @@ import { refitSample } from "../analysis/refitSample";
 import { storeAverage } from "../analysis/storeAverage";
 import { recordAudit } from "../audit";
 import { parseInput } from "../parse";
-import { isUuid } from "../samples/getSample";
-import { sampleVisibility } from "../samples/visibility";
+import { spectrumKindOf } from "./shared";
 
 /**
  * Puts a repeat the odd-repeat test left out back into its average: the average is made again from
@@ -19,15 +18,9 @@ import { sampleVisibility } from "../samples/visibility";
  */
 export async function putBackMember({ ctx, input }: { ctx: Ctx; input: { id: string; body: unknown } }) {
   assertCan(ctx.actor, "spectrum:tag");
-  if (!isUuid(input.id)) throw notFound("spectrum");
   const { memberId } = parseInput(putBackMemberInput, input.body);
-  const visible = await sampleVisibility(ctx);
-  const [row] = await ctx.db
-    .select({ id: spectra.id, kind: spectra.kind, sampleId: spectra.sampleId })
-    .from(spectra)
-    .innerJoin(samples, eq(samples.id, spectra.sampleId))
-    .where(and(eq(spectra.id, input.id), eq(spectra.labId, ctx.actor.labId), visible));
-  if (!row || row.kind !== "average") throw notFound("average");
+  const row = await spectrumKindOf(ctx, input.id);
+  if (row.kind !== "average") throw notFound("average");
   const members = await ctx.db.select().from(spectrumAverageMembers).where(eq(spectrumAverageMembers.averageId, row.id)).orderBy(spectrumAverageMembers.position);
   const member = members.find((m) => m.memberId === memberId);
   if (!member) throw notFound("member of this average");

@@ -16,7 +16,7 @@
  *    (correlated noise has fewer independent points; common practice). A member is left out when
  *    F_i > max(1.5, 1 + 6 standard errors): six standard errors, so that noise alone practically never
  *    leaves a repeat out, and 1.5, a difference that matters (the same limits as `compareRepeats`).
- *    The worst member is left out first and the test repeats on the rest, while three or more remain
+ *    The member with the largest ratio is left out first and the test repeats on the rest, while three or more remain
  *    (with two, neither can be called the odd one). Members the user put back (`include`) stay in.
  *    A ratio rather than a distance to a median: the others' scatter holds any outlier among them, so a
  *    good repeat is not pushed over the limit by an odd one in its reference.
@@ -118,7 +118,7 @@ interface Round {
   limit: number;
 }
 
-/** The leave-one-out ratio of every candidate in `set` (see the head of the file). */
+/** The candidate in `set` with the largest leave-one-out ratio, when it exceeds its limit (see the head of the file). */
 function oddOneOut(ys: Float64Array[], set: number[], candidates: number[]): Round | null {
   const n = ys[0].length;
   const m = set.length - 1;
@@ -129,8 +129,9 @@ function oddOneOut(ys: Float64Array[], set: number[], candidates: number[]): Rou
       total[v] += ys[j][v];
       squares[v] += ys[j][v] * ys[j][v];
     }
-  let worst: Round | null = null;
-  const res = new Float64Array(n);
+  // F of every candidate (cheap), then the limit of the largest: its τ needs the others' residuals.
+  let top = -1;
+  let topF = -Infinity;
   for (const i of candidates) {
     let dd = 0;
     let scatter = 0;
@@ -141,20 +142,25 @@ function oddOneOut(ys: Float64Array[], set: number[], candidates: number[]): Rou
     }
     const s2 = scatter / (n * (m - 1));
     if (!(s2 > 0)) continue;
-    // τ of the others' residuals about their own mean (noise only, under the hypothesis).
-    const taus: number[] = [];
-    for (const j of set) {
-      if (j === i) continue;
-      for (let v = 0; v < n; v++) res[v] = ys[j][v] - (total[v] - ys[i][v]) / m;
-      taus.push(autocorrelationTime(res).tau);
-    }
-    taus.sort((a, b) => a - b);
-    const tau = taus[taus.length >> 1];
     const f = dd / n / (s2 * (1 + 1 / m));
-    const limit = Math.max(1.5, 1 + 6 * Math.sqrt(((2 * tau) / n) * (1 + 1 / (m - 1))));
-    if (f > limit && (!worst || f / limit > worst.statistic / worst.limit)) worst = { index: i, statistic: f, limit };
+    if (f > topF) {
+      topF = f;
+      top = i;
+    }
   }
-  return worst;
+  if (top < 0) return null;
+  // τ of the others' residuals about their own mean (noise only, under the hypothesis).
+  const res = new Float64Array(n);
+  const taus: number[] = [];
+  for (const j of set) {
+    if (j === top) continue;
+    for (let v = 0; v < n; v++) res[v] = ys[j][v] - (total[v] - ys[top][v]) / m;
+    taus.push(autocorrelationTime(res).tau);
+  }
+  taus.sort((a, b) => a - b);
+  const tau = taus[taus.length >> 1];
+  const limit = Math.max(1.5, 1 + 6 * Math.sqrt(((2 * tau) / n) * (1 + 1 / (m - 1))));
+  return topF > limit ? { index: top, statistic: topF, limit } : null;
 }
 
 export function averageSpectra(members: AverageMember[], options: AverageOptions = {}): AveragedSpectrum {

@@ -32,12 +32,12 @@ const mV = (v: number) => `${(v * 1000).toFixed(1)} mV`;
 export function commonAxis(members: AxisMember[]): CommonAxis {
   if (members.length === 0) throw new PrepareError("no spectra to put on a common axis");
   const first = members[0].bias_V;
-  const same = members.every(
-    (m) =>
-      m.bias_V.length === first.length &&
-      Array.prototype.every.call(m.bias_V, (v: number, i: number) => Math.abs(v - first[i]) <= 1e-9 * Math.max(1, Math.abs(v))),
-  );
-  if (same) return { bias_V: Float64Array.from(first), identical: true, warnings: [] };
+  const sameAxis = (x: ArrayLike<number>) => {
+    if (x.length !== first.length) return false;
+    for (let i = 0; i < x.length; i++) if (Math.abs(x[i] - first[i]) > 1e-9 * Math.max(1, Math.abs(x[i]))) return false;
+    return true;
+  };
+  if (members.every((m) => sameAxis(m.bias_V))) return { bias_V: new Float64Array(first), identical: true, warnings: [] };
   const steps = members.map((m) => medianStep(m.bias_V));
   if (!steps.every((s) => s > 0)) throw new PrepareError("every spectrum needs an ascending bias axis of two points or more");
   const step = Math.max(...steps);
@@ -67,5 +67,5 @@ export function commonAxis(members: AxisMember[]): CommonAxis {
 
 /** y on the common axis (a copy when the axis is the member's own). */
 export function onAxis(axis: CommonAxis, bias_V: ArrayLike<number>, y: ArrayLike<number>): Float64Array {
-  return axis.identical ? Float64Array.from(y) : interpolateOnto(axis.bias_V, bias_V, y);
+  return axis.identical ? new Float64Array(y) : interpolateOnto(axis.bias_V, bias_V, y);
 }

@@ -56,6 +56,16 @@ export interface Normalised {
   warnings: string[];
 }
 
+/** y ÷ d pointwise (one d for all when d has one value); by |d| for a standard error. */
+function divided(y: ArrayLike<number>, d: ArrayLike<number>, magnitude = false): Float64Array {
+  const out = new Float64Array(y.length);
+  for (let i = 0; i < y.length; i++) {
+    const di = d.length === 1 ? d[0] : d[i];
+    out[i] = y[i] / (magnitude ? Math.abs(di) : di);
+  }
+  return out;
+}
+
 /** Trapezoid weights of a (possibly non-uniform) ascending axis. */
 function trapezoidWeights(x: ArrayLike<number>): Float64Array {
   const n = x.length;
@@ -119,7 +129,8 @@ export function feenstraNormalise(input: NormaliseInput, broadening_mV: number):
   let reconstructed = false;
   if (input.current_A) {
     const i0 = valueAtZero(x, input.current_A);
-    current = Float64Array.from(input.current_A, (v) => v - i0);
+    current = new Float64Array(n);
+    for (let i = 0; i < n; i++) current[i] = input.current_A[i] - i0;
     let top = 0;
     for (const v of current) top = Math.max(top, Math.abs(v));
     if (Math.abs(i0) > 0.01 * top) warnings.push(`current offset at 0 V (${(i0 * 1e12).toPrecision(3)} pA) removed`);
@@ -157,11 +168,12 @@ export function feenstraNormalise(input: NormaliseInput, broadening_mV: number):
   if (pos !== n && neg !== n)
     throw new PrepareError("the broadened I/V changes sign: the current does not follow the bias; cannot normalise");
   // The lock-in's own dI/dV over the broadened I/V expressed in its units.
-  const denominator = Float64Array.from(broadened, (v) => v / scale);
+  const denominator = new Float64Array(n);
+  for (let i = 0; i < n; i++) denominator[i] = broadened[i] / scale;
   return {
     method: "feenstra",
-    values: Float64Array.from(input.didv, (v, i) => v / denominator[i]),
-    stderr: input.stderr ? Float64Array.from(input.stderr, (v, i) => v / Math.abs(denominator[i])) : null,
+    values: divided(input.didv, denominator),
+    stderr: input.stderr ? divided(input.stderr, denominator, true) : null,
     denominator,
     currentReconstructed: reconstructed,
     description:
@@ -182,8 +194,8 @@ export function setpointNormalise(input: NormaliseInput): Normalised {
   const n = input.didv.length;
   return {
     method: "setpoint",
-    values: Float64Array.from(input.didv, (v) => v / gset),
-    stderr: input.stderr ? Float64Array.from(input.stderr, (v) => v / Math.abs(gset)) : null,
+    values: divided(input.didv, [gset]),
+    stderr: input.stderr ? divided(input.stderr, [gset], true) : null,
     denominator: new Float64Array(n).fill(gset),
     currentReconstructed: false,
     description: `dI/dV divided by the setpoint conductance I_set/V_set = ${(gset * 1e9).toPrecision(3)} nS`,
@@ -198,8 +210,8 @@ export function normaliseSpectrum(input: NormaliseInput, options: NormaliseOptio
   const n = input.didv.length;
   return {
     method: "none",
-    values: Float64Array.from(input.didv),
-    stderr: input.stderr ? Float64Array.from(input.stderr) : null,
+    values: new Float64Array(input.didv),
+    stderr: input.stderr ? new Float64Array(input.stderr) : null,
     denominator: new Float64Array(n).fill(1),
     currentReconstructed: false,
     description: "raw dI/dV",
