@@ -62,7 +62,7 @@ export function AverageMembers(props: { lab: string; data: SpectrumData; canEdit
               <span className="text-ok">{m.putBack ? "used (put back by hand)" : "used"}</span>
             ) : (
               <span className="block text-copper">
-                left out: {m.leftOutReason}{" "}
+                {m.leftOutReason}{" "}
                 {canEdit ? (
                   <button
                     type="button"

@@ -60,7 +60,8 @@ export function ReviewViewSwitch(props: {
 export function ViewCaption({ data, view }: { data: SpectrumData; view: ReviewView }) {
   const picked = pickedView(data);
   const words = view === "raw" ? "raw dI/dV, as recorded" : (data.analysis.views[view].description ?? "");
-  const warnings = view === "raw" ? [] : data.analysis.views[view].warnings;
+  // The rebuilt current is in the words already; other warnings (a current offset removed) follow them.
+  const warnings = view === "raw" ? [] : data.analysis.views[view].warnings.filter((w) => !w.startsWith("no current column"));
   return (
     <p className="px-2 pt-1 text-xs text-muted" data-testid="view-caption">
       Shown: {words}.{" "}

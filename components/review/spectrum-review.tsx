@@ -5,7 +5,7 @@ import { useCallback, useEffect, useMemo, useState } from "react";
 import { Plot } from "@/components/plots/plot";
 import { Button } from "@/components/ui/button";
 import { api } from "@/lib/api-client";
-import { fileStem } from "@/lib/format";
+import { fileStem, spectrumIndex } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
 import { AverageMembers } from "./average-members";
 import { BandEdgesCard } from "./band-edges-card";
@@ -164,7 +164,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
           <p className="px-2 pb-1 text-sm font-medium" data-testid="review-file">
             {data.sourceName}{" "}
             <span className="num text-xs font-normal text-muted">
-              #{data.index}
+              {spectrumIndex(data.index)}
               {label}
             </span>
           </p>
