@@ -19,6 +19,8 @@ export function AverageMembers(props: { lab: string; data: SpectrumData; canEdit
   const done = (next: string) => {
     setError(null);
     void qc.invalidateQueries({ queryKey: queryKeys.phase(data.sampleId) });
+    // The members' own pages say which average they are in: every cached spectrum is refetched.
+    for (const m of data.average?.members ?? []) void qc.invalidateQueries({ queryKey: queryKeys.spectrum(m.id) });
     go(next);
   };
   const fail = (e: unknown) => setError(e instanceof ApiError ? e.message : "Not saved.");
