@@ -56,3 +56,8 @@ const PICK_METHOD: Record<string, string> = {
   none: "no edges",
 };
 export const pickMethodInWords = (method: string | null | undefined): string => (method ? (PICK_METHOD[method] ?? method.replace(/-/g, " ")) : "—");
+
+/** A spectrum's place in its file: `#3`; an average (stored at a negative index) is named so. */
+export function spectrumIndex(index: number): string {
+  return index < 0 ? "average" : `#${index}`;
+}

@@ -16,6 +16,7 @@ const parts: Record<string, Part> = {
   spectra: () => import("./bench/spectra"),
   accuracy: () => import("./bench/accuracy"),
   cli: () => import("./bench/cli"),
+  prepare: () => import("./bench/prepare"),
 };
 
 /** Parts that run inside the bench stack, in this order. */

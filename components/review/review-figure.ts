@@ -5,6 +5,27 @@ export type SpectrumData = Awaited<ReturnType<typeof getSpectrum>>;
 export type Edge = "valence" | "conduction";
 /** Band edges as drawn or typed, V. */
 export type Edges = { vb: number; cb: number };
+/** What the review plot shows: raw dI/dV or one of the normalised views. */
+export type ReviewView = "raw" | "feenstra" | "setpoint";
+
+export const VIEW_AXIS: Record<ReviewView, string> = {
+  raw: "dI/dV (as recorded)",
+  feenstra: "(dI/dV)/(I/V)",
+  setpoint: "dI/dV ÷ (I_set/V_set)",
+};
+
+/** The view the stored pick was made on, as the review plot names views. */
+export function pickedView(data: SpectrumData): ReviewView {
+  const m = data.analysis.pickedOn.method;
+  return m === "none" ? "raw" : m;
+}
+
+/** The values and standard error shown in a view (null when the view cannot be made for this spectrum). */
+export function viewValues(data: SpectrumData, view: ReviewView): { y: number[]; se: number[] | null } | null {
+  if (view === "raw") return { y: data.arrays.didv, se: data.arrays.stderr };
+  const v = data.analysis.views[view];
+  return v.values ? { y: v.values, se: v.stderr } : null;
+}
 
 type Shape = Record<string, unknown>;
 
@@ -64,30 +85,63 @@ function levels(a: SpectrumData["analysis"], bias: number[]): { traces: Shape[];
  */
 export function reviewFigure(
   data: SpectrumData,
-  o: { vb: number | null; cb: number | null; logY: boolean; canEdit: boolean; id: string; selected: Edge },
+  o: {
+    vb: number | null;
+    cb: number | null;
+    logY: boolean;
+    canEdit: boolean;
+    id: string;
+    selected: Edge;
+    view: ReviewView;
+  },
 ) {
   const { vb, cb, canEdit, selected } = o;
   const b = data.arrays.bias_V;
   const a = data.analysis;
+  const shown = viewValues(data, o.view) ?? viewValues(data, "raw")!;
+  const view = viewValues(data, o.view) ? o.view : "raw";
   const traces: Shape[] = [
     {
       x: b,
-      y: data.arrays.didv,
+      y: shown.y,
       type: "scatter",
       mode: "markers",
       marker: { size: 3, color: "#8a8478" },
-      name: "raw dI/dV",
+      name: view === "raw" ? "raw dI/dV" : VIEW_AXIS[view],
     },
-    {
+  ];
+  // An average's standard error of the mean, as a band around it.
+  if (shown.se) {
+    const se = shown.se;
+    traces.unshift(
+      { x: b, y: shown.y.map((v, i) => v + se[i]), type: "scatter", mode: "lines", line: { width: 0 }, hoverinfo: "skip", showlegend: false },
+      {
+        x: b,
+        y: shown.y.map((v, i) => v - se[i]),
+        type: "scatter",
+        mode: "lines",
+        line: { width: 0 },
+        fill: "tonexty",
+        fillcolor: "rgba(31,107,115,0.18)",
+        name: "± standard error",
+        hoverinfo: "skip",
+      },
+    );
+  }
+  // The smoothed curve, floor and threshold belong to the view the pick was read on.
+  const picked = view === pickedView(data);
+  if (picked)
+    traces.push({
       x: b,
       y: a.smoothed,
       type: "scatter",
       mode: "lines",
       line: { color: "#1f6b73", width: 2 },
       name: `smoothed (${a.smoothing})`,
-    },
-  ];
-  const { traces: levelTraces, shapes, annotations } = levels(a, b);
+    });
+  const { traces: levelTraces, shapes, annotations } = picked
+    ? levels(a, b)
+    : { traces: [] as Shape[], shapes: [] as Shape[], annotations: [] as Shape[] };
   traces.push(...levelTraces);
   const edgeShape = (x: number, edge: Edge) => ({
     type: "line",
@@ -127,10 +181,10 @@ export function reviewFigure(
     edgeIndex,
     layout: baseLayout({
       xaxis: axis("sample bias (V)"),
-      yaxis: axis("dI/dV (as recorded)", o.logY ? { type: "log" } : {}),
+      yaxis: axis(VIEW_AXIS[view], o.logY ? { type: "log" } : {}),
       shapes,
       annotations,
-      uirevision: `${o.id}-${o.logY}`,
+      uirevision: `${o.id}-${o.logY}-${view}`,
       dragmode: "zoom",
     }),
   };

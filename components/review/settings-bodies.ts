@@ -27,6 +27,7 @@ export function settingsBody(f: FormData) {
       baseline: { maxDegree: num(f.get("maxDegree")), tiltedLook: f.get("tiltedLook") === "on" },
       search: { minBias_V: num(f.get("minBias_V")), maxBias_V: num(f.get("maxBias_V")) },
       fit: { enabled: f.get("fit") === "on" },
+      normalisation: { method: f.get("normalisation"), broadening_mV: num(f.get("broadening_mV")) },
     },
     note: note(f),
   };
@@ -104,4 +105,11 @@ export const SETTINGS_NUMBERS: {
     blank: true,
   },
   { name: "maxBias_V", at: ["search", "maxBias_V"], label: "Search to", unit: "V", blank: true },
+  {
+    name: "broadening_mV",
+    at: ["normalisation", "broadening_mV"],
+    label: "I/V broadening ΔV",
+    unit: "mV",
+    hint: "Feenstra: comparable to the gap",
+  },
 ];

@@ -8,6 +8,18 @@ export const METHOD_LABEL: Record<string, string> = {
   fft: "FFT low-pass",
   none: "none",
 };
+/** The view a gap is picked on (`normalisation.method`; older versions have none: raw). */
+export const NORMALISATION_LABEL: Record<string, string> = {
+  none: "none (raw dI/dV)",
+  feenstra: "(dI/dV)/(I/V), Feenstra",
+  setpoint: "dI/dV ÷ I_set/V_set",
+};
+/** The normalisation as words: the method, with its broadening for Feenstra's. */
+export function normalisationFact(n: { method?: string; broadening_mV?: number } | undefined): string {
+  const method = n?.method ?? "none";
+  const label = NORMALISATION_LABEL[method] ?? method;
+  return method === "feenstra" ? `${label}, I/V broadened over ${shown(n?.broadening_mV, "mV", "100 mV")}` : label;
+}
 export const DECAY_LABEL: Record<string, string> = {
   "mean-work-function": "mean work function",
   measured: "measured barrier",
@@ -87,6 +99,7 @@ export function ReadOnlyVersions({ data }: { data: SampleVersions }) {
               : `${shown(s.search?.minBias_V, "V", "start")} to ${shown(s.search?.maxBias_V, "V", "end")}`,
           ],
           ["Edge refinement", s.fit?.enabled ? "broadening-aware fit (thermal and lock-in kernels)" : "threshold only"],
+          ["Picked on", normalisationFact(s.normalisation)],
         ]}
       />
       <div className="border-t border-line pt-4">

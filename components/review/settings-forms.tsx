@@ -3,9 +3,10 @@
 import type { FormEvent } from "react";
 import { Button } from "@/components/ui/button";
 import { Field, Input, Select } from "@/components/ui/field";
+import { DEFAULT_EXTRACTION_SETTINGS } from "@/lib/spectra/settings";
 import type { SampleVersions } from "./sample-queries";
 import { SETTINGS_NUMBERS } from "./settings-bodies";
-import { DECAY_LABEL, decaySource, METHOD_LABEL } from "./settings-facts";
+import { DECAY_LABEL, decaySource, METHOD_LABEL, NORMALISATION_LABEL } from "./settings-facts";
 
 /** A form's title with the version it shows. */
 function VersionHeading({ title, version }: { title: string; version: number }) {
@@ -63,6 +64,9 @@ function NoteField({ fe }: { fe: FormProps["fe"] }) {
   );
 }
 
+/** Defaults for a setting an older version does not have (it reads with its default). */
+const DEFAULTS = DEFAULT_EXTRACTION_SETTINGS as unknown as Record<string, Record<string, unknown> | undefined>;
+
 type FormProps = {
   data: SampleVersions;
   fe: (field: string) => string[] | undefined;
@@ -79,12 +83,15 @@ export function ExtractionSettingsForm({ data, fe, onSubmit }: FormProps) {
         <Field label="Smoothing" name="method">
           <Choices name="method" defaultValue={s.smoothing?.method} labels={METHOD_LABEL} />
         </Field>
+        <Field label="Pick on" name="normalisation" error={fe("normalisation.method")}>
+          <Choices name="normalisation" defaultValue={s.normalisation?.method ?? "none"} labels={NORMALISATION_LABEL} />
+        </Field>
         {SETTINGS_NUMBERS.map(({ at: [group, key], blank, ...field }) => (
           <NumberField
             key={field.name}
             {...field}
             error={fe(`${group}.${key}`)}
-            value={blank ? (s[group]?.[key] ?? "") : s[group]?.[key]}
+            value={blank ? (s[group]?.[key] ?? "") : (s[group]?.[key] ?? DEFAULTS[group]?.[key])}
           />
         ))}
         <label className="flex items-center gap-2 text-sm sm:col-span-2">

@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { spectrumIndex } from "@/lib/format";
 import type { SpectrumData } from "./review-figure";
 
 /**
@@ -23,7 +24,7 @@ export function SpectrumProvenance({ lab, data }: { lab: string; data: SpectrumD
       <dl className="mt-2 grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 text-xs">
         <dt className="text-muted">file</dt>
         <dd className="break-all">
-          {data.sourceName} #{data.index}
+          {data.sourceName} {spectrumIndex(data.index)}
         </dd>
         <dt className="text-muted">SHA-256</dt>
         <dd className="num break-all" title={data.upload.sha256}>

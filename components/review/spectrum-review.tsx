@@ -5,11 +5,23 @@ import { useCallback, useEffect, useMemo, useState } from "react";
 import { Plot } from "@/components/plots/plot";
 import { Button } from "@/components/ui/button";
 import { api } from "@/lib/api-client";
-import { fileStem } from "@/lib/format";
+import { fileStem, spectrumIndex } from "@/lib/format";
 import { queryKeys } from "@/lib/query-keys";
+import { AverageMembers } from "./average-members";
 import { BandEdgesCard } from "./band-edges-card";
 import { type History, PickHistory } from "./pick-history";
-import { draggedEdges, type Edge, type Edges, movedEdge, reviewFigure, type SpectrumData } from "./review-figure";
+import {
+  draggedEdges,
+  type Edge,
+  type Edges,
+  movedEdge,
+  pickedView,
+  reviewFigure,
+  type ReviewView,
+  type SpectrumData,
+  viewValues,
+} from "./review-figure";
+import { ReviewViewSwitch, ViewCaption } from "./review-view-switch";
 import { KeyHelp, useReviewKeys } from "./review-keys";
 import { SpectrumProvenance } from "./spectrum-provenance";
 import { usePickActions } from "./use-pick-actions";
@@ -83,6 +95,9 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
   });
   const [draft, setDraft] = useState<Edges | null>(null);
   const [logY, setLogY] = useState(false);
+  // The view the pick was made on, until the analyst switches.
+  const [chosenView, setView] = useState<ReviewView | null>(null);
+  const view = chosenView && viewValues(data, chosenView) ? chosenView : pickedView(data);
   const [selected, setSelected] = useState<Edge>("valence");
 
   // Prefetch the neighbours so moving through a sample is instant.
@@ -122,8 +137,8 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
   );
 
   const figure = useMemo(
-    () => reviewFigure(data, { vb, cb, logY, canEdit, id, selected }),
-    [data, vb, cb, logY, canEdit, id, selected],
+    () => reviewFigure(data, { vb, cb, logY, canEdit, id, selected, view }),
+    [data, vb, cb, logY, canEdit, id, selected, view],
   );
   const onRelayout = (e: Record<string, number>) => {
     if (!canEdit || vb == null || cb == null) return;
@@ -142,16 +157,14 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
     >
       <div className="flex flex-wrap items-center justify-between gap-3">
         <ReviewNav data={data} go={go} loading={isFetching} />
-        <label className="inline-flex items-center gap-1.5 text-xs text-ink-soft">
-          <input type="checkbox" checked={logY} onChange={(e) => setLogY(e.target.checked)} /> log scale
-        </label>
+        <ReviewViewSwitch data={data} view={view} setView={setView} logY={logY} setLogY={setLogY} />
       </div>
       <div className="grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,2.2fr)_minmax(300px,1fr)]">
         <div className="rounded-xl border border-line bg-card p-3">
           <p className="px-2 pb-1 text-sm font-medium" data-testid="review-file">
             {data.sourceName}{" "}
             <span className="num text-xs font-normal text-muted">
-              #{data.index}
+              {spectrumIndex(data.index)}
               {label}
             </span>
           </p>
@@ -170,6 +183,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
               onRelayout={onRelayout as never}
             />
           </div>
+          <ViewCaption data={data} view={view} />
           {canEdit ? (
             <p className="px-2 pt-1 text-xs text-muted">
               Drag the copper lines to move the band edges, or type them on the right.
@@ -188,6 +202,7 @@ export function SpectrumReview({ lab, initial, canEdit }: { lab: string; initial
             actions={actions}
             canUndo={history.length > 0}
           />
+          <AverageMembers lab={lab} data={data} canEdit={canEdit} go={go} />
           <SpectrumProvenance lab={lab} data={data} />
           <PickHistory history={history} />
         </div>

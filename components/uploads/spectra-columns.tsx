@@ -6,6 +6,7 @@ import { FlagBadges } from "@/components/review/quality-flags";
 import { Badge } from "@/components/ui/badge";
 import { formatGap } from "@/lib/format";
 import { EditableCell, type EditKey, type Parsed, type Row } from "./spectra-cells";
+import { spectrumIndex } from "@/lib/format";
 
 /** How a column's header and cells are dressed; sortable columns' ids are the server's sort keys. */
 export interface ColumnLook {
@@ -32,7 +33,7 @@ function SpectrumName({ lab, r }: { lab: string; r: Row }) {
       </Link>
       <span className="num text-xs text-muted">
         {" "}
-        #{r.index}
+        {spectrumIndex(r.index)}
         {label}
       </span>
     </>

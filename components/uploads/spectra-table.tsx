@@ -17,6 +17,7 @@ import { EDITABLE, type EditKey, type Parsed, type Patch, type Sort, type Spectr
 import { type ColumnLook, spectraColumns } from "./spectra-columns";
 import { SpectraHead } from "./spectra-head";
 import { type Bulk, BulkBar, type Filters, SpectraFilters } from "./spectra-toolbar";
+import { useAverage } from "./use-average";
 
 const PAGE_SIZE = 50;
 
@@ -53,6 +54,7 @@ export function SpectraTable(props: {
   const [selection, setSelection] = useState<RowSelectionState>({});
   const [bulk, setBulk] = useState<Bulk>({ field: "region", value: "" });
   const [error, setError] = useState<string | null>(null);
+  const { average, averaging, notice } = useAverage({ lab, sessionId, sampleId, onError: setError });
   const sort = sorting[0]?.id as Sort;
   const dir = sorting[0]?.desc ? "desc" : "asc";
   const { q, region, flag } = filters;
@@ -141,9 +143,12 @@ export function SpectraTable(props: {
           saving={tag.isPending}
           onApply={applyBulk}
           onClear={() => setSelection({})}
+          onAverage={() => average(selected)}
+          averaging={averaging}
         />
       ) : null}
       {error ? <Notice tone="danger">{error}</Notice> : null}
+      {notice}
       <div className="overflow-x-auto rounded-lg border border-line bg-card">
         <table className="w-full min-w-[980px] text-left text-sm">
           <SpectraHead table={table} />

@@ -74,8 +74,11 @@ export function BulkBar(props: {
   saving: boolean;
   onApply: () => void;
   onClear: () => void;
+  /** Average the selected spectra (repeats at one point) into one. */
+  onAverage: () => void;
+  averaging: boolean;
 }) {
-  const { count, bulk, onChange, tips, saving, onApply, onClear } = props;
+  const { count, bulk, onChange, tips, saving, onApply, onClear, onAverage, averaging } = props;
   const box = "rounded border border-line bg-white px-2 py-1";
   return (
     <div className={BAR} data-testid="bulk-bar">
@@ -117,6 +120,17 @@ export function BulkBar(props: {
       )}
       <Button type="button" className="py-1" onClick={onApply} disabled={saving}>
         {saving ? "Saving…" : "Apply"}
+      </Button>
+      <Button
+        type="button"
+        variant="secondary"
+        className="py-1"
+        onClick={onAverage}
+        disabled={averaging || count < 2}
+        title="Average repeats at one point: same sample, setpoint, position and bias range"
+        data-testid="average-selected"
+      >
+        {averaging ? "Averaging…" : "Average"}
       </Button>
       <Button type="button" variant="ghost" className="py-1" onClick={onClear}>
         Clear selection

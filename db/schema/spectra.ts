@@ -96,7 +96,16 @@ export const fieldModelVersions = pgTable(
 );
 export type FieldModelVersion = typeof fieldModelVersions.$inferSelect;
 
-/** One dI/dV curve: parsed arrays and metadata, with the distance and field estimated for it. */
+export const spectrumKind = pgEnum("spectrum_kind", ["measured", "average"]);
+export type SpectrumKind = (typeof spectrumKind.enumValues)[number];
+
+/**
+ * One dI/dV curve: parsed arrays and metadata, with the distance and field estimated for it. An
+ * `average` is the mean of repeats at one point (its members in `spectrum_average_members`), with
+ * the standard error of the mean per point in `stderr`; it takes its first member's upload, file
+ * and raw hash, and a negative `index_in_file` (−1, −2 … within that file) so it never collides
+ * with a measured column.
+ */
 export const spectra = pgTable(
   "spectra",
   {
@@ -130,6 +139,10 @@ export const spectra = pgTable(
     fieldVPerNm: doublePrecision("field_v_per_nm"),
     fieldSigmaVPerNm: doublePrecision("field_sigma_v_per_nm"),
     fieldModelVersionId: uuid("field_model_version_id").references(() => fieldModelVersions.id, { onDelete: "set null" }),
+    kind: spectrumKind("kind").notNull().default("measured"),
+    /** Standard error of the mean per point (averages only). */
+    stderr: float64Array("stderr"),
+    createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },
@@ -141,6 +154,33 @@ export const spectra = pgTable(
   ],
 );
 export type Spectrum = typeof spectra.$inferSelect;
+
+/**
+ * The members of an average: each repeat it was made from, `used` or left out (`leftOutReason`, the
+ * test's `statistic` against its `limit`), in the order they were given. A spectrum is a member of
+ * one average at most; while it is, it stays out of the crossing fit (the average stands for it).
+ * Deleting the average (undo) deletes these rows and the members come back.
+ */
+export const spectrumAverageMembers = pgTable(
+  "spectrum_average_members",
+  {
+    averageId: uuid("average_id").notNull().references(() => spectra.id, { onDelete: "cascade" }),
+    memberId: uuid("member_id").notNull().references(() => spectra.id, { onDelete: "cascade" }),
+    labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
+    position: integer("position").notNull(),
+    used: boolean("used").notNull(),
+    leftOutReason: text("left_out_reason"),
+    statistic: doublePrecision("statistic"),
+    limit: doublePrecision("limit"),
+    /** Put back by hand after the test left it out. */
+    putBack: boolean("put_back").notNull().default(false),
+  },
+  (t) => [
+    uniqueIndex("spectrum_average_members_member_unique").on(t.memberId),
+    index("spectrum_average_members_average_idx").on(t.averageId),
+  ],
+);
+export type SpectrumAverageMember = typeof spectrumAverageMembers.$inferSelect;
 
 export const pickSource = pgEnum("pick_source", ["auto", "corrected"]);
 

@@ -5,10 +5,12 @@ import { parseArgs, type ParseArgsConfig } from "node:util";
 import {
   DEFAULT_IMPORT_LIMITS,
   importSpectra,
-  pickGap,
+  pickOnView,
   resolveExtractionSettings,
   type ExtractionSettings,
   type GapPick,
+  type ImportedFile,
+  type Normalised,
   type ParsedSpectrum,
 } from "../spectra";
 import { CliUsageError } from "./io";
@@ -36,6 +38,17 @@ export interface Entry {
   message: string | null;
   warnings: string[];
   gap: GapJson | null;
+  /** With `--average`: the file's spectrum indices averaged into this point, and those left out. */
+  averagedFrom?: number[];
+  leftOut?: number[];
+  /** With a normalisation (`--normalise` or the settings): the view the gap was picked on. */
+  normalisation?: NormalisationJson;
+}
+
+export interface NormalisationJson {
+  method: "feenstra" | "setpoint";
+  description: string;
+  currentReconstructed: boolean;
 }
 
 export interface Analysed {
@@ -133,11 +146,11 @@ export function expandPaths(paths: string[]): string[] {
   return out;
 }
 
-function errorEntry(file: string, message: string): Analysed {
+export function errorEntry(file: string, message: string): Analysed {
   return { entry: { file, index: null, label: null, status: "error", message, warnings: [], gap: null }, spectrum: null, pick: null };
 }
 
-function gapJson(p: GapPick): GapJson {
+export function gapJson(p: GapPick): GapJson {
   return {
     vbEdge_V: p.vbEdge_V,
     cbEdge_V: p.cbEdge_V,
@@ -153,48 +166,62 @@ function gapJson(p: GapPick): GapJson {
   };
 }
 
-/** Read, import and pick every file; one Analysed per spectrum (or per failed file). */
-export function analyseFiles(paths: string[], settings: ExtractionSettings): Analysed[] {
-  const results: Analysed[] = [];
+/** Read and import every file: its spectra, or an error entry for a file that cannot be read. */
+export function importFiles(paths: string[]): (ImportedFile | Analysed)[] {
+  const out: (ImportedFile | Analysed)[] = [];
   for (const path of expandPaths(paths)) {
     const name = basename(path);
     let bytes: Uint8Array;
     try {
       const st = statSync(path);
       if (st.size > DEFAULT_IMPORT_LIMITS.maxFileBytes) {
-        results.push(errorEntry(name, `file is ${st.size} bytes, over the limit of ${DEFAULT_IMPORT_LIMITS.maxFileBytes}`));
+        out.push(errorEntry(name, `file is ${st.size} bytes, over the limit of ${DEFAULT_IMPORT_LIMITS.maxFileBytes}`));
         continue;
       }
       bytes = readFileSync(path);
     } catch (e) {
       const code = (e as NodeJS.ErrnoException).code;
-      results.push(errorEntry(name, code === "ENOENT" ? "no such file" : code === "EACCES" ? "permission denied" : `cannot read the file (${code ?? (e as Error).message})`));
+      const why = code === "ENOENT" ? "no such file" : code === "EACCES" ? "permission denied" : `cannot read the file (${code ?? (e as Error).message})`;
+      out.push(errorEntry(name, why));
       continue;
     }
-    for (const f of importSpectra(name, bytes)) {
-      if (f.status === "error") {
-        results.push(errorEntry(f.file, f.message ?? "rejected"));
-        continue;
-      }
-      for (const s of f.spectra) {
-        try {
-          const p = pickGap(s, settings);
-          results.push({
-            entry: {
-              file: s.file,
-              index: s.index,
-              label: s.label,
-              status: p.status,
-              message: null,
-              warnings: [...f.warnings, ...s.warnings, ...p.warnings],
-              gap: gapJson(p),
-            },
-            spectrum: s,
-            pick: p,
-          });
-        } catch (e) {
-          results.push({ ...errorEntry(s.file, `spectrum ${s.index + 1}: ${(e as Error).message}`), spectrum: s });
-        }
+    for (const f of importSpectra(name, bytes)) out.push(f.status === "error" ? errorEntry(f.file, f.message ?? "rejected") : f);
+  }
+  return out;
+}
+
+export function normalisationJson(view: Normalised): NormalisationJson | undefined {
+  return view.method === "none" ? undefined : { method: view.method, description: view.description, currentReconstructed: view.currentReconstructed };
+}
+
+/** Read, import and pick every file (on the view the settings name); one Analysed per spectrum (or per failed file). */
+export function analyseFiles(paths: string[], settings: ExtractionSettings): Analysed[] {
+  const results: Analysed[] = [];
+  for (const f of importFiles(paths)) {
+    if ("entry" in f) {
+      results.push(f);
+      continue;
+    }
+    for (const s of f.spectra) {
+      try {
+        const { pick: p, view } = pickOnView(s, settings);
+        const normalisation = normalisationJson(view);
+        results.push({
+          entry: {
+            file: s.file,
+            index: s.index,
+            label: s.label,
+            status: p.status,
+            message: null,
+            warnings: [...f.warnings, ...s.warnings, ...p.warnings],
+            gap: gapJson(p),
+            ...(normalisation ? { normalisation } : {}),
+          },
+          spectrum: s,
+          pick: p,
+        });
+      } catch (e) {
+        results.push({ ...errorEntry(s.file, `spectrum ${s.index + 1}: ${(e as Error).message}`), spectrum: s });
       }
     }
   }

@@ -66,3 +66,12 @@ export const fieldModelInput = z.object({
   screening: numberInput(num("a factor").min(1, "A screening factor below 1 would amplify the field.").max(100, "A screening factor above 100 leaves no field.").default(1)),
   note: text().trim().max(500).optional(),
 }).refine((m) => m.decayConstantSource !== "measured" || m.barrierHeight_eV != null, { message: "Give the measured apparent barrier height.", path: ["barrierHeight_eV"] });
+
+/** Spectra to average (repeats at one point, in the order given), and members the user put back. */
+export const averageSpectraInput = z.object({
+  ids: z.array(z.string().uuid()).min(2, "Select two spectra or more to average.").max(256),
+  include: z.array(z.string().uuid()).max(256).optional(),
+});
+
+/** An average and one of its members left out, to put back into it. */
+export const putBackMemberInput = z.object({ memberId: z.string().uuid() });

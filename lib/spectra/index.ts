@@ -43,3 +43,4 @@ export { estimateField, fieldAssumptions, OWN_FIELD_REL_SIGMA, sharedField, type
 export { fitCrossing, fitSweep, type CrossingPoint, type CrossingFit } from "./crossing";
 export { makeSpectrum, makeSweep, makeNoise, makeRepeats, modelDidv, sweepGap_eV, type SpectrumModel, type SyntheticSpectrum, type SweepModel, type SyntheticSweepPoint } from "./synthetic";
 export { spectrumToCsv, columnsToCsv } from "./write";
+export * from "./prepare";

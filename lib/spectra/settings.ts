@@ -82,6 +82,14 @@ export const extractionSettingsSchema = z.object({
   assumedTemperature_K: nonNegative,
   /** Used when a spectrum's metadata has no lock-in modulation, mV rms. */
   assumedLockinModulation_mV_rms: nonNegative,
+  /**
+   * The view the gap is picked on (prepare/normalise.ts): raw dI/dV (`none`), (dI/dV)/(I/V) with I/V
+   * broadened by an exponential of width `broadening_mV` (`feenstra`), or dI/dV ÷ I_set/V_set (`setpoint`).
+   */
+  normalisation: z.object({
+    method: z.enum(["none", "feenstra", "setpoint"]),
+    broadening_mV: positive,
+  }),
 });
 export type ExtractionSettings = z.infer<typeof extractionSettingsSchema>;
 
@@ -103,6 +111,7 @@ export const DEFAULT_EXTRACTION_SETTINGS: ExtractionSettings = deepFreeze({
   metallicFloorRatio: 0.2,
   assumedTemperature_K: 4.5,
   assumedLockinModulation_mV_rms: 0,
+  normalisation: { method: "none", broadening_mV: 100 },
 });
 
 export const fieldModelSchema = z.object({

@@ -2,7 +2,7 @@
 """Write golden vectors for the smoothing tests from scipy, an independent reference implementation.
 
 Usage (from the project root):  python3 scripts/golden/make_golden.py
-Writes tests/unit/spectra/golden/scipy-smoothing.json; commit the result. The input signals are stored
+Writes tests/unit/spectra/golden/scipy-smoothing.json and scipy-prepare.json; commit the result. The input signals are stored
 in the file, so the tests do not depend on numpy's random generator.
 """
 import json
@@ -12,9 +12,39 @@ import sys
 import numpy as np
 import scipy
 from scipy.ndimage import gaussian_filter1d
+from scipy.integrate import cumulative_trapezoid
 from scipy.signal import savgol_coeffs, savgol_filter
 
-OUT = os.path.join(os.path.dirname(__file__), "..", "..", "tests", "unit", "spectra", "golden", "scipy-smoothing.json")
+GOLDEN = os.path.join(os.path.dirname(__file__), "..", "..", "tests", "unit", "spectra", "golden")
+OUT = os.path.join(GOLDEN, "scipy-smoothing.json")
+OUT_PREPARE = os.path.join(GOLDEN, "scipy-prepare.json")
+
+
+def write(path: str, doc: dict) -> None:
+    os.makedirs(os.path.dirname(path), exist_ok=True)
+    with open(path, "w") as f:
+        json.dump(doc, f, indent=1)
+        f.write("\n")
+    print(f"wrote {os.path.relpath(path)} with scipy {scipy.__version__}")
+
+
+def prepare() -> None:
+    """cumulative_trapezoid(y, x, initial=0) on a uniform and a non-uniform axis, for lib/spectra/prepare."""
+    rng = np.random.default_rng(20261205)
+    cases = []
+    x = np.linspace(-0.3, 0.3, 151)
+    y = 1.0 + np.tanh((x - 0.1) / 0.02) + 0.3 * np.abs(x) + 0.02 * rng.standard_normal(x.size)
+    cases.append({"name": "uniform", "x": x.tolist(), "y": y.tolist(), "output": cumulative_trapezoid(y, x, initial=0).tolist()})
+    xn = np.sort(rng.uniform(-0.5, 0.5, 97))
+    yn = np.exp(xn / 0.15) + 0.05 * rng.standard_normal(xn.size)
+    cases.append({"name": "non-uniform", "x": xn.tolist(), "y": yn.tolist(), "output": cumulative_trapezoid(yn, xn, initial=0).tolist()})
+    write(OUT_PREPARE, {
+        "source": f"scipy {scipy.__version__} (numpy {np.__version__}, python {sys.version.split()[0]}): "
+        "scipy.integrate.cumulative_trapezoid(y, x, initial=0)",
+        "scipy_version": scipy.__version__,
+        "generator": "scripts/golden/make_golden.py",
+        "cumulative_trapezoid": cases,
+    })
 
 
 def main() -> None:
@@ -45,11 +75,8 @@ def main() -> None:
         "savgol_filter": filters,
         "gaussian_filter1d": gauss,
     }
-    os.makedirs(os.path.dirname(OUT), exist_ok=True)
-    with open(OUT, "w") as f:
-        json.dump(doc, f, indent=1)
-        f.write("\n")
-    print(f"wrote {os.path.relpath(OUT)} with scipy {scipy.__version__}")
+    write(OUT, doc)
+    prepare()
 
 
 if __name__ == "__main__":

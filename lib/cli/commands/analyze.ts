@@ -1,17 +1,26 @@
 /**
- * bandcross analyze FILE... [--json] [--settings FILE] [--threshold-k K] [--no-fit]
- * Reads every file (text, JSON or zip), picks the band edges of every spectrum, prints a table or JSON.
+ * bandcross analyze FILE... [--json] [--settings FILE] [--threshold-k K] [--no-fit] [--average]
+ *   [--normalise none|feenstra|setpoint]
+ * Reads every file (text, JSON or zip), picks the band edges of every spectrum (or of every point's
+ * average of repeats), prints a table or JSON.
  */
+import { NORMALISATIONS } from "../../spectra";
+import { analyseAveraged } from "../average";
 import type { Command } from "../io";
 import { CliUsageError } from "../io";
 import { analyseFiles, extractionOptions, gapCells, noteOf, parse, settingsFromOptions, table } from "../shared";
 
-const usage = `usage: bandcross analyze FILE... [--json] [--settings FILE] [--threshold-k K] [--no-fit]
+const usage = `usage: bandcross analyze FILE... [--json] [--settings FILE] [--threshold-k K] [--no-fit] [--average]
+                        [--normalise none|feenstra|setpoint]
   FILE            a spectrum file (csv/tsv/txt, JSON) or a zip of them; a directory is read recursively
   --json          print {"spectra":[…]} instead of a table
   --settings F    extraction settings as JSON (partial; the rest are defaults)
   --threshold-k K threshold multiplier k (edge at floor + k·σ)
   --no-fit        report threshold edges without the broadening-aware fit
+  --average       one spectrum per point: the repeats of a file ("# repeats: N", or dI/dV columns named
+                  point=K) averaged, an odd repeat left out; adds averagedFrom and leftOut to each entry
+  --normalise N   pick on a normalised view: feenstra ((dI/dV)/(I/V), I/V broadened) or setpoint
+                  (dI/dV ÷ I_set/V_set); adds a normalisation field to each entry
 exit status: 0 when every file was read, 1 when any was rejected, 2 for a usage error`;
 
 export const analyze: Command = {
@@ -19,14 +28,20 @@ export const analyze: Command = {
   summary: "pick band edges and gaps in spectrum files",
   usage,
   async run(argv, io) {
-    const { values, positionals } = parse(argv, extractionOptions);
+    const { values, positionals } = parse(argv, { ...extractionOptions, average: { type: "boolean" }, normalise: { type: "string" } });
     if (values.help) {
       io.out(usage + "\n");
       return 0;
     }
     if (positionals.length === 0) throw new CliUsageError("no files given");
     const settings = settingsFromOptions(values);
-    const results = analyseFiles(positionals, settings);
+    const normalise = values.normalise as string | undefined;
+    if (normalise !== undefined) {
+      if (!(NORMALISATIONS as readonly string[]).includes(normalise))
+        throw new CliUsageError(`--normalise takes ${NORMALISATIONS.join(", ")}; got "${normalise}"`);
+      settings.normalisation = { ...settings.normalisation, method: normalise as (typeof NORMALISATIONS)[number] };
+    }
+    const results = values.average ? analyseAveraged(positionals, settings) : analyseFiles(positionals, settings);
     const failed = results.some((r) => r.entry.status === "error");
     if (values.json) {
       io.out(JSON.stringify({ spectra: results.map((r) => r.entry) }, null, 2) + "\n");

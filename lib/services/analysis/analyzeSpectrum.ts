@@ -1,5 +1,18 @@
 import type { Spectrum } from "@/db/schema";
-import { compareRepeats, estimateField, pickGap, repeatGroups, type ExtractionSettings, type FieldModel, type GapPick, type PickInput, type QualityFlag, type SpectrumMeta } from "@/lib/spectra";
+import {
+  compareRepeats,
+  estimateField,
+  pickGap,
+  pickOnView,
+  PrepareError,
+  repeatGroups,
+  type ExtractionSettings,
+  type FieldModel,
+  type GapPick,
+  type PickInput,
+  type QualityFlag,
+  type SpectrumMeta,
+} from "@/lib/spectra";
 
 export interface FieldValues {
   distanceNm: number | null;
@@ -9,19 +22,46 @@ export interface FieldValues {
   warning?: string;
 }
 
+/** The view a pick was made on, as the pick records it (`auto_pick.view`). */
+export interface PickView {
+  method: "none" | "feenstra" | "setpoint";
+  description: string;
+  currentReconstructed: boolean;
+}
+
+/**
+ * The pick on the view the settings name (raw, Feenstra- or setpoint-normalised). A spectrum that
+ * cannot be normalised so (no setpoint, a range without 0 V) is picked on its raw dI/dV, and the
+ * pick's first warning says why; the view it was made on is returned either way.
+ */
+export function pickOnSettingsView(
+  spectrum: PickInput & { current_A?: Float64Array | null },
+  settings: ExtractionSettings,
+): { pick: GapPick; view: PickView } {
+  try {
+    const { pick, view } = pickOnView(spectrum, settings);
+    return { pick, view: { method: view.method, description: view.description, currentReconstructed: view.currentReconstructed } };
+  } catch (e) {
+    if (!(e instanceof PrepareError)) throw e;
+    const pick = pickGap(spectrum, settings);
+    pick.warnings.unshift(`not normalised (${settings.normalisation.method}): ${e.message}; picked on raw dI/dV`);
+    return { pick, view: { method: "none", description: "raw dI/dV", currentReconstructed: false } };
+  }
+}
+
 /**
  * The analysis of one spectrum with its sample's current versions, the same step for upload
- * processing and re-analysis: the automatic pick with the extraction settings, and the distance
- * and field with the field model of the spectrum's tip. A file without a temperature takes its
- * session's. Pure: what it returns is stored by the caller.
+ * processing and re-analysis: the automatic pick with the extraction settings (on the view they
+ * name), and the distance and field with the field model of the spectrum's tip. A file without a
+ * temperature takes its session's. Pure: what it returns is stored by the caller.
  */
 export function analyzeSpectrum<M extends Partial<SpectrumMeta>>(
-  spectrum: PickInput & { meta: M },
+  spectrum: PickInput & { meta: M; current_A?: Float64Array | null },
   how: { settings: ExtractionSettings; model: FieldModel; sessionTemperatureK?: number | null },
-): { meta: M; pick: GapPick; field: FieldValues } {
+): { meta: M; pick: GapPick; view: PickView; field: FieldValues } {
   const meta = { ...spectrum.meta, temperature_K: spectrum.meta.temperature_K ?? how.sessionTemperatureK ?? undefined };
-  const pick = pickGap({ bias_V: spectrum.bias_V, didv: spectrum.didv, meta }, how.settings);
-  return { meta, pick, field: fieldFor(how.model, meta) };
+  const { pick, view } = pickOnSettingsView({ bias_V: spectrum.bias_V, didv: spectrum.didv, current_A: spectrum.current_A, meta }, how.settings);
+  return { meta, pick, view, field: fieldFor(how.model, meta) };
 }
 
 /** Distance and field for one spectrum's setpoint; missing setpoints give nulls and a warning, never an error. */
@@ -38,11 +78,13 @@ export function fieldFor(model: FieldModel, meta: Pick<SpectrumMeta, "setpoint_b
 }
 
 /**
- * The stored columns of an automatic pick (the full pick, minus its arrays, is kept as `auto_pick`),
- * its quality flags in a column of their own so that tables and the fit can filter on them.
+ * The stored columns of an automatic pick (the full pick, minus its arrays, is kept as `auto_pick`,
+ * with the view it was made on), its quality flags in a column of their own so that tables and the
+ * fit can filter on them.
  */
-export function pickColumns(pick: GapPick, settingsVersionId: string) {
-  const { smoothed: _smoothed, baseline: _baseline, ...rest } = pick;
+export function pickColumns(pick: GapPick, settingsVersionId: string, view?: PickView) {
+  const { smoothed: _smoothed, baseline: _baseline, ...own } = pick;
+  const rest = view ? { ...own, view } : own;
   return {
     source: "auto" as const,
     status: pick.status,

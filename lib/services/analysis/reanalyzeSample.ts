@@ -48,10 +48,11 @@ export async function reanalyzeSample({ ctx, input }: { ctx: DbCtx; input: { sam
     await db.transaction(async (tx) => {
       for (const { s, pickId, source } of rows) {
         const model = analysis.modelFor(s.tipId ? (tipById.get(s.tipId) ?? null) : null);
-        const { pick, field } = analyzeSpectrum({ bias_V: s.biasV, didv: s.didv, meta: metaOfRow(s, sessionT.get(s.sessionId)) }, { settings: analysis.settings, model });
+        const input = { bias_V: s.biasV, didv: s.didv, current_A: s.currentA, meta: metaOfRow(s, sessionT.get(s.sessionId)) };
+        const { pick, view, field } = analyzeSpectrum(input, { settings: analysis.settings, model });
         const { warning: _w, ...fieldCols } = field;
         await tx.update(spectra).set({ ...fieldCols, fieldModelVersionId: analysis.fieldVersion.id, updatedAt: new Date() }).where(eq(spectra.id, s.id));
-        const cols = pickColumns(pick, analysis.settingsVersion.id);
+        const cols = pickColumns(pick, analysis.settingsVersion.id, view);
         if (source === "auto") {
           await tx.update(gapPicks).set({ ...cols, version: sql`${gapPicks.version} + 1`, updatedAt: new Date() }).where(eq(gapPicks.id, pickId));
         } else {
@@ -81,7 +82,8 @@ async function reflagRepeats(db: DbOrTx, sampleId: string): Promise<void> {
   const metas = await db
     .select({ id: spectra.id, uploadId: spectra.uploadId, sourceName: spectra.sourceName, x: spectra.xNm, y: spectra.yNm, vset: spectra.setpointBiasV, iset: spectra.setpointCurrentA, extra: spectra.meta })
     .from(spectra)
-    .where(eq(spectra.sampleId, sampleId));
+    .where(and(eq(spectra.sampleId, sampleId), eq(spectra.kind, "measured")))
+    .orderBy(spectra.indexInFile);
   const meta = (m: (typeof metas)[number]) => ({ x_nm: m.x ?? undefined, y_nm: m.y ?? undefined, setpoint_bias_V: m.vset ?? undefined, setpoint_current_A: m.iset ?? undefined, extra: m.extra });
   const byFile = new Map<string, (typeof metas)[number][]>();
   for (const m of metas) byFile.set(`${m.uploadId}/${m.sourceName}`, [...(byFile.get(`${m.uploadId}/${m.sourceName}`) ?? []), m]);
@@ -91,7 +93,8 @@ async function reflagRepeats(db: DbOrTx, sampleId: string): Promise<void> {
     .select({ id: spectra.id, uploadId: spectra.uploadId, sourceName: spectra.sourceName, x: spectra.xNm, y: spectra.yNm, vset: spectra.setpointBiasV, iset: spectra.setpointCurrentA, extra: spectra.meta, biasV: spectra.biasV, didv: spectra.didv, pickId: gapPicks.id, autoPick: gapPicks.autoPick })
     .from(spectra)
     .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
-    .where(inArray(spectra.id, ids));
+    .where(inArray(spectra.id, ids))
+    .orderBy(spectra.indexInFile);
   const items: RepeatCandidate[] = rows.map((r) => ({ file: `${r.uploadId}/${r.sourceName}`, meta: meta(r), bias_V: r.biasV, didv: r.didv, pick: r.autoPick as unknown as RepeatCandidate["pick"] }));
   const added = repeatFlags(items);
   await db.transaction(async (tx) => {

@@ -7,7 +7,7 @@ import { fitSweep, type CrossingFit } from "@/lib/spectra";
 import { afterRefit } from "../alerts/afterRefit";
 import { currentCrossing } from "../alerts/currentCrossing";
 import { loadSampleAnalysis } from "./loadSampleAnalysis";
-import { inFitByFlags, type RefitResult } from "./shared";
+import { inFitByFlags, notInAverage, type RefitResult } from "./shared";
 
 async function fitAndStore(db: DbOrTx, sampleId: string): Promise<RefitResult> {
   const analysis = await loadSampleAnalysis({ ctx: { db }, input: { sampleId } });
@@ -15,7 +15,7 @@ async function fitAndStore(db: DbOrTx, sampleId: string): Promise<RefitResult> {
     .select({ field: spectra.fieldVPerNm, fieldSigma: spectra.fieldSigmaVPerNm, gap: gapPicks.gapEv, gapSigma: gapPicks.uncertaintyEv })
     .from(spectra)
     .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
-    .where(and(eq(spectra.sampleId, sampleId), eq(gapPicks.excluded, false), eq(gapPicks.status, "ok"), isNotNull(spectra.fieldVPerNm), isNotNull(gapPicks.gapEv), inFitByFlags(analysis.lab.flaggedInFit)));
+    .where(and(eq(spectra.sampleId, sampleId), eq(gapPicks.excluded, false), eq(gapPicks.status, "ok"), isNotNull(spectra.fieldVPerNm), isNotNull(gapPicks.gapEv), inFitByFlags(analysis.lab.flaggedInFit), notInAverage));
   const fit = fitSweep(rows.map((r) => ({ field_V_per_nm: r.field!, fieldSigma_V_per_nm: r.fieldSigma, gap_eV: r.gap!, gapSigma_eV: r.gapSigma })));
   const previous = await currentCrossing({ ctx: { db }, input: { sampleId } });
   const ci = fit.ci95Total_V_per_nm ?? fit.ci95_V_per_nm;

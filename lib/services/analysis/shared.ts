@@ -1,6 +1,6 @@
 import "server-only";
 import { eq, or, sql, type SQL } from "drizzle-orm";
-import { gapPicks, type Crossing, type FlaggedInFit } from "@/db/schema";
+import { gapPicks, spectra, spectrumAverageMembers, type Crossing, type FlaggedInFit } from "@/db/schema";
 import type { CrossingFit } from "@/lib/spectra";
 
 export interface RefitResult {
@@ -18,3 +18,6 @@ export function inFitByFlags(setting: FlaggedInFit): SQL | undefined {
 export function flaggedOutOfFit(setting: FlaggedInFit, p: { source: "auto" | "corrected"; excluded: boolean; flags: readonly unknown[] }): boolean {
   return setting === "exclude" && p.source === "auto" && !p.excluded && p.flags.length > 0;
 }
+
+/** Spectra that are members of an average stay out of the crossing fit and the phase plot: the average stands for them. */
+export const notInAverage = sql`not exists (select 1 from ${spectrumAverageMembers} m where m.member_id = ${spectra.id})`;

@@ -1,7 +1,7 @@
 import "server-only";
 import { and, asc, desc, eq, isNull, sql } from "drizzle-orm";
 import { crossings, extractionSettingsVersions, fieldModelVersions, gapPicks, spectra } from "@/db/schema";
-import { flaggedOutOfFit } from "../analysis/shared";
+import { flaggedOutOfFit, notInAverage } from "../analysis/shared";
 import type { Ctx } from "@/lib/base/context";
 import { sharedField } from "@/lib/spectra";
 import { getSample } from "../samples/getSample";
@@ -19,7 +19,10 @@ function roundTo(x: number, d: number): number {
   return Math.round(x * f) / f;
 }
 
-/** The phase plot's data: every spectrum with a gap and a field, and the sample's current crossing. */
+/**
+ * The phase plot's data: every spectrum with a gap and a field (an average in its members' place),
+ * and the sample's current crossing.
+ */
 export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: string; precise?: boolean } }) {
   const sample = await getSample({ ctx, input: { id: input.sampleId } });
   const rows = await ctx.db
@@ -42,7 +45,7 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
     })
     .from(spectra)
     .innerJoin(gapPicks, eq(gapPicks.spectrumId, spectra.id))
-    .where(and(eq(spectra.sampleId, sample.id), eq(gapPicks.status, "ok"), sql`${spectra.fieldVPerNm} is not null`, sql`${gapPicks.gapEv} is not null`))
+    .where(and(eq(spectra.sampleId, sample.id), eq(gapPicks.status, "ok"), sql`${spectra.fieldVPerNm} is not null`, sql`${gapPicks.gapEv} is not null`, notInAverage))
     .orderBy(asc(spectra.fieldVPerNm));
   const setting = await labFlaggedInFit({ ctx });
   // Plot precision unless `precise` (the exports and the spectrum endpoint keep every digit): fields to 6

@@ -1,9 +1,9 @@
 import "server-only";
 import { and, eq, sql } from "drizzle-orm";
-import { extractionSettingsVersions, fieldModelVersions, gapPicks, labs, measurementSessions, samples, spectra, tips, uploads } from "@/db/schema";
+import { extractionSettingsVersions, fieldModelVersions, gapPicks, labs, measurementSessions, samples, spectra, spectrumAverageMembers, tips, uploads } from "@/db/schema";
 import { assertCan } from "@/lib/base/permissions";
-import { pickGap, resolveExtractionSettings } from "@/lib/spectra";
-import { metaOfRow } from "../analysis/analyzeSpectrum";
+import { normaliseSpectrum, resolveExtractionSettings, type ExtractionSettings, type ViewInput } from "@/lib/spectra";
+import { metaOfRow, pickOnSettingsView } from "../analysis/analyzeSpectrum";
 import { flaggedOutOfFit } from "../analysis/shared";
 import type { Ctx } from "@/lib/base/context";
 import { notFound } from "@/lib/base/errors";
@@ -11,17 +11,37 @@ import { isUuid } from "../samples/getSample";
 import { sampleVisibility } from "../samples/visibility";
 
 /**
+ * The normalised views of a spectrum (Feenstra with the settings' broadening, and setpoint), each its
+ * values with the words saying what was done, or the reason it cannot be made.
+ */
+function viewsOf(input: ViewInput, settings: ExtractionSettings) {
+  const one = (method: "feenstra" | "setpoint") => {
+    try {
+      const v = normaliseSpectrum(input, { ...settings.normalisation, method });
+      return { values: Array.from(v.values), stderr: v.stderr ? Array.from(v.stderr) : null, description: v.description, warnings: v.warnings, error: null };
+    } catch (e) {
+      return { values: null, stderr: null, description: null, warnings: [], error: (e as Error).message };
+    }
+  };
+  return { feenstra: one("feenstra"), setpoint: one("setpoint") };
+}
+
+/**
  * What the review screen draws beside the raw curve: the smoothed curve, noise floor, threshold
  * and resolution, recomputed with the settings version that made the stored pick (about a
- * millisecond for a 512-point spectrum), so nothing derivable is stored twice.
+ * millisecond for a 512-point spectrum), so nothing derivable is stored twice. They belong to the
+ * view the pick was made on (`pickedOn`); the normalised views come along for the view switch.
  */
 async function analysisOf(ctx: Ctx, s: typeof spectra.$inferSelect, settingsVersionId: string | null) {
   const [sv] = settingsVersionId ? await ctx.db.select().from(extractionSettingsVersions).where(eq(extractionSettingsVersions.id, settingsVersionId)) : [];
   const [session] = await ctx.db.select({ t: measurementSessions.temperatureK }).from(measurementSessions).where(eq(measurementSessions.id, s.sessionId));
   const settings = resolveExtractionSettings((sv?.settings ?? {}) as never);
   const meta = metaOfRow(s, session?.t);
-  const pick = pickGap({ bias_V: s.biasV, didv: s.didv, meta }, settings);
+  const input = { bias_V: s.biasV, didv: s.didv, current_A: s.currentA, stderr: s.stderr, meta };
+  const { pick, view } = pickOnSettingsView(input, settings);
   return {
+    pickedOn: view,
+    views: viewsOf(input, settings),
     smoothed: Array.from(pick.smoothed),
     smoothing: pick.smoothing,
     noiseFloor: pick.noiseFloor,
@@ -66,6 +86,51 @@ async function neighboursOf(ctx: Ctx, sampleId: string, id: string) {
     : { position: 1, total: 1, prev: null, next: null, nextFlagged: null, flagged: 0 };
 }
 
+/**
+ * An average's members (each with its raw file's SHA-256, used or left out and why), and for a
+ * member the average it is in.
+ */
+async function averageOf(ctx: Ctx, s: typeof spectra.$inferSelect) {
+  const members =
+    s.kind === "average"
+      ? await ctx.db
+          .select({
+            id: spectra.id,
+            sourceName: spectra.sourceName,
+            index: spectra.indexInFile,
+            label: spectra.label,
+            rawSha256: spectra.rawSha256,
+            used: spectrumAverageMembers.used,
+            leftOutReason: spectrumAverageMembers.leftOutReason,
+            statistic: spectrumAverageMembers.statistic,
+            limit: spectrumAverageMembers.limit,
+            putBack: spectrumAverageMembers.putBack,
+          })
+          .from(spectrumAverageMembers)
+          .innerJoin(spectra, eq(spectra.id, spectrumAverageMembers.memberId))
+          .where(and(eq(spectrumAverageMembers.averageId, s.id), eq(spectrumAverageMembers.labId, ctx.actor.labId)))
+          .orderBy(spectrumAverageMembers.position)
+      : [];
+  const [into] = await ctx.db
+    .select({ id: spectra.id, label: spectra.label })
+    .from(spectrumAverageMembers)
+    .innerJoin(spectra, eq(spectra.id, spectrumAverageMembers.averageId))
+    .where(and(eq(spectrumAverageMembers.memberId, s.id), eq(spectrumAverageMembers.labId, ctx.actor.labId)));
+  const used = members.filter((m) => m.used).length;
+  return {
+    average:
+      s.kind === "average"
+        ? {
+            members,
+            description:
+              `mean of ${used} of ${members.length} repeats at one point, with the standard error of the mean` +
+              (used < members.length ? `; ${members.length - used} left out (differs beyond the noise)` : ""),
+          }
+        : null,
+    averagedInto: into ?? null,
+  };
+}
+
 /** One spectrum with everything needed to trust its numbers: arrays, metadata, pick, field, versions, raw-file hash. */
 export async function getSpectrum({ ctx, input }: { ctx: Ctx; input: { id: string } }) {
   assertCan(ctx.actor, "lab:read");
@@ -86,8 +151,14 @@ export async function getSpectrum({ ctx, input }: { ctx: Ctx; input: { id: strin
   const { s, p } = row;
   const analysis = await analysisOf(ctx, s, p?.settingsVersionId ?? null);
   const neighbours = await neighboursOf(ctx, s.sampleId, s.id);
+  const { average, averagedInto } = await averageOf(ctx, s);
   return {
     id: s.id,
+    /** `measured` (a column of a file) or `average` (of repeats: `average` lists its members). */
+    kind: s.kind,
+    average,
+    /** For a member of an average: that average (it stands for this spectrum in the fit). */
+    averagedInto,
     sampleId: s.sampleId,
     sampleName: row.sampleName,
     sessionId: s.sessionId,
@@ -109,7 +180,13 @@ export async function getSpectrum({ ctx, input }: { ctx: Ctx; input: { id: strin
       extra: s.meta,
     },
     warnings: s.warnings,
-    arrays: { bias_V: Array.from(s.biasV), didv: Array.from(s.didv), current_A: s.currentA ? Array.from(s.currentA) : null },
+    arrays: {
+      bias_V: Array.from(s.biasV),
+      didv: Array.from(s.didv),
+      current_A: s.currentA ? Array.from(s.currentA) : null,
+      /** Standard error of the mean per point (averages). */
+      stderr: s.stderr ? Array.from(s.stderr) : null,
+    },
     pick: p
       ? {
           version: p.version,

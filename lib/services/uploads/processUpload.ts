@@ -3,14 +3,27 @@ import { and, eq, inArray, ne, sql } from "drizzle-orm";
 import type { SystemCtx } from "@/lib/base/context";
 import { gapPicks, measurementSessions, spectra, tips, uploads } from "@/db/schema";
 import { sha256Hex } from "@/lib/auth/secrets";
-import { importSpectra, type ParsedSpectrum } from "@/lib/spectra";
+import { importSpectra, pointGroups, PrepareError, type ImportedFile, type ParsedSpectrum } from "@/lib/spectra";
+import { isServiceError } from "@/lib/base/errors";
 import { getObjectBytes } from "@/lib/storage/s3";
 import { analyzeSpectrum, pickColumns, repeatFlags } from "../analysis/analyzeSpectrum";
 import { refitSample } from "../analysis/refitSample";
 import { loadSampleAnalysis } from "../analysis/loadSampleAnalysis";
+import { storeAverage } from "../analysis/storeAverage";
 import { ProcessOutcome, fail } from "./shared";
 
 const INSERT_BATCH = 400;
+
+/** The points of a file with two repeats or more (`# repeats: N` or `point=K` columns), or why they cannot be read. */
+function repeatPoints(f: ImportedFile): { label: string; members: ParsedSpectrum[] }[] | string {
+  try {
+    const g = pointGroups(f.spectra);
+    return g.groups.filter((p) => p.members.length > 1).map((p) => ({ label: p.label, members: p.members.map((i) => f.spectra.find((s) => s.index === i)!) }));
+  } catch (e) {
+    if (e instanceof PrepareError) return e.message;
+    throw e;
+  }
+}
 
 /**
  * The worker's job for one raw file: read it from storage, parse it with the analysis core, store
@@ -64,9 +77,9 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
   const warnings = [...files.flatMap((f) => f.warnings.map((w) => (files.length > 1 ? `${f.file}: ${w}` : w))), ...bad.map((f) => `${f.file} skipped: ${f.message}`)];
   const all: ParsedSpectrum[] = good.flatMap((f) => f.spectra);
   const prepared = all.map((s) => {
-    const { meta, pick, field } = analyzeSpectrum(s, { settings: analysis.settings, model, sessionTemperatureK: session.temperatureK });
+    const { meta, pick, view, field } = analyzeSpectrum(s, { settings: analysis.settings, model, sessionTemperatureK: session.temperatureK });
     const spectrumWarnings = [...s.warnings, ...pick.warnings, ...(field.warning ? [field.warning] : [])];
-    return { s, meta, pick, field, spectrumWarnings };
+    return { s, meta, pick, view, field, spectrumWarnings };
   });
   // Repeats at one point in a file are compared: a tip change or drift between them is flagged.
   repeatFlags(prepared.map((p) => ({ file: p.s.file, meta: p.meta, bias_V: p.s.bias_V, didv: p.s.didv, pick: p.pick }))).forEach((f, i) => prepared[i].pick.flags.push(...f));
@@ -82,6 +95,7 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
     if (!now || now.status === "done") return false;
     const old = await tx.select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, u.id));
     if (old.length) await tx.delete(spectra).where(inArray(spectra.id, old.map((o) => o.id)));
+    const idOf = new Map<ParsedSpectrum, string>();
     for (let i = 0; i < prepared.length; i += INSERT_BATCH) {
       const batch = prepared.slice(i, i + INSERT_BATCH);
       const rows = await tx
@@ -116,7 +130,26 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
           })),
         )
         .returning({ id: spectra.id });
-      await tx.insert(gapPicks).values(batch.map((p, j) => ({ labId: u.labId, spectrumId: rows[j].id, ...pickColumns(p.pick, analysis.settingsVersion.id) })));
+      await tx.insert(gapPicks).values(batch.map((p, j) => ({ labId: u.labId, spectrumId: rows[j].id, ...pickColumns(p.pick, analysis.settingsVersion.id, p.view) })));
+      batch.forEach((p, j) => idOf.set(p.s, rows[j].id));
+    }
+    // Repeats of one point are averaged (the repeats are kept as they are); a point that cannot be
+    // averaged is said so in the file's warnings and its repeats stay separate spectra.
+    for (const f of good) {
+      const points = repeatPoints(f);
+      if (typeof points === "string") {
+        warnings.push(`${f.file}: repeats not averaged: ${points}`);
+        continue;
+      }
+      for (const p of points)
+        try {
+          const memberIds = p.members.map((m) => idOf.get(m)!);
+          const a = await storeAverage({ ctx: { db: tx }, input: { memberIds, createdBy: u.createdBy } });
+          warnings.push(`${f.file}: ${p.label}: ${p.members.length} repeats averaged${a.leftOut.length ? `, ${a.leftOut.length} left out (differs beyond the noise)` : ""}`);
+        } catch (e) {
+          if (!isServiceError(e)) throw e;
+          warnings.push(`${f.file}: ${p.label}: ${e.message}`);
+        }
     }
     await tx
       .update(uploads)

@@ -17,6 +17,7 @@ import { interpolateOnto, movingAverage } from "../stats";
 import type { GapPick } from "./pick";
 import type { QualityFlag } from "./flags";
 import type { SpectrumMeta } from "../import/types";
+import { declaredRepeats } from "../prepare/points";
 
 export interface RepeatInput {
   bias_V: ArrayLike<number>;
@@ -91,8 +92,9 @@ export function compareRepeats(repeats: RepeatInput[]): QualityFlag[][] {
 
 /**
  * Which spectra of one file are repeats at one point: those that share a position (x_nm, y_nm within
- * 1 pm) and a setpoint (bias and current within 0.1%), or — with no positions — every spectrum of a
- * file whose metadata says `repeats` (the file's own word for it). Groups of two or more, as indices.
+ * 1 pm) and a setpoint (bias and current within 0.1%), or — with no positions — the points of a file
+ * whose metadata says `# repeats: N` (N consecutive columns each; every spectrum of the file sharing a
+ * setpoint when the columns are not a whole number of points). Groups of two or more, as indices.
  * A grid or a line (different positions) has none.
  */
 export function repeatGroups(metas: Pick<SpectrumMeta, "x_nm" | "y_nm" | "setpoint_bias_V" | "setpoint_current_A" | "extra">[]): number[][] {
@@ -102,8 +104,14 @@ export function repeatGroups(metas: Pick<SpectrumMeta, "x_nm" | "y_nm" | "setpoi
     close(a.x_nm, b.x_nm, 0, 1e-3) && close(a.y_nm, b.y_nm, 0, 1e-3) && close(a.setpoint_bias_V, b.setpoint_bias_V, 1e-3, 0) && close(a.setpoint_current_A, b.setpoint_current_A, 1e-3, 0);
   const groups: number[][] = [];
   const positioned = metas.every((m) => m.x_nm !== undefined && m.y_nm !== undefined);
-  const declared = metas.length > 1 && metas.every((m) => m.extra?.repeats !== undefined);
+  const declared = metas.length > 1 && metas.every((m) => declaredRepeats(m) !== undefined);
   if (!positioned && !declared) return groups;
+  if (!positioned) {
+    // `# repeats: N`: N consecutive columns per point (prepare/points.ts), when the file holds whole points.
+    const n = Number(declaredRepeats(metas[0]));
+    if (Number.isInteger(n) && n >= 2 && metas.length % n === 0)
+      return Array.from({ length: metas.length / n }, (_, p) => Array.from({ length: n }, (_, k) => p * n + k));
+  }
   const taken = new Array<boolean>(metas.length).fill(false);
   for (let i = 0; i < metas.length; i++) {
     if (taken[i]) continue;

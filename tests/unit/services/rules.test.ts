@@ -46,7 +46,7 @@ const EXPECTED: Record<Permission, string[]> = {
   "tip:write": ["createTip", "updateTip"],
   "session:write": ["createSession", "updateSession"],
   "upload:write": ["completeUpload", "createUploads", "retryUpload"],
-  "spectrum:tag": ["tagSpectra"],
+  "spectrum:tag": ["tagSpectra", "createAverage", "undoAverage", "putBackMember"],
   "analysis:write": ["acceptPick", "confirmCrossing", "correctPick", "saveExtractionSettings", "saveFieldModel", "setExcluded", "undoPickChange"],
   "members:manage": ["changeRole", "inviteMember", "listSampleAccess", "removeMember", "revokeInvitation", "setSampleAccess"],
   "tokens:manage": ["createToken", "listTokens", "revokeToken"],

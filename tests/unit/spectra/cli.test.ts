@@ -4,7 +4,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { zipSync } from "fflate";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { makeSpectrum, makeSweep, type SyntheticSpectrum } from "@/lib/spectra";
+import { columnsToCsv, makeRepeats, makeSpectrum, makeSweep, type SyntheticSpectrum } from "@/lib/spectra";
 
 const root = new URL("../../../", import.meta.url).pathname;
 let dir = "";
@@ -78,7 +78,21 @@ beforeAll(async () => {
   writeFileSync(f("folder/nested/two.csv"), toCsv(other));
   writeFileSync(f("threshold.json"), JSON.stringify({ fit: { enabled: false }, threshold: { k: 4 } }));
   writeFileSync(f("broken.json"), JSON.stringify({ threshold: { k: -2 } }));
+  // Repeats: two points of four repeats ("# repeats: 4"), a tip change before the second point's fourth.
+  const repModel = { vbEdge_V: -0.12, cbEdge_V: 0.18, T_K: 4.5, vrms_mV: 2, noise: 0.03, seed: 71 };
+  const reps = [...makeRepeats(repModel, 4), ...makeRepeats({ ...repModel, seed: 72 }, 4, { after: 3, edgeShift_V: 0.03, amplitudeFactor: 1.3 })];
+  const repMeta = { setpoint_bias_V: 0.5, setpoint_current_A: 1e-10, temperature_K: 4.5, lockin_modulation_mV_rms: 2 };
+  const columns = (names: string[]) => reps.slice(0, names.length).map((r, k) => ({ label: names[k], didv: r.didv }));
+  const withRepeats = (n: number, csv: string) => `# repeats: ${n}\n${csv}`;
+  writeFileSync(f("repeats.csv"), withRepeats(4, columnsToCsv(reps[0].bias_V, columns(reps.map((_, k) => `dI/dV ${k + 1}`)), repMeta)));
+  const fb = ["dI/dV point=1 fwd", "dI/dV point=1 bwd", "dI/dV point=2 fwd", "dI/dV point=2 bwd"];
+  writeFileSync(f("sweeps.csv"), columnsToCsv(reps[0].bias_V, columns(fb), repMeta));
+  writeFileSync(f("uneven.csv"), withRepeats(3, columnsToCsv(reps[0].bias_V, columns(["a", "b", "c", "d"].map((c) => `dI/dV ${c}`)), repMeta)));
   const jobs: [string, string[]][] = [
+    ["average", ["analyze", f("repeats.csv"), f("sweeps.csv"), f("uneven.csv"), "--average", "--json"]],
+    ["feenstra", ["analyze", f("good.csv"), "--normalise", "feenstra", "--json"]],
+    ["setpoint", ["analyze", f("good.csv"), "--normalise", "setpoint", "--json"]],
+    ["badNormalise", ["analyze", f("good.csv"), "--normalise", "unit"]],
     ["mixed", ["analyze", f("good.csv"), f("line.tsv"), f("ragged.csv"), f("blob.bin"), f("run.zip"), f("missing.csv"), "--json"]],
     ["table", ["analyze", f("good.csv"), f("line.tsv")]],
     ["sweep", ["sweep", ...sweepFiles, ...wf, "--contact-distance", "0.25", "--json"]],
@@ -122,6 +136,8 @@ describe("bandcross analyze", () => {
     expect(byFile("run.zip/a.csv")[0].status).toBe("ok");
     expect(byFile("run.zip/../escape.csv")[0].message).toMatch(/refused/);
     expect(byFile("missing.csv")[0].message).toMatch(/no such file/);
+    // Without --average or --normalise the entries are as before: no new fields.
+    for (const e of out.spectra) for (const k of ["averagedFrom", "leftOut", "normalisation"]) expect(e).not.toHaveProperty(k);
   });
   it("prints a readable table without --json and exits 0 when every file was read", () => {
     const r = runs.table;
@@ -188,5 +204,54 @@ describe("bandcross sweep", () => {
     expect(runs.usage.stdout).toBe("");
     expect(runs.usage.stderr).toMatch(/--tip-work-function and --sample-work-function are required/);
     noStack(runs.usage);
+  });
+});
+
+describe("bandcross analyze --average and --normalise", () => {
+  type AvgEntry = { file: string; index: number; status: string; message: string | null; warnings: string[]; averagedFrom: number[]; leftOut: number[]; gap: { gap_eV: number; uncertainty_eV: number } | null };
+  const entries = () => JSON.parse(runs.average.stdout).spectra as AvgEntry[];
+  it("averages each point's repeats (# repeats: 4): one entry per point, the members used and left out", () => {
+    const rep = entries().filter((e) => e.file === "repeats.csv");
+    expect(rep.map((e) => e.index)).toEqual([0, 1]);
+    expect(rep[0]).toMatchObject({ status: "ok", averagedFrom: [0, 1, 2, 3], leftOut: [] });
+    // The model's gap is 0.3 eV (synthetic.ts); the averaged pick finds it within twice its uncertainty.
+    expect(Math.abs(rep[0].gap!.gap_eV - 0.3)).toBeLessThanOrEqual(2 * rep[0].gap!.uncertainty_eV + 0.002);
+    expect(rep[1]).toMatchObject({ status: "ok", averagedFrom: [4, 5, 6], leftOut: [7] });
+    expect(rep[1].warnings.join("\n")).toMatch(/dI\/dV 8 differs from the other repeats beyond their noise/);
+    expect(rep[1].warnings).toContain("average of 3 repeats");
+  });
+  it("reads forward and backward sweeps named point=K as repeats of point K", () => {
+    const sw = entries().filter((e) => e.file === "sweeps.csv");
+    expect(sw.map((e) => [e.index, e.averagedFrom])).toEqual([
+      [0, [0, 1]],
+      [1, [2, 3]],
+    ]);
+    expect(sw[0].warnings.join("\n")).toMatch(/two repeats: neither can be told to be the odd one/);
+  });
+  it("refuses a file whose columns are not a whole number of points, with the reason, and exits 1", () => {
+    expect(runs.average.code).toBe(1);
+    const bad = entries().filter((e) => e.file === "uneven.csv");
+    expect(bad).toHaveLength(1);
+    expect(bad[0]).toMatchObject({ status: "error", gap: null });
+    expect(bad[0].message).toMatch(/"# repeats: 3" but the file has 4 dI\/dV columns/);
+    noStack(runs.average);
+  });
+  it("--normalise feenstra picks on (dI/dV)/(I/V) and says so, with the current rebuilt from dI/dV", () => {
+    expect(runs.feenstra.code).toBe(0);
+    const [e] = JSON.parse(runs.feenstra.stdout).spectra;
+    expect(e.normalisation).toMatchObject({ method: "feenstra", currentReconstructed: true });
+    expect(e.warnings.join("\n")).toMatch(/rebuilt by integrating dI\/dV.*\n.*gap picked on the normalised conductance/s);
+    expect(Math.abs(e.gap.gap_eV - 0.3)).toBeLessThanOrEqual(2 * e.gap.uncertainty_eV + 0.002);
+  });
+  it("--normalise setpoint divides by I_set/V_set and says so", () => {
+    expect(runs.setpoint.code).toBe(0);
+    const [e] = JSON.parse(runs.setpoint.stdout).spectra;
+    expect(e.normalisation.method).toBe("setpoint");
+    expect(e.normalisation.description).toMatch(/I_set\/V_set = 0\.2\d* nS/);
+  });
+  it("an unknown normalisation is a usage error naming the choices", () => {
+    expect(runs.badNormalise.code).toBe(2);
+    expect(runs.badNormalise.stderr).toMatch(/--normalise takes none, feenstra, setpoint; got "unit"/);
+    noStack(runs.badNormalise);
   });
 });
