@@ -18,6 +18,10 @@ export {
   resolveFieldModel,
   resolveCrossingOptions,
   resolveImportLimits,
+  barrierFitOptionsSchema,
+  DEFAULT_BARRIER_FIT_OPTIONS,
+  resolveBarrierFitOptions,
+  type BarrierFitOptions,
   type ExtractionSettings,
   type FieldModel,
   type CrossingOptions,
@@ -43,3 +47,4 @@ export { estimateField, fieldAssumptions, OWN_FIELD_REL_SIGMA, sharedField, type
 export { fitCrossing, fitSweep, type CrossingPoint, type CrossingFit } from "./crossing";
 export { makeSpectrum, makeSweep, makeNoise, makeRepeats, modelDidv, sweepGap_eV, type SpectrumModel, type SyntheticSpectrum, type SweepModel, type SyntheticSweepPoint } from "./synthetic";
 export { spectrumToCsv, columnsToCsv } from "./write";
+export * from "./barrier";
