@@ -153,24 +153,31 @@ function gapJson(p: GapPick): GapJson {
   };
 }
 
+/** The bytes of every file named (directories expanded), one at a time, or why one cannot be read. */
+export function* readInputs(paths: string[]): Generator<{ name: string; bytes: Uint8Array } | { name: string; error: string }> {
+  for (const path of expandPaths(paths)) {
+    const name = basename(path);
+    try {
+      const st = statSync(path);
+      if (st.size > DEFAULT_IMPORT_LIMITS.maxFileBytes) yield { name, error: `file is ${st.size} bytes, over the limit of ${DEFAULT_IMPORT_LIMITS.maxFileBytes}` };
+      else yield { name, bytes: readFileSync(path) };
+    } catch (e) {
+      const code = (e as NodeJS.ErrnoException).code;
+      const error = code === "ENOENT" ? "no such file" : code === "EACCES" ? "permission denied" : `cannot read the file (${code ?? (e as Error).message})`;
+      yield { name, error };
+    }
+  }
+}
+
 /** Read, import and pick every file; one Analysed per spectrum (or per failed file). */
 export function analyseFiles(paths: string[], settings: ExtractionSettings): Analysed[] {
   const results: Analysed[] = [];
-  for (const path of expandPaths(paths)) {
-    const name = basename(path);
-    let bytes: Uint8Array;
-    try {
-      const st = statSync(path);
-      if (st.size > DEFAULT_IMPORT_LIMITS.maxFileBytes) {
-        results.push(errorEntry(name, `file is ${st.size} bytes, over the limit of ${DEFAULT_IMPORT_LIMITS.maxFileBytes}`));
-        continue;
-      }
-      bytes = readFileSync(path);
-    } catch (e) {
-      const code = (e as NodeJS.ErrnoException).code;
-      results.push(errorEntry(name, code === "ENOENT" ? "no such file" : code === "EACCES" ? "permission denied" : `cannot read the file (${code ?? (e as Error).message})`));
+  for (const input of readInputs(paths)) {
+    if ("error" in input) {
+      results.push(errorEntry(input.name, input.error));
       continue;
     }
+    const { name, bytes } = input;
     for (const f of importSpectra(name, bytes)) {
       if (f.status === "error") {
         results.push(errorEntry(f.file, f.message ?? "rejected"));

@@ -26,6 +26,7 @@ export {
   type FieldModel,
   type CrossingOptions,
 } from "./settings";
+export { importApproachCurves, fileKind, type ImportedCurveFile, type ParsedCurve } from "./import";
 export { importSpectra, derivativeOfCurrent, ImportError, type ImportLimits, type ImportedFile, type ParsedSpectrum, type SpectrumMeta } from "./import";
 export { savgolFilter, savgolWeights, gaussianSmooth, fftLowpass } from "./smooth";
 export { smoothSpectrum, type Smoothed } from "./smooth/apply";
