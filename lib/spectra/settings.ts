@@ -111,6 +111,8 @@ export const fieldModelSchema = z.object({
   contactDistanceSigma_nm: nonNegative,
   /** Measured apparent barrier height, eV; null = mean of the two work functions. */
   barrierHeight_eV: positive.nullable(),
+  /** Standard uncertainty of the measured barrier height, eV (e.g. from the κ of I(z) curves); 0 = none given. */
+  barrierHeightSigma_eV: nonNegative.default(0),
   /** Field divided by this factor (1 = no screening). */
   screening: number().min(1),
 });
@@ -125,6 +127,7 @@ export const DEFAULT_FIELD_MODEL: FieldModel = Object.freeze({
   contactDistance_nm: 0.25,
   contactDistanceSigma_nm: 0.05,
   barrierHeight_eV: null,
+  barrierHeightSigma_eV: 0,
   screening: 1,
 }) as FieldModel;
 

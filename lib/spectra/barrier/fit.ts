@@ -430,27 +430,46 @@ export function fitBarrier(curve: ApproachCurve, options?: Partial<BarrierFitOpt
   if (sweeps.length === 0) throw new BarrierFitError(errors.join("; "));
   for (const e of errors) warnings.push(`${e} (that sweep is not used)`);
   for (const sw of sweeps) warnings.push(...sw.warnings);
-  // Weighted mean of the sweeps, with their spread (module note, 5).
-  const wts = sweeps.map((sw) => 1 / sw.kappaSigma_per_nm ** 2);
-  const wsum = wts.reduce((x, v) => x + v, 0);
-  const kappa = sweeps.reduce((x, sw, k) => x + wts[k] * sw.kappa_per_nm, 0) / wsum;
-  let variance = 1 / wsum;
-  const N = sweeps.length;
-  if (N > 1) variance += sweeps.reduce((x, sw) => x + (sw.kappa_per_nm - kappa) ** 2, 0) / (N - 1) / N;
-  const kappaSigma = Math.sqrt(variance);
-  const phi = barrierHeightFromKappa_eV(kappa);
+  const combined = combineKappas(sweeps.map((sw) => ({ kappa_per_nm: sw.kappa_per_nm, kappaSigma_per_nm: sw.kappaSigma_per_nm })));
+  const kappa = combined.kappa_per_nm;
+  const kappaSigma = combined.kappaSigma_per_nm;
+  const phi = combined.barrierHeight_eV;
   const flags = barrierFlags(sweeps, phi, o);
   return {
     kappa_per_nm: kappa,
     kappaSigma_per_nm: kappaSigma,
     barrierHeight_eV: phi,
-    barrierHeightSigma_eV: (2 * phi * kappaSigma) / kappa,
+    barrierHeightSigma_eV: combined.barrierHeightSigma_eV,
     pointsUsed: sweeps.reduce((x, sw) => x + sw.pointsUsed, 0),
     sweeps,
     status,
     flags,
     warnings,
   };
+}
+
+export interface KappaEstimate {
+  kappa_per_nm: number;
+  kappaSigma_per_nm: number;
+}
+
+/**
+ * Several κ estimates (the sweeps of a curve, or the curves of a session or a tip) as one: the mean
+ * with weights 1/σ², whose variance 1/Σw gets the spread between them added, s²/N (s² their sample
+ * variance, N their number; for two, (Δκ/2)²), so estimates that disagree beyond their own σ widen
+ * it. With φ_ap and its σ (2φ·σ_κ/κ, linear propagation).
+ */
+export function combineKappas(values: readonly KappaEstimate[]): KappaEstimate & { barrierHeight_eV: number; barrierHeightSigma_eV: number; n: number } {
+  if (values.length === 0) throw new RangeError("no κ to combine");
+  const w = values.map((v) => 1 / Math.max(v.kappaSigma_per_nm, 1e-12) ** 2);
+  const wsum = w.reduce((x, v) => x + v, 0);
+  const kappa = values.reduce((x, v, k) => x + w[k] * v.kappa_per_nm, 0) / wsum;
+  const N = values.length;
+  let variance = 1 / wsum;
+  if (N > 1) variance += values.reduce((x, v) => x + (v.kappa_per_nm - kappa) ** 2, 0) / (N - 1) / N;
+  const sigma = Math.sqrt(variance);
+  const phi = barrierHeightFromKappa_eV(kappa);
+  return { kappa_per_nm: kappa, kappaSigma_per_nm: sigma, barrierHeight_eV: phi, barrierHeightSigma_eV: (2 * phi * sigma) / kappa, n: N };
 }
 
 function barrierFlags(sweeps: SweepFit[], phi: number, o: BarrierFitOptions): BarrierFlag[] {

@@ -5,10 +5,12 @@ export {
   BarrierFitError,
   POINT_STATUS,
   barrierHeightFromKappa_eV,
+  combineKappas,
   fitBarrier,
   splitSweeps,
   type ApproachCurve,
   type BarrierFit,
+  type KappaEstimate,
   type PointStatus,
   type SweepFit,
 } from "./fit";

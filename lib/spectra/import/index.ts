@@ -13,6 +13,7 @@ import { parseDelimited } from "./delimited";
 import { parseJsonSpectra } from "./json";
 import { isZip, readArchive } from "./zip";
 import { applyGridPositions } from "./grid";
+import { fileKind, importApproachCurves, type ImportedCurveFile } from "./approach";
 import { ImportError, type ImportLimits, type ImportedFile, type ParsedSpectrum, type SpectrumMeta } from "./types";
 
 export type { ImportLimits, ImportedFile, ParsedSpectrum, SpectrumMeta } from "./types";
@@ -187,3 +188,24 @@ export function importSpectra(name: string, bytes: Uint8Array, limits?: Partial<
 }
 
 export { importApproachCurves, fileKind, type ImportedCurveFile, type ParsedCurve } from "./approach";
+
+/**
+ * Read an uploaded file that may hold spectra, I(z) curves or (as a zip) both: each file or entry
+ * goes to the reader its content calls for (fileKind). Entries refused before reading (unsafe
+ * names, an archive that cannot be read) are in `spectra`, with their messages.
+ */
+export function importUpload(name: string, bytes: Uint8Array, limits?: Partial<ImportLimits>): { spectra: ImportedFile[]; curves: ImportedCurveFile[] } {
+  const lim = resolveImportLimits(limits);
+  const spectra: ImportedFile[] = [];
+  const curves: ImportedCurveFile[] = [];
+  const one = (file: string, data: Uint8Array) => {
+    if (data.length <= lim.maxFileBytes && fileKind(file, data) === "approach") curves.push(...importApproachCurves(file, data, lim));
+    else spectra.push(...importSpectra(file, data, lim));
+  };
+  if (!isZip(bytes) && !/\.zip$/i.test(name)) one(name, bytes);
+  else {
+    const fail = (file: string, message: string): null => (spectra.push({ file, status: "error", message, warnings: [], spectra: [] }), null);
+    readArchive(name, bytes, lim, (file, data) => (one(file, data), null), fail);
+  }
+  return { spectra, curves };
+}

@@ -1,6 +1,10 @@
 import { describe, expect, it } from "vitest";
 import {
   APPARENT_BARRIER_EV_ANGSTROM2,
+  CONDUCTANCE_QUANTUM_S,
+  combineKappas,
+  estimateField,
+  resolveFieldModel,
   BarrierFitError,
   POINT_STATUS,
   apparentBarrierHeight_eV,
@@ -247,5 +251,41 @@ describe("fitBarrier: bad input", () => {
     expect(msg(() => fitBarrier({ z_nm: Float64Array.of(0, 0.1, 0.2), current_A: Float64Array.of(3, 2, 1) }))).toMatch(
       /only 3 points/,
     );
+  });
+});
+
+describe("κ from I(z) curves in the field model", () => {
+  it("combineKappas: weights 1/σ², and the spread of estimates that disagree widens σ", () => {
+    const same = combineKappas([
+      { kappa_per_nm: 10, kappaSigma_per_nm: 0.2 },
+      { kappa_per_nm: 10, kappaSigma_per_nm: 0.2 },
+    ]);
+    // Two equal, independent estimates: the mean's σ is σ/√2 (standard result).
+    expect(same.kappaSigma_per_nm).toBeCloseTo(0.2 / Math.SQRT2, 12);
+    const apart = combineKappas([
+      { kappa_per_nm: 9, kappaSigma_per_nm: 0.1 },
+      { kappa_per_nm: 11, kappaSigma_per_nm: 0.1 },
+    ]);
+    // (Δκ/2)² + σ²/2 = 1 + 0.005.
+    expect(apart.kappa_per_nm).toBeCloseTo(10, 12);
+    expect(apart.kappaSigma_per_nm).toBeCloseTo(Math.sqrt(1.005), 12);
+    expect(apart.barrierHeight_eV).toBeCloseTo(barrierHeightFromKappa_eV(10), 12);
+  });
+  it("a measured barrier's σ propagates into d as ∂d/∂φ = −ln(G₀/G)/(4κφ), and the work functions leave d", () => {
+    const meta = { setpoint_bias_V: 1, setpoint_current_A: 1e-10 };
+    const base = resolveFieldModel({ tipWorkFunction_eV: 4.7, sampleWorkFunction_eV: 3.9, contactDistanceSigma_nm: 0 });
+    const phi = 3.6;
+    const sPhi = 0.12;
+    const f = estimateField({ ...base, barrierHeight_eV: phi, barrierHeightSigma_eV: sPhi }, meta);
+    // d = d_c + ln(G₀/G)/(2κ) with κ ∝ √φ: ∂d/∂φ = −ln(G₀/G)/(2κ)·1/(2φ) (differentiating by hand).
+    const lnG = Math.log(CONDUCTANCE_QUANTUM_S / 1e-10);
+    const k = decayConstant_per_nm(phi);
+    expect(f.distanceSigma_nm).toBeCloseTo((lnG / (4 * k * phi)) * sPhi, 6);
+    // Without a σ for the barrier, d has no uncertainty left (the work functions no longer enter it) …
+    const g = estimateField({ ...base, barrierHeight_eV: phi, barrierHeightSigma_eV: 0 }, meta);
+    expect(g.distanceSigma_nm).toBe(0);
+    // … while the field keeps the work functions' difference: σ_E = E·√(σ_t² + σ_s²)/(Φ_t − Φ_s).
+    expect(g.fieldSigma_V_per_nm / g.field_V_per_nm).toBeCloseTo(Math.hypot(0.1, 0.1) / 0.8, 6);
+    expect(f.assumptions.join("\n")).toMatch(/barrier height = 3\.600 ± 0\.120 eV \(measured apparent barrier\)/);
   });
 });
