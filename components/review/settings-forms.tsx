@@ -162,7 +162,7 @@ export function FieldModelForm({ data, fe, onSubmit }: FormProps) {
           hint="typed in: 0.952·(d ln I/dz [Å⁻¹])²"
           error={fe("barrierHeight_eV")}
           name="barrierHeight_eV"
-          value={m.barrierHeight_eV ?? ""}
+          value={decaySource(m) === "measured" ? (m.barrierHeight_eV ?? "") : ""}
         />
         <NoteField fe={fe} />
       </fieldset>

@@ -19,13 +19,7 @@ export interface CurveChoiceInput {
  * sample, or a chosen set) and their weighted κ, as the version records them. The sample is the
  * caller's, already checked visible. A choice with no fitted curve is a field error.
  */
-export async function curvesForFieldModel({
-  ctx,
-  input,
-}: {
-  ctx: Ctx;
-  input: CurveChoiceInput;
-}): Promise<StoredCurveChoice> {
+export async function curvesForFieldModel({ ctx, input }: { ctx: Ctx; input: CurveChoiceInput }): Promise<StoredCurveChoice> {
   assertCan(ctx.actor, "analysis:write");
   const where = [eq(approachCurves.labId, ctx.actor.labId), eq(approachCurves.sampleId, input.sampleId)];
   if (input.scope === "session") where.push(eq(approachCurves.sessionId, input.sessionId ?? ""));

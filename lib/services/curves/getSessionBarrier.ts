@@ -11,20 +11,14 @@ import { curveView, kappaOf } from "./shared";
  * others were left out), and their weighted κ: `GET /api/v1/sessions/{id}/barrier` and the session's
  * I(z) page. `withData` adds each curve's z, current and per-point status (for the plots).
  */
-export async function getSessionBarrier({
-  ctx,
-  input,
-}: {
-  ctx: Ctx;
-  input: { sessionId: string; withData?: boolean };
-}) {
+export async function getSessionBarrier({ ctx, input }: { ctx: Ctx; input: { sessionId: string; withData?: boolean } }) {
   assertCan(ctx.actor, "lab:read");
   const s = await getSession({ ctx, input: { id: input.sessionId } });
   const rows = await ctx.db
     .select()
     .from(approachCurves)
     .where(eq(approachCurves.sessionId, s.session.id))
-    .orderBy(asc(approachCurves.createdAt), asc(approachCurves.sourceName), asc(approachCurves.indexInFile));
+    .orderBy(asc(approachCurves.sourceName), asc(approachCurves.indexInFile));
   const k = kappaOf(rows);
   return {
     sessionId: s.session.id,
