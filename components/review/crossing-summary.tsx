@@ -103,6 +103,11 @@ export function CrossingSummary({ lab, sampleId, initial }: { lab: string; sampl
           fitted with extraction settings v{c.settingsVersion ?? "?"}, field model v{c.fieldModelVersion ?? "?"}
         </p>
       ) : null}
+      {"kappaSource" in c && c.kappaSource ? (
+        <p className="num text-xs text-muted" data-testid="crossing-kappa-source">
+          {c.kappaSource}
+        </p>
+      ) : null}
     </div>
   );
 }

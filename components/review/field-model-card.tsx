@@ -1,6 +1,6 @@
 "use client";
 
-import { fieldAssumptions } from "@/lib/spectra/field";
+import { fieldAssumptions, kappaSourceText } from "@/lib/spectra/field";
 import type { FieldModel } from "@/lib/spectra/settings";
 import { useSampleVersions, type SampleVersions } from "./sample-queries";
 
@@ -30,6 +30,7 @@ export function FieldModelCard({
     contactDistance_nm: stored.contactDistance_nm ?? model.contactDistance_nm,
     contactDistanceSigma_nm: stored.contactDistanceSigma_nm ?? model.contactDistanceSigma_nm,
     barrierHeight_eV: stored.barrierHeight_eV ?? null,
+    barrierHeightSigma_eV: stored.barrierHeightSigma_eV ?? 0,
     screening: stored.screening ?? model.screening,
   };
   return (
@@ -48,6 +49,7 @@ export function FieldModelCard({
             {current.sampleWorkFunction_eV.toFixed(2)} ± {current.sampleWorkFunctionSigma_eV.toFixed(2)} eV
           </span>
         </li>
+        <li data-testid="kappa-source">{kappaSourceText(versions.fieldModel.model)}</li>
         {fieldAssumptions(current).map((a) => (
           <li key={a}>{a}</li>
         ))}
@@ -55,8 +57,9 @@ export function FieldModelCard({
       <p>
         Field model <span className="num">v{versions.fieldModel.version}</span>, extraction settings{" "}
         <span className="num">v{versions.settings.version}</span>. Error bars: gap from the pick&apos;s uncertainty. The
-        field&apos;s uncertainty (work functions, contact distance) is common to all points: one bar at the top of the
-        plot, and it widens the critical field&apos;s interval.
+        field&apos;s uncertainty (work functions, contact distance, κ) is common to all points: one bar at the top of the
+        plot, and it widens the critical field&apos;s interval. With κ from I(z) curves, their κ&apos;s uncertainty takes
+        the place of the work functions&apos; in the distance.
       </p>
     </div>
   );

@@ -18,6 +18,8 @@ export type SampleVersions = {
   settings: { id: string; version: number; settings: Record<string, any>; createdAt: string };
   fieldModel: { id: string; version: number; model: Record<string, any>; createdAt: string };
   run: { id: string; status: string; total: number; done: number; reason: string; message?: string | null } | null;
+  /** Sessions and tips of the sample with fitted I(z) curves, for the field model's κ. */
+  curveChoices?: { scope: "session" | "tip"; id: string; label: string; curves: number; kappa_per_nm: number; kappaSigma_per_nm: number }[];
 };
 
 /** Run states with work still to come. */

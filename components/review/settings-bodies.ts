@@ -33,6 +33,14 @@ export function settingsBody(f: FormData) {
   };
 }
 
+/** "session:<id>" or "tip:<id>" from the curves' select, as the body's scope and id. */
+function curveChoiceBody(v: string) {
+  const [scope, id] = v.split(":");
+  if (scope === "tip") return { curveScope: "tip", curveTipId: id };
+  if (scope === "session") return { curveScope: "session", curveSessionId: id };
+  return {};
+}
+
 /** The field model form's body for `PUT /samples/{id}/field-model`. */
 export function fieldModelBody(f: FormData) {
   const source = String(f.get("decayConstantSource"));
@@ -42,6 +50,7 @@ export function fieldModelBody(f: FormData) {
     contactDistanceSigma_nm: num(f.get("contactDistanceSigma_nm")) ?? undefined,
     decayConstantSource: source,
     barrierHeight_eV: source === "measured" ? num(f.get("barrierHeight_eV")) : null,
+    ...(source === "curves" ? curveChoiceBody(String(f.get("curveChoice") ?? "")) : {}),
     screening: num(f.get("screening")) ?? undefined,
     note: note(f),
   };

@@ -1,3 +1,4 @@
+import { kappaSourceText } from "@/lib/spectra/field";
 import { RunProgress } from "./run-progress";
 import type { SampleVersions } from "./sample-queries";
 
@@ -23,6 +24,7 @@ export function normalisationFact(n: { method?: string; broadening_mV?: number }
 export const DECAY_LABEL: Record<string, string> = {
   "mean-work-function": "mean work function",
   measured: "measured barrier",
+  curves: "I(z) curves",
 };
 /** Older field models carry no source: a barrier height means it was measured. */
 export const decaySource = (m: SampleVersions["fieldModel"]["model"]): string =>
@@ -114,9 +116,11 @@ export function ReadOnlyVersions({ data }: { data: SampleVersions }) {
             ["Screening factor", shown(m.screening, "", "1 (none)")],
             [
               "Decay constant κ from",
-              source === "measured"
-                ? `${DECAY_LABEL.measured}, ${shown(m.barrierHeight_eV, "eV", "—")}`
-                : DECAY_LABEL[source],
+              source === "curves"
+                ? kappaSourceText(m)
+                : source === "measured"
+                  ? `${DECAY_LABEL.measured}, ${shown(m.barrierHeight_eV, "eV", "—")}`
+                  : DECAY_LABEL[source],
             ],
           ]}
         />

@@ -111,6 +111,25 @@ export function ExtractionSettingsForm({ data, fe, onSubmit }: FormProps) {
   );
 }
 
+/** Which I(z) curves κ comes from (with "I(z) curves" chosen): a session's or a tip's, each with its κ. */
+function CurveChoiceField({ data, fe }: Pick<FormProps, "data" | "fe">) {
+  const choices = data.curveChoices ?? [];
+  const current = data.fieldModel.model.curves as { scope?: string; sessionId?: string; tipId?: string } | null | undefined;
+  const value = current?.scope === "tip" ? `tip:${current.tipId}` : current?.sessionId ? `session:${current.sessionId}` : undefined;
+  const hint = choices.length ? "used with κ from I(z) curves" : "no fitted I(z) curves on this sample yet";
+  return (
+    <Field label="I(z) curves" name="curveChoice" hint={hint} error={fe("curveScope") ?? fe("curveSessionId") ?? fe("curveTipId")}>
+      <Select name="curveChoice" defaultValue={value ?? (choices[0] ? `${choices[0].scope}:${choices[0].id}` : "")}>
+        {choices.map((c) => (
+          <option key={`${c.scope}:${c.id}`} value={`${c.scope}:${c.id}`}>
+            {`${c.label}: ${c.curves} curve${c.curves > 1 ? "s" : ""}, κ = ${c.kappa_per_nm.toFixed(2)} ± ${c.kappaSigma_per_nm.toFixed(2)} nm⁻¹`}
+          </option>
+        ))}
+      </Select>
+    </Field>
+  );
+}
+
 /** The field model as a form; saving makes the next version. */
 export function FieldModelForm({ data, fe, onSubmit }: FormProps) {
   const m = data.fieldModel.model;
@@ -147,13 +166,14 @@ export function FieldModelForm({ data, fe, onSubmit }: FormProps) {
         <Field label="Decay constant κ from" name="decayConstantSource">
           <Choices name="decayConstantSource" defaultValue={decaySource(m)} labels={DECAY_LABEL} />
         </Field>
+        <CurveChoiceField data={data} fe={fe} />
         <NumberField
           label="Apparent barrier height"
           unit="eV"
-          hint="from an I(z) curve: 0.952·(d ln I/dz [Å⁻¹])²"
+          hint="typed in: 0.952·(d ln I/dz [Å⁻¹])²"
           error={fe("barrierHeight_eV")}
           name="barrierHeight_eV"
-          value={m.barrierHeight_eV ?? ""}
+          value={decaySource(m) === "measured" ? (m.barrierHeight_eV ?? "") : ""}
         />
         <NoteField fe={fe} />
       </fieldset>

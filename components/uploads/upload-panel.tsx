@@ -21,6 +21,7 @@ type ServerUpload = {
   retryable?: boolean;
   warnings: string[];
   spectraCount: number;
+  curvesCount?: number;
 };
 type Ticket = {
   id: string;
@@ -196,6 +197,7 @@ export function UploadPanel({
         message: l.phase === "error" ? l.message : s?.message,
         retryable: l.phase !== "error" && Boolean(s?.retryable),
         spectra: s?.spectraCount ?? 0,
+        curves: s?.curvesCount ?? 0,
         warnings: s?.warnings ?? [],
       };
     }),
@@ -212,6 +214,7 @@ export function UploadPanel({
         message: u.message,
         retryable: Boolean(u.retryable),
         spectra: u.spectraCount,
+        curves: u.curvesCount ?? 0,
         warnings: u.warnings,
       })),
   ];
@@ -328,6 +331,7 @@ export function UploadPanel({
                       {r.status === "done" ? (
                         <span className="num text-xs text-ink-soft">
                           {counted(r.spectra, "spectrum", "spectra")}
+                          {r.curves ? `, ${counted(r.curves, "I(z) curve")}` : ""}
                           {r.warnings.length ? `, ${counted(r.warnings.length, "warning")}` : ""}
                         </span>
                       ) : null}

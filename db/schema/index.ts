@@ -3,3 +3,4 @@ export * from "./lab";
 export * from "./spectra";
 export * from "./crossings";
 export * from "./audit";
+export * from "./curves";

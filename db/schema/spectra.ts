@@ -43,6 +43,8 @@ export const uploads = pgTable(
      */
     hashMismatch: boolean("hash_mismatch").notNull().default(false),
     spectraCount: integer("spectra_count").notNull().default(0),
+    /** I(z) approach curves stored from the file (approach_curves). */
+    curvesCount: integer("curves_count").notNull().default(0),
     warnings: jsonb("warnings").$type<string[]>().notNull().default([]),
     attempts: integer("attempts").notNull().default(0),
     createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
@@ -75,9 +77,28 @@ export type ExtractionSettingsVersion = typeof extractionSettingsVersions.$infer
 export interface StoredFieldModel {
   contactDistance_nm: number;
   contactDistanceSigma_nm: number;
+  /** Where κ comes from: the work functions' mean, a barrier typed in, or I(z) curves. */
+  decayConstantSource?: "mean-work-function" | "measured" | "curves";
   /** Measured apparent barrier height, eV; null = mean of the two work functions. */
   barrierHeight_eV: number | null;
+  /** Its standard uncertainty, eV (from the curves' κ); absent or 0 when typed in without one. */
+  barrierHeightSigma_eV?: number;
+  /** With κ from I(z) curves: which curves, chosen how, and their weighted κ. */
+  curves?: StoredCurveChoice | null;
   screening: number;
+}
+
+/** The I(z) curves a field model version took κ from. */
+export interface StoredCurveChoice {
+  /** One session's curves, one tip's (on this sample), or a chosen set. */
+  scope: "session" | "tip" | "set";
+  sessionId?: string | null;
+  tipId?: string | null;
+  curveIds: string[];
+  kappa_per_nm: number;
+  kappaSigma_per_nm: number;
+  /** In words, for cards and notes: "6 I(z) curves of session 2026-11-20 (W-17)". */
+  description: string;
 }
 
 export const fieldModelVersions = pgTable(

@@ -166,26 +166,31 @@ export function gapJson(p: GapPick): GapJson {
   };
 }
 
+/** The bytes of every file named (directories expanded), one at a time, or why one cannot be read. */
+export function* readInputs(paths: string[]): Generator<{ name: string; bytes: Uint8Array } | { name: string; error: string }> {
+  for (const path of expandPaths(paths)) {
+    const name = basename(path);
+    try {
+      const st = statSync(path);
+      if (st.size > DEFAULT_IMPORT_LIMITS.maxFileBytes) yield { name, error: `file is ${st.size} bytes, over the limit of ${DEFAULT_IMPORT_LIMITS.maxFileBytes}` };
+      else yield { name, bytes: readFileSync(path) };
+    } catch (e) {
+      const code = (e as NodeJS.ErrnoException).code;
+      const error = code === "ENOENT" ? "no such file" : code === "EACCES" ? "permission denied" : `cannot read the file (${code ?? (e as Error).message})`;
+      yield { name, error };
+    }
+  }
+}
+
 /** Read and import every file: its spectra, or an error entry for a file that cannot be read. */
 export function importFiles(paths: string[]): (ImportedFile | Analysed)[] {
   const out: (ImportedFile | Analysed)[] = [];
-  for (const path of expandPaths(paths)) {
-    const name = basename(path);
-    let bytes: Uint8Array;
-    try {
-      const st = statSync(path);
-      if (st.size > DEFAULT_IMPORT_LIMITS.maxFileBytes) {
-        out.push(errorEntry(name, `file is ${st.size} bytes, over the limit of ${DEFAULT_IMPORT_LIMITS.maxFileBytes}`));
-        continue;
-      }
-      bytes = readFileSync(path);
-    } catch (e) {
-      const code = (e as NodeJS.ErrnoException).code;
-      const why = code === "ENOENT" ? "no such file" : code === "EACCES" ? "permission denied" : `cannot read the file (${code ?? (e as Error).message})`;
-      out.push(errorEntry(name, why));
+  for (const input of readInputs(paths)) {
+    if ("error" in input) {
+      out.push(errorEntry(input.name, input.error));
       continue;
     }
-    for (const f of importSpectra(name, bytes)) out.push(f.status === "error" ? errorEntry(f.file, f.message ?? "rejected") : f);
+    for (const f of importSpectra(input.name, input.bytes)) out.push(f.status === "error" ? errorEntry(f.file, f.message ?? "rejected") : f);
   }
   return out;
 }

@@ -60,12 +60,25 @@ export type SpectraQuery = z.infer<typeof spectraQuery>;
 export const fieldModelInput = z.object({
   contactDistance_nm: numberInput(num("nm").min(0, "The contact distance cannot be negative.").max(1, "A contact distance above 1 nm is not a tunnel junction.")),
   contactDistanceSigma_nm: numberInput(num("nm").min(0, "An uncertainty cannot be negative.").max(0.5, "An uncertainty above 0.5 nm is larger than the junction.").default(0.05)),
-  /** "mean-work-function" or "measured" (then barrierHeight_eV is the measured apparent barrier). */
-  decayConstantSource: z.enum(["mean-work-function", "measured"]).default("mean-work-function"),
+  /**
+   * "mean-work-function", "measured" (then barrierHeight_eV is the measured apparent barrier) or
+   * "curves": κ from the sample's I(z) curves, those of one session (curveSessionId), one tip
+   * (curveTipId) or a chosen set (curveIds), by curveScope.
+   */
+  decayConstantSource: z.enum(["mean-work-function", "measured", "curves"]).default("mean-work-function"),
+  curveScope: z.enum(["session", "tip", "set"]).optional(),
+  curveSessionId: z.string().uuid("Choose a session.").optional(),
+  curveTipId: z.string().uuid("Choose a tip.").optional(),
+  curveIds: z.array(z.string().uuid("Curve ids are ids of I(z) curves.")).max(1000).optional(),
   barrierHeight_eV: numberInput(num("eV").min(0.1, "An apparent barrier below 0.1 eV is not a tunnel barrier.").max(10, "An apparent barrier above 10 eV is not physical.").nullable().optional()),
   screening: numberInput(num("a factor").min(1, "A screening factor below 1 would amplify the field.").max(100, "A screening factor above 100 leaves no field.").default(1)),
   note: text().trim().max(500).optional(),
-}).refine((m) => m.decayConstantSource !== "measured" || m.barrierHeight_eV != null, { message: "Give the measured apparent barrier height.", path: ["barrierHeight_eV"] });
+})
+  .refine((m) => m.decayConstantSource !== "measured" || m.barrierHeight_eV != null, { message: "Give the measured apparent barrier height.", path: ["barrierHeight_eV"] })
+  .refine((m) => m.decayConstantSource !== "curves" || m.curveScope != null, { message: "Choose which I(z) curves: a session's, a tip's or a set.", path: ["curveScope"] })
+  .refine((m) => m.decayConstantSource !== "curves" || m.curveScope !== "session" || m.curveSessionId != null, { message: "Choose the session.", path: ["curveSessionId"] })
+  .refine((m) => m.decayConstantSource !== "curves" || m.curveScope !== "tip" || m.curveTipId != null, { message: "Choose the tip.", path: ["curveTipId"] })
+  .refine((m) => m.decayConstantSource !== "curves" || m.curveScope !== "set" || (m.curveIds?.length ?? 0) > 0, { message: "Choose at least one curve.", path: ["curveIds"] });
 
 /** Spectra to average (repeats at one point, in the order given), and members the user put back. */
 export const averageSpectraInput = z.object({

@@ -6,7 +6,8 @@
  * barrier of height φ̄. It is an estimate, not a measurement.
  *
  * Uncertainty: linear propagation of the independent uncertainties of Φ_tip, Φ_sample and d_c through
- * both d and E (central differences). These are common to every spectrum taken with the same tip on the
+ * both d and E (central differences), and of a measured barrier height (κ from I(z) curves) through d,
+ * where it replaces the work functions' mean. These are common to every spectrum taken with the same tip on the
  * same sample, so they shift a whole sweep together (a scale error), not point by point.
  */
 import { decayConstant_per_nm, tunnellingDistance } from "./distance";
@@ -28,6 +29,8 @@ interface Params {
   phiT: number;
   phiS: number;
   dc: number;
+  /** Measured barrier height, eV (used only when the model has one). */
+  phiB: number;
 }
 
 export function fieldAssumptions(model: FieldModel): string[] {
@@ -36,7 +39,9 @@ export function fieldAssumptions(model: FieldModel): string[] {
     "field from the contact potential only (bias contribution not added)",
     model.barrierHeight_eV === null
       ? "barrier height = mean of tip and sample work functions; no image-potential lowering"
-      : `barrier height = ${model.barrierHeight_eV} eV (measured apparent barrier)`,
+      : model.barrierHeightSigma_eV > 0
+        ? `barrier height = ${model.barrierHeight_eV.toFixed(3)} ± ${model.barrierHeightSigma_eV.toFixed(3)} eV (measured apparent barrier)`
+        : `barrier height = ${model.barrierHeight_eV} eV (measured apparent barrier)`,
     `contact distance d_c = ${model.contactDistance_nm} ± ${model.contactDistanceSigma_nm} nm (conductance G₀ at contact)`,
     model.screening === 1 ? "no screening" : `field divided by a screening factor ${model.screening}`,
     "an estimate from a model, not a measurement",
@@ -56,7 +61,7 @@ export function estimateField(
   if (meta.setpoint_bias_V === undefined || meta.setpoint_current_A === undefined)
     throw new RangeError("setpoint bias and current are needed to estimate the distance");
   const compute = (p: Params) => {
-    const barrier = model.barrierHeight_eV ?? (p.phiT + p.phiS) / 2;
+    const barrier = model.barrierHeight_eV === null ? (p.phiT + p.phiS) / 2 : p.phiB;
     const d = tunnellingDistance({
       setpointBias_V: meta.setpoint_bias_V!,
       setpointCurrent_A: meta.setpoint_current_A!,
@@ -66,7 +71,12 @@ export function estimateField(
     });
     return { d, e: (p.phiT - p.phiS) / (d * model.screening), barrier };
   };
-  const p0: Params = { phiT: model.tipWorkFunction_eV, phiS: model.sampleWorkFunction_eV, dc: model.contactDistance_nm };
+  const p0: Params = {
+    phiT: model.tipWorkFunction_eV,
+    phiS: model.sampleWorkFunction_eV,
+    dc: model.contactDistance_nm,
+    phiB: model.barrierHeight_eV ?? NaN,
+  };
   const c = compute(p0);
   if (!(c.d > 0)) throw new RangeError(`the estimated distance is not positive (${c.d.toFixed(3)} nm); check the setpoint and d_c`);
   let vd = 0;
@@ -75,6 +85,8 @@ export function estimateField(
     ["phiT", model.tipWorkFunctionSigma_eV],
     ["phiS", model.sampleWorkFunctionSigma_eV],
     ["dc", model.contactDistanceSigma_nm],
+    // A measured barrier (κ from I(z) curves) takes the work functions' place in d.
+    ["phiB", model.barrierHeight_eV === null ? 0 : model.barrierHeightSigma_eV],
   ];
   for (const [k, s] of parts) {
     if (!(s > 0)) continue;
@@ -119,4 +131,23 @@ export function sharedField(points: readonly { field_V_per_nm: number }[]): { fi
   const med = median(fields);
   const bound = 2 * OWN_FIELD_REL_SIGMA * Math.abs(med);
   return fields.every((e) => Math.abs(e - med) <= bound) ? { field_V_per_nm: med, n: points.length } : null;
+}
+
+/** Where a stored field model takes κ from (the shape of a field-model version's JSON). */
+export interface KappaSourceOf {
+  decayConstantSource?: string;
+  barrierHeight_eV?: number | null;
+  barrierHeightSigma_eV?: number | null;
+  curves?: { description: string; kappa_per_nm: number; kappaSigma_per_nm: number } | null;
+}
+
+/** Where κ comes from, in words, for the field-model and critical-field cards and the e-mails. */
+export function kappaSourceText(m: KappaSourceOf): string {
+  if (m.decayConstantSource === "curves" && m.curves) {
+    const c = m.curves;
+    const phi = m.barrierHeight_eV != null ? `, φ_ap = ${m.barrierHeight_eV.toFixed(2)} ± ${(m.barrierHeightSigma_eV ?? 0).toFixed(2)} eV` : "";
+    return `κ = ${c.kappa_per_nm.toFixed(2)} ± ${c.kappaSigma_per_nm.toFixed(2)} nm⁻¹ measured on ${c.description}${phi}`;
+  }
+  if (m.barrierHeight_eV != null) return `κ from a typed-in apparent barrier of ${m.barrierHeight_eV.toFixed(2)} eV`;
+  return "κ from the mean of the tip and sample work functions (an assumption)";
 }

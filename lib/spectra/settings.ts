@@ -1,6 +1,7 @@
 /**
  * Settings with their zod schemas. Every default lives here and only here: DEFAULT_EXTRACTION_SETTINGS,
- * DEFAULT_FIELD_MODEL, DEFAULT_IMPORT_LIMITS, DEFAULT_CROSSING_OPTIONS.
+ * DEFAULT_FIELD_MODEL, DEFAULT_IMPORT_LIMITS, DEFAULT_CROSSING_OPTIONS,
+ * DEFAULT_BARRIER_FIT_OPTIONS.
  */
 import { z } from "zod";
 import type { ImportLimits } from "./import/types";
@@ -124,6 +125,8 @@ export const fieldModelSchema = z.object({
   contactDistanceSigma_nm: nonNegative,
   /** Measured apparent barrier height, eV; null = mean of the two work functions. */
   barrierHeight_eV: positive.nullable(),
+  /** Standard uncertainty of the measured barrier height, eV (e.g. from the κ of I(z) curves); 0 = none given. */
+  barrierHeightSigma_eV: nonNegative.default(0),
   /** Field divided by this factor (1 = no screening). */
   screening: number().min(1),
 });
@@ -138,6 +141,7 @@ export const DEFAULT_FIELD_MODEL: FieldModel = Object.freeze({
   contactDistance_nm: 0.25,
   contactDistanceSigma_nm: 0.05,
   barrierHeight_eV: null,
+  barrierHeightSigma_eV: 0,
   screening: 1,
 }) as FieldModel;
 
@@ -182,6 +186,57 @@ export const DEFAULT_CROSSING_OPTIONS: CrossingOptions = Object.freeze({
   systematicFieldRelSigma: 0,
   curvePoints: 101,
 }) as CrossingOptions;
+
+/** The I(z) fit (barrier/fit.ts): how the exponential range is found and what is flagged. */
+export const barrierFitOptionsSchema = z.object({
+  /** Fewest points a sweep must keep on the exponential to be fitted. */
+  minPoints: z.number().int().min(3),
+  /** Points count on the exponential only where the fitted current exceeds this many noise-floor σ. */
+  floorK: positive,
+  /** A point at either end of the range leaves it when its residual exceeds this many σ. */
+  endTrimSigma: positive,
+  /** A point inside the range is an outlier (a spike) beyond this many σ. */
+  spikeSigma: positive,
+  /** Three or more points within this fraction of the largest |I| are the preamplifier's saturation. */
+  saturationTolerance: positive.max(0.5),
+  /** The current "changes sign" when the other sign reaches this fraction of the main one's maximum. */
+  signChangeRatio: positive.max(1),
+  /** Flag a curve whose ln|I| bends: the curvature is this many standard errors from zero … */
+  curvatureSigma: positive,
+  /** … and changes the slope by more than this fraction across the range. */
+  curvatureRelSlope: positive,
+  /** Flag a fit over fewer decades of current than this. */
+  minDecades: positive,
+  /** Flag an apparent barrier height outside this range, eV. */
+  barrierRange_eV: z.tuple([nonNegative, positive]),
+  /** Flag approach and retraction whose κ differ by more than this many combined σ. */
+  sweepsDisagreeSigma: positive,
+  /** Flag a curve whose current scatters about the exponential by more than this fraction (rms). */
+  noisyRelScatter: positive,
+});
+export type BarrierFitOptions = z.infer<typeof barrierFitOptionsSchema>;
+
+export const DEFAULT_BARRIER_FIT_OPTIONS: BarrierFitOptions = deepFreeze({
+  minPoints: 6,
+  floorK: 10,
+  endTrimSigma: 3.5,
+  spikeSigma: 5,
+  saturationTolerance: 1e-4,
+  signChangeRatio: 0.1,
+  curvatureSigma: 4,
+  curvatureRelSlope: 0.1,
+  minDecades: 1,
+  // Apparent barriers of clean metal junctions lie near 3–5 eV, and lower ones (to ~1 eV) are
+  // common on real tips and samples; below 0.5 eV or above 8 eV something else is measured
+  // (common practice).
+  barrierRange_eV: [0.5, 8] as [number, number],
+  sweepsDisagreeSigma: 3,
+  noisyRelScatter: 0.1,
+});
+
+export function resolveBarrierFitOptions(partial?: Partial<BarrierFitOptions>): BarrierFitOptions {
+  return barrierFitOptionsSchema.parse({ ...DEFAULT_BARRIER_FIT_OPTIONS, ...partial });
+}
 
 type DeepPartial<T> = { [K in keyof T]?: T[K] extends object | null ? DeepPartial<NonNullable<T[K]>> | T[K] : T[K] };
 

@@ -37,3 +37,11 @@ export function columnsToCsv(bias_V: ArrayLike<number>, columns: { label: string
   }
   return out.join("\n") + "\n";
 }
+
+/** An I(z) curve as text: z in pm (negative = closer), current in pA, with its metadata lines. */
+export function approachToCsv(c: { z_nm: ArrayLike<number>; current_A: ArrayLike<number>; meta?: Partial<SpectrumMeta> }): string {
+  const out = metaLines(c.meta ?? {});
+  out.push("z (pm),current (pA)");
+  for (let i = 0; i < c.z_nm.length; i++) out.push(`${(c.z_nm[i] * 1000).toFixed(3)},${(c.current_A[i] * 1e12).toPrecision(8)}`);
+  return out.join("\n") + "\n";
+}

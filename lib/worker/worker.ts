@@ -40,7 +40,7 @@ export async function startWorker(): Promise<() => Promise<void>> {
     const started = Date.now();
     try {
       const out = await processUpload({ ctx, input: { uploadId: job.data.uploadId } });
-      log(`${QUEUES.processUpload} ${job.data.uploadId}: ${out.status}${out.status === "done" ? ` (${out.spectra} spectra, ${Date.now() - started} ms)` : ""}`);
+      log(`${QUEUES.processUpload} ${job.data.uploadId}: ${out.status}${out.status === "done" ? ` (${out.spectra} spectra, ${out.curves} I(z) curves, ${Date.now() - started} ms)` : ""}`);
     } catch (e) {
       log(`${QUEUES.processUpload} ${job.data.uploadId}: attempt ${job.retryCount + 1} failed: ${(e as Error).message}`);
       if (lastTry(job)) return markUploadFailed({ ctx, input: { uploadId: job.data.uploadId, error: e } });

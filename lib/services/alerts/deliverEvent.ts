@@ -3,6 +3,7 @@ import { eq } from "drizzle-orm";
 import type { SystemCtx } from "@/lib/base/context";
 import { crossingEvents, crossings, fieldModelVersions, labs, notifications, samples, users, type StoredFieldModel } from "@/db/schema";
 import { env } from "@/lib/env";
+import { kappaSourceText } from "@/lib/spectra";
 import { sendMail } from "@/lib/mail/client";
 import { crossingMail, type CrossingMailInput } from "@/lib/mail/templates/crossing";
 import { recipientsOf } from "./recipientsOf";
@@ -16,7 +17,12 @@ export const eventMailKey = (eventId: string, userId: string) => `crossing-event
 export function assumptionsLine(m: Partial<StoredFieldModel> & { decayConstantSource?: string }, sampleWf: { ev: number; sigma: number }): string {
   const n = (v: number) => String(Number(v.toFixed(3)));
   const dc = m.contactDistance_nm != null ? `${n(m.contactDistance_nm)}${m.contactDistanceSigma_nm ? ` ± ${n(m.contactDistanceSigma_nm)}` : ""} nm` : "the default";
-  const barrier = m.barrierHeight_eV != null ? `a measured barrier of ${m.barrierHeight_eV.toFixed(2)} eV` : "the mean of the two work functions";
+  const barrier =
+    m.decayConstantSource === "curves" && m.curves
+      ? `I(z) curves (${kappaSourceText(m)})`
+      : m.barrierHeight_eV != null
+        ? `a measured barrier of ${m.barrierHeight_eV.toFixed(2)} eV`
+        : "the mean of the two work functions";
   const screening = m.screening != null && m.screening !== 1 ? `, screening factor ${m.screening}` : ", no screening";
   return `E = (Φtip − Φsample)/(e·d) with Φsample ${sampleWf.ev.toFixed(2)} ± ${sampleWf.sigma.toFixed(2)} eV and each session's tip, d from the setpoint conductance with contact distance ${dc} and a decay constant from ${barrier}${screening}.`;
 }

@@ -51,6 +51,7 @@ export async function loadSampleAnalysis({ ctx, input }: { ctx: DbCtx; input: { 
         contactDistance_nm: fieldStored.contactDistance_nm,
         contactDistanceSigma_nm: fieldStored.contactDistanceSigma_nm,
         barrierHeight_eV: fieldStored.barrierHeight_eV,
+        barrierHeightSigma_eV: fieldStored.barrierHeightSigma_eV ?? 0,
         screening: fieldStored.screening,
       });
     },

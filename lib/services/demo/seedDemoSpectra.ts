@@ -4,7 +4,7 @@ import { and, eq } from "drizzle-orm";
 import type { SystemCtx } from "@/lib/base/context";
 import { labs, measurementSessions, memberships, samples, tips, users } from "@/db/schema";
 import { actorForUser } from "@/lib/auth/actor";
-import { columnsToCsv, makeSpectrum, makeSweep, spectrumToCsv } from "@/lib/spectra";
+import { approachToCsv, columnsToCsv, decayConstant_per_nm, makeApproachCurve, makeSpectrum, makeSweep, spectrumToCsv, type ApproachModel } from "@/lib/spectra";
 import { createSession } from "../sessions/createSession";
 import { createUploads } from "../uploads/createUploads";
 import { completeUpload } from "../uploads/completeUpload";
@@ -12,7 +12,8 @@ import { completeUpload } from "../uploads/completeUpload";
 /**
  * Spectra for the invented demo lab, from the project's physical model (lib/spectra/synthetic.ts):
  * an approach series on the bilayer whose gap closes near 0.98 V/nm and reopens; on the monolayer a
- * series that only closes; on a third film a 12 × 12 grid at one setpoint whose gap dips near a step. They go through the
+ * series that only closes; on a third film a 12 × 12 grid at one setpoint whose gap dips near a step; I(z) curves
+ * with the bilayer's and the monolayer's tips (barrier/model.ts). They go through the
  * real upload path (storage, queue, worker), so a fresh `npm start` shows a working notebook.
  */
 export async function seedDemoSpectra({ ctx: system, input }: { ctx: SystemCtx; input: { labSlug: string } }): Promise<number> {
@@ -53,6 +54,25 @@ export async function seedDemoSpectra({ ctx: system, input }: { ctx: SystemCtx; 
     cols.push({ label: `px${k}`, didv: s.didv });
   }
   files.push({ sessionId: mapSession.id, name: "sn05-grid-12x12.csv", text: columnsToCsv(bias!, cols, { setpoint_bias_V: 0.6, setpoint_current_A: 2e-10, temperature_K: 1.3, lockin_modulation_mV_rms: 1.5, extra: { grid: `${nx} x ${nx}`, grid_step_nm: "0.5" } }) });
+
+  // I(z) curves at the sessions' setpoints, forth and back, with the tips used there: W-17 on the
+  // bilayer (φ̄ = (4.7 + 3.9)/2 = 4.3 eV, the barrier the sweep above was made with), one jumping to
+  // point contact and one reaching the preamplifier's 10 nA; PtIr-04 on the monolayer (4.85 eV).
+  const izMeta = (T: number) => ({ setpoint_bias_V: 0.1, setpoint_current_A: 1e-10, temperature_K: T });
+  const gxCurves: ApproachModel[] = [
+    { kappa_per_nm: decayConstant_per_nm(4.3), seed: 11 },
+    { kappa_per_nm: decayConstant_per_nm(4.3), seed: 12, contact: { at_nm: -0.24, conductance_G0: 0.6 }, zTo_nm: -0.3 },
+    { kappa_per_nm: decayConstant_per_nm(4.3), seed: 13, saturation_A: 1e-8, zTo_nm: -0.32 },
+    { kappa_per_nm: decayConstant_per_nm(4.3), seed: 14, retractionScale: 1.01 },
+  ];
+  gxCurves.forEach((m, i) => {
+    const c = makeApproachCurve({ relNoise: 0.02, floor_A: 0.8e-12, zFrom_nm: 0.35, n: 160, retraction: true, ...m });
+    files.push({ sessionId: session.id, name: `gx12-iz-${i + 1}.csv`, text: approachToCsv({ ...c, meta: izMeta(4.6) }) });
+  });
+  for (const seed of [21, 22]) {
+    const c = makeApproachCurve({ kappa_per_nm: decayConstant_per_nm(4.85), seed, relNoise: 0.03, floor_A: 0.5e-12, zFrom_nm: 0.3, n: 140, retraction: true });
+    files.push({ sessionId: monoSession.id, name: `sn03-iz-${seed - 20}.csv`, text: approachToCsv({ ...c, meta: izMeta(1.3) }) });
+  }
 
   for (const f of files) {
     const bytes = new TextEncoder().encode(f.text);

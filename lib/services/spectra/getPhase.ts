@@ -3,7 +3,7 @@ import { and, asc, desc, eq, isNull, sql } from "drizzle-orm";
 import { crossings, extractionSettingsVersions, fieldModelVersions, gapPicks, spectra } from "@/db/schema";
 import { flaggedOutOfFit, notInAverage } from "../analysis/shared";
 import type { Ctx } from "@/lib/base/context";
-import { sharedField } from "@/lib/spectra";
+import { kappaSourceText, sharedField, type KappaSourceOf } from "@/lib/spectra";
 import { getSample } from "../samples/getSample";
 import { labFlaggedInFit } from "./labFlaggedInFit";
 import { PhasePoint } from "./types";
@@ -69,7 +69,7 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
     accepted: r.accepted,
   }));
   const [row] = await ctx.db
-    .select({ c: crossings, settingsVersion: extractionSettingsVersions.version, fieldModelVersion: fieldModelVersions.version })
+    .select({ c: crossings, settingsVersion: extractionSettingsVersions.version, fieldModelVersion: fieldModelVersions.version, fieldModel: fieldModelVersions.model })
     .from(crossings)
     .leftJoin(extractionSettingsVersions, eq(extractionSettingsVersions.id, crossings.settingsVersionId))
     .leftJoin(fieldModelVersions, eq(fieldModelVersions.id, crossings.fieldModelVersionId))
@@ -102,6 +102,8 @@ export async function getPhase({ ctx, input }: { ctx: Ctx; input: { sampleId: st
           /** The version numbers the fit was made with, as the sample page names them. */
           settingsVersion: row.settingsVersion,
           fieldModelVersion: row.fieldModelVersion,
+          /** Where the field model of the fit took κ from, in words. */
+          kappaSource: row.fieldModel ? kappaSourceText(row.fieldModel as KappaSourceOf) : null,
           fittedAt: c.createdAt.toISOString(),
         }
       : { state: "none" as const, found: false, field_V_per_nm: null, ci95_V_per_nm: null },

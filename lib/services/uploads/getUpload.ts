@@ -21,6 +21,8 @@ export async function getUpload({ ctx, input }: { ctx: Ctx; input: { id: string 
     retryable: u.status === "failed" && u.retryable,
     warnings: u.warnings,
     spectraCount: u.spectraCount,
+    /** I(z) approach curves read from the file (`GET /sessions/{id}/barrier` lists them with their κ). */
+    curvesCount: u.curvesCount,
     spectrumIds: ids.map((r) => r.id),
     createdAt: u.createdAt.toISOString(),
     updatedAt: u.updatedAt.toISOString(),

@@ -16,5 +16,5 @@ export async function listSessionUploads({ ctx, input }: { ctx: Ctx; input: { se
     .from(uploads)
     .where(and(eq(uploads.sessionId, input.sessionId), eq(uploads.labId, ctx.actor.labId)))
     .orderBy(asc(uploads.createdAt));
-  return rows.map((u) => ({ id: u.id, name: u.fileName, size: u.sizeBytes, status: u.status, message: u.message, retryable: u.status === "failed" && u.retryable, warnings: u.warnings, spectraCount: u.spectraCount, updatedAt: u.updatedAt.toISOString() }));
+  return rows.map((u) => ({ id: u.id, name: u.fileName, size: u.sizeBytes, status: u.status, message: u.message, retryable: u.status === "failed" && u.retryable, warnings: u.warnings, spectraCount: u.spectraCount, curvesCount: u.curvesCount, updatedAt: u.updatedAt.toISOString() }));
 }

@@ -1,16 +1,16 @@
 import "server-only";
 import { and, eq, inArray, ne, sql } from "drizzle-orm";
 import type { SystemCtx } from "@/lib/base/context";
-import { gapPicks, measurementSessions, spectra, tips, uploads } from "@/db/schema";
+import { approachCurves, gapPicks, measurementSessions, spectra, tips, uploads } from "@/db/schema";
 import { sha256Hex } from "@/lib/auth/secrets";
-import { importSpectra, pointGroups, PrepareError, type ImportedFile, type ParsedSpectrum } from "@/lib/spectra";
+import { importUpload, pointGroups, PrepareError, type ImportedFile, type ParsedSpectrum } from "@/lib/spectra";
 import { isServiceError } from "@/lib/base/errors";
 import { getObjectBytes } from "@/lib/storage/s3";
 import { analyzeSpectrum, pickColumns, repeatFlags } from "../analysis/analyzeSpectrum";
 import { refitSample } from "../analysis/refitSample";
 import { loadSampleAnalysis } from "../analysis/loadSampleAnalysis";
 import { storeAverage } from "../analysis/storeAverage";
-import { ProcessOutcome, fail } from "./shared";
+import { ProcessOutcome, curveFitColumns, fail } from "./shared";
 
 const INSERT_BATCH = 400;
 
@@ -27,7 +27,8 @@ function repeatPoints(f: ImportedFile): { label: string; members: ParsedSpectrum
 
 /**
  * The worker's job for one raw file: read it from storage, parse it with the analysis core, store
- * its spectra with their automatic picks and field estimates, and refit the sample. A file's
+ * its spectra with their automatic picks and field estimates, and its I(z) curves with the fit of
+ * their decay constant (a file or zip entry is one or the other by its columns), and refit the sample. A file's
  * spectra are stored in one transaction or not at all; running it again (a retry after a crash)
  * replaces what an unfinished earlier run stored, and a run that finds the file stored by another
  * meanwhile leaves it as it is. A file that cannot be read is marked failed with the
@@ -60,11 +61,12 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
       "The stored bytes do not match the file's SHA-256: the stored copy was damaged. Upload the file again.";
     return fail(db, u.id, message);
   }
-  const files = importSpectra(u.fileName, bytes);
+  const { spectra: files, curves: curveFiles } = importUpload(u.fileName, bytes);
   await faults.afterParse?.();
   const good = files.filter((f) => f.status === "ok" && f.spectra.length > 0);
-  const bad = files.filter((f) => f.status === "error");
-  if (good.length === 0) {
+  const goodCurves = curveFiles.filter((f) => f.status === "ok" && f.curves.length > 0);
+  const bad = [...files, ...curveFiles].filter((f) => f.status === "error");
+  if (good.length === 0 && goodCurves.length === 0) {
     const message = bad.length === 1 ? (bad[0].message ?? "The file could not be read.") : bad.map((f) => `${f.file}: ${f.message}`).join("\n");
     return fail(db, u.id, message || "The file holds no spectra.");
   }
@@ -74,7 +76,12 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
   const [tip] = session.tipId ? await db.select().from(tips).where(eq(tips.id, session.tipId)) : [];
   const model = analysis.modelFor(tip ?? null);
 
-  const warnings = [...files.flatMap((f) => f.warnings.map((w) => (files.length > 1 ? `${f.file}: ${w}` : w))), ...bad.map((f) => `${f.file} skipped: ${f.message}`)];
+  const read = [...files, ...curveFiles];
+  const warnings = [...read.flatMap((f) => f.warnings.map((w) => (read.length > 1 ? `${f.file}: ${w}` : w))), ...bad.map((f) => `${f.file} skipped: ${f.message}`)];
+  // I(z) curves: each fitted for κ; one that cannot be fitted is kept with the fit's message.
+  const curves = goodCurves.flatMap((f) => f.curves).map((c) => ({ c, fit: curveFitColumns(c) }));
+  const unfitted = curves.filter((x) => x.fit.fitStatus === "error");
+  for (const x of unfitted.slice(0, 20)) warnings.push(`${x.c.file} (${x.c.label}): no κ: ${x.fit.fitMessage}`);
   const all: ParsedSpectrum[] = good.flatMap((f) => f.spectra);
   const prepared = all.map((s) => {
     const { meta, pick, view, field } = analyzeSpectrum(s, { settings: analysis.settings, model, sessionTemperatureK: session.temperatureK });
@@ -95,6 +102,29 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
     if (!now || now.status === "done") return false;
     const old = await tx.select({ id: spectra.id }).from(spectra).where(eq(spectra.uploadId, u.id));
     if (old.length) await tx.delete(spectra).where(inArray(spectra.id, old.map((o) => o.id)));
+    await tx.delete(approachCurves).where(eq(approachCurves.uploadId, u.id));
+    for (let i = 0; i < curves.length; i += INSERT_BATCH)
+      await tx.insert(approachCurves).values(
+        curves.slice(i, i + INSERT_BATCH).map(({ c, fit }) => ({
+          labId: u.labId,
+          uploadId: u.id,
+          sessionId: u.sessionId,
+          sampleId: session.sampleId,
+          tipId: session.tipId,
+          sourceName: c.file,
+          indexInFile: c.index,
+          label: c.label,
+          rawSha256: u.sha256,
+          nPoints: c.z_nm.length,
+          zNm: c.z_nm,
+          currentA: c.current_A,
+          setpointBiasV: c.meta.setpoint_bias_V ?? null,
+          setpointCurrentA: c.meta.setpoint_current_A ?? null,
+          temperatureK: c.meta.temperature_K ?? session.temperatureK ?? null,
+          meta: c.meta.extra,
+          ...fit,
+        })),
+      );
     const idOf = new Map<ParsedSpectrum, string>();
     for (let i = 0; i < prepared.length; i += INSERT_BATCH) {
       const batch = prepared.slice(i, i + INSERT_BATCH);
@@ -153,11 +183,11 @@ export async function processUpload({ ctx, input }: { ctx: SystemCtx; input: { u
     }
     await tx
       .update(uploads)
-      .set({ status: "done", message: null, spectraCount: prepared.length, warnings: warnings.slice(0, 200), updatedAt: new Date() })
+      .set({ status: "done", message: null, spectraCount: prepared.length, curvesCount: curves.length, warnings: warnings.slice(0, 200), updatedAt: new Date() })
       .where(eq(uploads.id, u.id));
     return true;
   });
   if (!stored) return { status: "skipped", reason: "already done by another run" };
   const refit = await refitSample({ ctx, input: { sampleId: session.sampleId } });
-  return { status: "done", spectra: prepared.length, refit };
+  return { status: "done", spectra: prepared.length, curves: curves.length, refit };
 }

@@ -1,6 +1,7 @@
 import "server-only";
 import { and, eq, ne } from "drizzle-orm";
 import { measurementSessions, uploads } from "@/db/schema";
+import { BarrierFitError, fitBarrier, type ParsedCurve } from "@/lib/spectra";
 import type { Ctx } from "@/lib/base/context";
 import { notFound } from "@/lib/base/errors";
 import { isUuid } from "../samples/getSample";
@@ -25,7 +26,7 @@ export async function loadUpload(ctx: Ctx, id: string) {
 
 
 export type ProcessOutcome =
-  | { status: "done"; spectra: number; refit: RefitResult }
+  | { status: "done"; spectra: number; curves: number; refit: RefitResult }
   | { status: "failed"; message: string }
   | { status: "skipped"; reason: string };
 
@@ -42,4 +43,39 @@ export async function fail(db: DbOrTx, id: string, message: string, retryable = 
   const [session] = await db.select({ sampleId: measurementSessions.sampleId }).from(measurementSessions).where(eq(measurementSessions.id, u.sessionId));
   if (session) await refitSample({ ctx: { db }, input: { sampleId: session.sampleId } });
   return { status: "failed", message };
+}
+
+/** The columns of one I(z) curve's fit, or its message when it cannot be fitted (stored either way). */
+export function curveFitColumns(c: ParsedCurve) {
+  try {
+    const f = fitBarrier(c);
+    return {
+      fitStatus: "ok" as const,
+      fitMessage: null,
+      kappaPerNm: f.kappa_per_nm,
+      kappaSigmaPerNm: f.kappaSigma_per_nm,
+      barrierHeightEv: f.barrierHeight_eV,
+      barrierHeightSigmaEv: f.barrierHeightSigma_eV,
+      pointsUsed: f.pointsUsed,
+      flags: f.flags,
+      sweeps: f.sweeps.map(({ warnings: _w, curvature: _c, ...rest }) => rest),
+      pointStatus: Array.from(f.status),
+      warnings: [...c.warnings, ...f.warnings],
+    };
+  } catch (e) {
+    if (!(e instanceof BarrierFitError)) throw e;
+    return {
+      fitStatus: "error" as const,
+      fitMessage: e.message,
+      kappaPerNm: null,
+      kappaSigmaPerNm: null,
+      barrierHeightEv: null,
+      barrierHeightSigmaEv: null,
+      pointsUsed: null,
+      flags: [],
+      sweeps: [],
+      pointStatus: [],
+      warnings: c.warnings,
+    };
+  }
 }

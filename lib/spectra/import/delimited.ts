@@ -8,13 +8,21 @@
  * Columns: one bias column and one or more dI/dV columns (each one spectrum), or current columns only
  * (dI/dV = Savitzky–Golay derivative, done by the caller). Lines starting with `#` inside the data are
  * comments. Errors name the line (1-based, as an editor shows it).
+ * Read with the axis "z", the same text is an I(z) table: a tip-height column (`z (pm)`, `z [nm]`,
+ * `z (Å)`, `height`) and current columns (approach.ts).
  */
 import type { ImportLimits, SpectrumMeta } from "./types";
 import { ImportError } from "./types";
 import { applyMetaPair, emptyMeta, splitMetaLine } from "./metadata";
 import { splitNameUnit, unitFactor } from "./units";
 
-export type ColumnRole = "bias" | "didv" | "current";
+export type ColumnRole = "bias" | "didv" | "current" | "z";
+
+/**
+ * What a table is read as: spectra (a bias axis, dI/dV or current columns) or I(z) approach curves
+ * (a tip-height axis `z`, current columns; see approach.ts).
+ */
+export type TableAxis = "bias" | "z";
 
 export interface ColumnInfo {
   name: string;
@@ -39,13 +47,26 @@ const MISSING = new Set(["", "nan", "-nan", "na", "n/a", "null", "none", "-", "-
 const DIDV = /(d\s*i\s*\/\s*d\s*v|didv|di_dv|conductance|lock[ -]?in|\blia\b|^g$|^x$|^r$|ldos|signal|^demod)/i;
 const CURRENT = /(current|^i$|^it$|^i[ _]|^i\d)/i;
 const BIAS = /(bias|voltage|^v$|^u$|^v[ _]?s(ample)?$|^v_?bias|^e$|energy|^sweep)/i;
+/** Tip height: `z`, `z position`, `height`, `tip height`, `distance`, `Δz`, `dz`, `z rel`. */
+export const Z_AXIS = /^(z|[Δδ]z|dz|delta[ _-]?z|z[ _-]?(pos(ition)?|height|piezo|rel(ative)?|offset|distance|displacement)|(tip[ _-]?)?height|(tip[ _-]?sample[ _-]?)?distance)$/i;
 
-function classify(name: string): ColumnRole | null {
+function classify(name: string, axis: TableAxis): ColumnRole | null {
+  if (axis === "z") {
+    if (Z_AXIS.test(name.trim())) return "z";
+    if (CURRENT.test(name)) return "current";
+    return null;
+  }
   if (DIDV.test(name)) return "didv";
   if (BIAS.test(name)) return "bias";
   if (CURRENT.test(name)) return "current";
   return null;
 }
+
+/** Role and words of each axis: the value columns' default role and the axis's quantity. */
+const AXES = {
+  bias: { value: "didv", valueWords: "dI/dV", axisWords: "a bias", axisName: "bias" },
+  z: { value: "current", valueWords: "current", axisWords: "a tip height (z)", axisName: "z" },
+} as const;
 
 function detectDelimiter(line: string): { delimiter: string; decimalComma: boolean } {
   if (line.includes("\t")) return { delimiter: "\t", decimalComma: /\d,\d/.test(line) };
@@ -174,8 +195,17 @@ function parseRowFast(line: string, delim: number, dec: number, ncol: number, va
   return i === len;
 }
 
-export function parseDelimited(text: string, limits: ImportLimits): DelimitedTable {
-  const lines = text.split(/\r\n|\n|\r/);
+interface Located {
+  meta: SpectrumMeta;
+  warnings: string[];
+  /** 0-based index of the header line (-1: none) and of the first data row (-1: none). */
+  headerLine: number;
+  first: number;
+  fmt: { delimiter: string; decimalComma: boolean };
+}
+
+/** Metadata lines, the header and the first data row. */
+function locate(lines: string[]): Located {
   const meta = emptyMeta();
   const warnings: string[] = [];
   let headerLine = -1;
@@ -209,6 +239,58 @@ export function parseDelimited(text: string, limits: ImportLimits): DelimitedTab
     }
     headerLine = i;
   }
+  return { meta, warnings, headerLine, first, fmt };
+}
+
+/**
+ * What the header of a delimited text names, from its first lines only: a tip-height column (`z`) and
+ * a bias or dI/dV column (`spectrum`). Null when the text has no header row before its data.
+ */
+export function headerRoles(text: string): { z: boolean; spectrum: boolean } | null {
+  const lines = text.slice(0, 65536).split(/\r\n|\n|\r/).slice(0, 400);
+  const { headerLine, fmt } = locate(lines);
+  if (headerLine < 0) return null;
+  const delim = fmt.delimiter === " " ? (lines[headerLine].includes("\t") ? "\t" : " ") : fmt.delimiter;
+  const names = splitLine(lines[headerLine].trim(), delim).map((h) => splitNameUnit(h.replace(/^["']|["']$/g, "")).name);
+  return {
+    z: names.some((n) => classify(n, "z") === "z"),
+    spectrum: names.some((n) => classify(n, "bias") === "bias" || classify(n, "bias") === "didv"),
+  };
+}
+
+/** "z" when the header names a tip height and no bias or dI/dV (an I(z) table), else "bias". */
+export function tableAxis(text: string): TableAxis {
+  const h = headerRoles(text);
+  return h && h.z && !h.spectrum ? "z" : "bias";
+}
+
+const maxAbs = (a: Float64Array) => a.reduce((m, v) => Math.max(m, Math.abs(v)), 0);
+
+/** Factor of the bias column to V: its unit, or mV for unitless values beyond 20. */
+function biasFactor(col: ColumnInfo, values: Float64Array, warnings: string[]): number {
+  const f = col.unit ? unitFactor("voltage", col.unit) : 1;
+  if (f === null) throw new ImportError(`bias column "${col.name}" has unknown unit "${col.unit}"`);
+  if (!col.unit && maxAbs(values) > 20) {
+    warnings.push("bias has no unit and exceeds 20: taken as mV");
+    return 1e-3;
+  }
+  return f;
+}
+
+/** Factor of the z column to nm: its unit (pm, nm, Å, m …), or for unitless values nm up to 10, pm beyond. */
+function zFactor(col: ColumnInfo, values: Float64Array, warnings: string[]): number {
+  const f = col.unit ? unitFactor("length", col.unit) : null;
+  if (col.unit && f === null) throw new ImportError(`z column "${col.name}" has unknown unit "${col.unit}"`);
+  if (f !== null) return f;
+  const pm = maxAbs(values) > 10;
+  warnings.push(`z has no unit: taken as ${pm ? "pm (its values exceed 10)" : "nm"}`);
+  return pm ? 1e-3 : 1;
+}
+
+export function parseDelimited(text: string, limits: ImportLimits, axis: TableAxis = "bias"): DelimitedTable {
+  const lines = text.split(/\r\n|\n|\r/);
+  const { meta, warnings, headerLine, first, fmt } = locate(lines);
+  const roles = AXES[axis];
   if (first < 0) {
     if (headerLine >= 0) throw new ImportError(`no numeric data rows after the header on line ${headerLine + 1}`);
     throw new ImportError("no numeric data rows found");
@@ -229,25 +311,26 @@ export function parseDelimited(text: string, limits: ImportLimits): DelimitedTab
       throw new ImportError(`line ${headerLine + 1}: header has ${hc.length} columns but the data on line ${first + 1} has ${ncol}`);
     columns = hc.map((h) => {
       const { name, unit } = splitNameUnit(h.replace(/^["']|["']$/g, ""));
-      return { name, unit, role: (classify(name) ?? "didv") as ColumnRole };
+      return { name, unit, role: (classify(name, axis) ?? roles.value) as ColumnRole };
     });
-    const unknown = hc.filter((h) => classify(splitNameUnit(h).name) === null);
-    const biasIdx = columns.findIndex((c) => c.role === "bias");
-    if (biasIdx < 0) {
-      columns[0].role = "bias";
-      warnings.push(`no column named like a bias; column 1 ("${columns[0].name}") taken as the bias`);
-    } else if (biasIdx !== 0 && columns.filter((c) => c.role === "bias").length > 1) {
-      warnings.push("several bias-like columns; the first is used");
+    const unknown = hc.filter((h) => classify(splitNameUnit(h).name, axis) === null);
+    const axisIdx = columns.findIndex((c) => c.role === axis);
+    if (axisIdx < 0) {
+      columns[0].role = axis;
+      warnings.push(`no column named like ${roles.axisWords}; column 1 ("${columns[0].name}") taken as the ${roles.axisName}`);
+    } else if (axisIdx !== 0 && columns.filter((c) => c.role === axis).length > 1) {
+      warnings.push(`several ${roles.axisName}-like columns; the first is used`);
     }
-    const bi = columns.findIndex((c) => c.role === "bias");
+    const ai = columns.findIndex((c) => c.role === axis);
     columns.forEach((c, i) => {
-      if (c.role === "bias" && i !== bi) c.role = "didv";
+      if (c.role === axis && i !== ai) c.role = roles.value;
     });
     if (unknown.length > 0 && unknown.length < hc.length)
-      warnings.push(`columns without a recognised name taken as dI/dV: ${unknown.slice(0, 5).map((u) => `"${u}"`).join(", ")}${unknown.length > 5 ? ` and ${unknown.length - 5} more` : ""}`);
+      warnings.push(`columns without a recognised name taken as ${roles.valueWords}: ${unknown.slice(0, 5).map((u) => `"${u}"`).join(", ")}${unknown.length > 5 ? ` and ${unknown.length - 5} more` : ""}`);
   } else {
-    columns = firstCells.map((_, i) => ({ name: i === 0 ? "bias" : ncol === 2 ? "dI/dV" : `dI/dV ${i}`, unit: "", role: i === 0 ? "bias" : "didv" }));
-    warnings.push("no header row; column 1 taken as the bias and the others as dI/dV");
+    const valueName = (i: number) => (ncol === 2 ? roles.valueWords : `${roles.valueWords} ${i}`);
+    columns = firstCells.map((_, i) => ({ name: i === 0 ? roles.axisName : valueName(i), unit: "", role: i === 0 ? axis : roles.value }));
+    warnings.push(`no header row; column 1 taken as the ${roles.axisName} and the others as ${roles.valueWords}`);
   }
   // Data rows.
   let nrows = 0;
@@ -283,18 +366,9 @@ export function parseDelimited(text: string, limits: ImportLimits): DelimitedTab
     rowLines[r++] = i + 1;
   }
   // Units.
-  const bi = columns.findIndex((c) => c.role === "bias");
+  const bi = columns.findIndex((c) => c.role === axis);
   const bcol = columns[bi];
-  let bf = bcol.unit ? unitFactor("voltage", bcol.unit) : 1;
-  if (bf === null) throw new ImportError(`bias column "${bcol.name}" has unknown unit "${bcol.unit}"`);
-  if (!bcol.unit) {
-    let mx = 0;
-    for (const v of values[bi]) if (Math.abs(v) > mx) mx = Math.abs(v);
-    if (mx > 20) {
-      bf = 1e-3;
-      warnings.push("bias has no unit and exceeds 20: taken as mV");
-    }
-  }
+  const bf = axis === "bias" ? biasFactor(bcol, values[bi], warnings) : zFactor(bcol, values[bi], warnings);
   if (bf !== 1) {
     const b = values[bi];
     for (let k = 0; k < b.length; k++) b[k] *= bf;

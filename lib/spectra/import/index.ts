@@ -11,8 +11,9 @@ import { cleanAxis } from "./clean";
 import { decodeText } from "./decode";
 import { parseDelimited } from "./delimited";
 import { parseJsonSpectra } from "./json";
-import { expandZip, isZip, listZip, skipEntry, unsafeEntryName } from "./zip";
+import { isZip, readArchive } from "./zip";
 import { applyGridPositions } from "./grid";
+import { fileKind, importApproachCurves, type ImportedCurveFile } from "./approach";
 import { ImportError, type ImportLimits, type ImportedFile, type ParsedSpectrum, type SpectrumMeta } from "./types";
 
 export type { ImportLimits, ImportedFile, ParsedSpectrum, SpectrumMeta } from "./types";
@@ -182,38 +183,29 @@ function importOne(file: string, bytes: Uint8Array, limits: ImportLimits): Impor
 export function importSpectra(name: string, bytes: Uint8Array, limits?: Partial<ImportLimits>): ImportedFile[] {
   const lim = resolveImportLimits(limits);
   if (!isZip(bytes) && !/\.zip$/i.test(name)) return [importOne(name, bytes, lim)];
-  const err = (message: string): ImportedFile[] => [{ file: name, status: "error", message, warnings: [], spectra: [] }];
-  if (bytes.length > lim.maxFileBytes) return err(`archive is ${bytes.length} bytes, over the limit of ${lim.maxFileBytes}`);
-  if (!isZip(bytes)) return err("named .zip but not a zip archive");
-  const listing = listZip(bytes, lim);
-  if (!listing.ok) return err(listing.message);
-  const out: ImportedFile[] = [];
-  const wanted = new Set<string>();
-  for (const e of listing.entries) {
-    if (skipEntry(e.name)) continue;
-    const entryFile = `${name}/${e.name}`;
-    const bad = unsafeEntryName(e.name);
-    if (bad) out.push({ file: entryFile, status: "error", message: `entry refused: ${bad}`, warnings: [], spectra: [] });
-    else if (/\.zip$/i.test(e.name)) out.push({ file: entryFile, status: "error", message: "nested archives are not read", warnings: [], spectra: [] });
-    else if (e.originalSize > lim.maxFileBytes) out.push({ file: entryFile, status: "error", message: `entry expands to ${e.originalSize} bytes, over the limit of ${lim.maxFileBytes}`, warnings: [], spectra: [] });
-    else if (e.compression !== 0 && e.compression !== 8) out.push({ file: entryFile, status: "error", message: `entry uses an unsupported compression method (${e.compression})`, warnings: [], spectra: [] });
-    else {
-      wanted.add(e.name);
-      out.push({ file: entryFile, status: "ok", warnings: [], spectra: [] });
-    }
+  const fail = (file: string, message: string): ImportedFile => ({ file, status: "error", message, warnings: [], spectra: [] });
+  return readArchive(name, bytes, lim, (file, data) => importOne(file, data, lim), fail);
+}
+
+export { importApproachCurves, fileKind, type ImportedCurveFile, type ParsedCurve } from "./approach";
+
+/**
+ * Read an uploaded file that may hold spectra, I(z) curves or (as a zip) both: each file or entry
+ * goes to the reader its content calls for (fileKind). Entries refused before reading (unsafe
+ * names, an archive that cannot be read) are in `spectra`, with their messages.
+ */
+export function importUpload(name: string, bytes: Uint8Array, limits?: Partial<ImportLimits>): { spectra: ImportedFile[]; curves: ImportedCurveFile[] } {
+  const lim = resolveImportLimits(limits);
+  const spectra: ImportedFile[] = [];
+  const curves: ImportedCurveFile[] = [];
+  const one = (file: string, data: Uint8Array) => {
+    if (data.length <= lim.maxFileBytes && fileKind(file, data) === "approach") curves.push(...importApproachCurves(file, data, lim));
+    else spectra.push(...importSpectra(file, data, lim));
+  };
+  if (!isZip(bytes) && !/\.zip$/i.test(name)) one(name, bytes);
+  else {
+    const fail = (file: string, message: string): null => (spectra.push({ file, status: "error", message, warnings: [], spectra: [] }), null);
+    readArchive(name, bytes, lim, (file, data) => (one(file, data), null), fail);
   }
-  if (out.length === 0) return err("archive holds no files");
-  let files: Record<string, Uint8Array>;
-  try {
-    files = wanted.size ? expandZip(bytes, wanted) : {};
-  } catch (e) {
-    return err(`could not expand the archive (${(e as Error).message})`);
-  }
-  return out.map((o) => {
-    if (o.status === "error") return o;
-    const entry = o.file.slice(name.length + 1);
-    const data = files[entry];
-    if (!data) return { ...o, status: "error" as const, message: "entry could not be expanded" };
-    return importOne(o.file, data, lim);
-  });
+  return { spectra, curves };
 }

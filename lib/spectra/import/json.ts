@@ -14,8 +14,8 @@ import { z } from "zod";
 import { ImportError, type SpectrumMeta } from "./types";
 import { applyMetaPair, emptyMeta } from "./metadata";
 
-const numArray = z.array(z.union([z.number(), z.null()]));
-const metaSchema = z.record(z.string(), z.union([z.number(), z.string(), z.boolean(), z.null()]));
+export const numArray = z.array(z.union([z.number(), z.null()]));
+export const metaSchema = z.record(z.string(), z.union([z.number(), z.string(), z.boolean(), z.null()]));
 const spectrumSchema = z
   .object({
     label: z.string().optional(),
@@ -43,34 +43,47 @@ export interface JsonSpectrum {
   warnings: string[];
 }
 
-const toArr = (a: (number | null)[] | undefined, f = 1): Float64Array | null => (a ? Float64Array.from(a, (v) => (v === null ? NaN : v * f)) : null);
+export const toArr = (a: (number | null)[] | undefined, f = 1): Float64Array | null => (a ? Float64Array.from(a, (v) => (v === null ? NaN : v * f)) : null);
 
-export function parseJsonSpectra(text: string): JsonSpectrum[] {
+type MetaRecord = z.infer<typeof metaSchema>;
+
+/**
+ * Parse the text as JSON of one of our shapes: a file object with `key` (an array of items), a bare
+ * array of items, or a single item. Throws an ImportError naming the shape and the first problem.
+ */
+export function parseJsonShape<T extends z.ZodType>(text: string, schema: T, key: string, shape: string): z.infer<T> {
   let data: unknown;
   try {
     data = JSON.parse(text);
   } catch (e) {
     throw new ImportError(`invalid JSON: ${(e as Error).message}`);
   }
-  const wrapped = Array.isArray(data)
-    ? { spectra: data }
-    : data && typeof data === "object" && !("spectra" in data)
-      ? { spectra: [data] }
-      : data;
-  const r = fileSchema.safeParse(wrapped);
+  const wrapped = Array.isArray(data) ? { [key]: data } : data && typeof data === "object" && !(key in data) ? { [key]: [data] } : data;
+  const r = schema.safeParse(wrapped);
   if (!r.success) {
     const iss = r.error.issues[0];
-    throw new ImportError(`JSON does not have the bandcross-spectra shape: ${iss.path.join(".") || "(top)"}: ${iss.message}`);
+    throw new ImportError(`JSON does not have the ${shape} shape: ${iss.path.join(".") || "(top)"}: ${iss.message}`);
   }
-  return r.data.spectra.map((s, i) => {
-    const meta = emptyMeta();
-    const warnings: string[] = [];
-    for (const src of [r.data.meta, s.meta])
-      for (const [k, v] of Object.entries(src ?? {})) {
-        if (v === null) continue;
-        const w = applyMetaPair(meta, k, String(v));
-        if (w) warnings.push(w);
-      }
+  return r.data;
+}
+
+/** The file's shared metadata overlaid with an item's own, as SpectrumMeta, with the warnings. */
+export function metaOf(shared: MetaRecord | undefined, own: MetaRecord | undefined): { meta: SpectrumMeta; warnings: string[] } {
+  const meta = emptyMeta();
+  const warnings: string[] = [];
+  for (const src of [shared, own])
+    for (const [k, v] of Object.entries(src ?? {})) {
+      if (v === null) continue;
+      const w = applyMetaPair(meta, k, String(v));
+      if (w) warnings.push(w);
+    }
+  return { meta, warnings };
+}
+
+export function parseJsonSpectra(text: string): JsonSpectrum[] {
+  const data = parseJsonShape(text, fileSchema, "spectra", "bandcross-spectra");
+  return data.spectra.map((s, i) => {
+    const { meta, warnings } = metaOf(data.meta, s.meta);
     const bias = toArr(s.bias_V) ?? toArr(s.bias_mV, 1e-3)!;
     const didv = toArr(s.didv);
     const current = toArr(s.current_A);

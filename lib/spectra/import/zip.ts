@@ -73,3 +73,50 @@ export function skipEntry(name: string): boolean {
 export function expandZip(bytes: Uint8Array, names: Set<string>): Record<string, Uint8Array> {
   return unzipSync(bytes, { filter: (f) => names.has(f.name) });
 }
+
+/**
+ * Read every entry of an archive with `one` (each entry's file name is "archive.zip/entry"), after
+ * the checks of listZip and unsafeEntryName; `fail` makes the entry for a refused entry, or the one
+ * entry for a whole archive that cannot be read.
+ */
+export function readArchive<T>(
+  name: string,
+  bytes: Uint8Array,
+  limits: ImportLimits,
+  one: (file: string, data: Uint8Array) => T,
+  fail: (file: string, message: string) => T,
+): T[] {
+  if (bytes.length > limits.maxFileBytes) return [fail(name, `archive is ${bytes.length} bytes, over the limit of ${limits.maxFileBytes}`)];
+  if (!isZip(bytes)) return [fail(name, "named .zip but not a zip archive")];
+  const listing = listZip(bytes, limits);
+  if (!listing.ok) return [fail(name, listing.message)];
+  const plan: ({ entry: string } | { refused: T })[] = [];
+  const wanted = new Set<string>();
+  for (const e of listing.entries) {
+    if (skipEntry(e.name)) continue;
+    const entryFile = `${name}/${e.name}`;
+    const bad = unsafeEntryName(e.name);
+    if (bad) plan.push({ refused: fail(entryFile, `entry refused: ${bad}`) });
+    else if (/\.zip$/i.test(e.name)) plan.push({ refused: fail(entryFile, "nested archives are not read") });
+    else if (e.originalSize > limits.maxFileBytes)
+      plan.push({ refused: fail(entryFile, `entry expands to ${e.originalSize} bytes, over the limit of ${limits.maxFileBytes}`) });
+    else if (e.compression !== 0 && e.compression !== 8)
+      plan.push({ refused: fail(entryFile, `entry uses an unsupported compression method (${e.compression})`) });
+    else {
+      wanted.add(e.name);
+      plan.push({ entry: e.name });
+    }
+  }
+  if (plan.length === 0) return [fail(name, "archive holds no files")];
+  let files: Record<string, Uint8Array>;
+  try {
+    files = wanted.size ? expandZip(bytes, wanted) : {};
+  } catch (e) {
+    return [fail(name, `could not expand the archive (${(e as Error).message})`)];
+  }
+  return plan.map((p) => {
+    if ("refused" in p) return p.refused;
+    const data = files[p.entry];
+    return data ? one(`${name}/${p.entry}`, data) : fail(`${name}/${p.entry}`, "entry could not be expanded");
+  });
+}

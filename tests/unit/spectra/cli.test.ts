@@ -4,7 +4,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { zipSync } from "fflate";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { columnsToCsv, makeRepeats, makeSpectrum, makeSweep, type SyntheticSpectrum } from "@/lib/spectra";
+import { columnsToCsv, makeApproachCurve, makeRepeats, makeRng, makeSpectrum, makeSweep, type SyntheticApproach, type SyntheticSpectrum } from "@/lib/spectra";
 
 const root = new URL("../../../", import.meta.url).pathname;
 let dir = "";
@@ -19,6 +19,12 @@ function toCsv(s: SyntheticSpectrum): string {
     "bias (mV),dI/dV (a.u.)",
   ];
   for (let i = 0; i < s.bias_V.length; i++) lines.push(`${(s.bias_V[i] * 1000).toFixed(4)},${s.didv[i].toExponential(8)}`);
+  return lines.join("\n") + "\n";
+}
+
+function approachCsv(c: SyntheticApproach): string {
+  const lines = ["# setpoint bias (V): 0.1", "# setpoint current (pA): 100", "z (pm),current (pA)"];
+  for (let i = 0; i < c.z_nm.length; i++) lines.push(`${(c.z_nm[i] * 1000).toFixed(3)},${(c.current_A[i] * 1e12).toPrecision(8)}`);
   return lines.join("\n") + "\n";
 }
 
@@ -88,11 +94,18 @@ beforeAll(async () => {
   const fb = ["dI/dV point=1 fwd", "dI/dV point=1 bwd", "dI/dV point=2 fwd", "dI/dV point=2 bwd"];
   writeFileSync(f("sweeps.csv"), columnsToCsv(reps[0].bias_V, columns(fb), repMeta));
   writeFileSync(f("uneven.csv"), withRepeats(3, columnsToCsv(reps[0].bias_V, columns(["a", "b", "c", "d"].map((c) => `dI/dV ${c}`)), repMeta)));
+  writeFileSync(f("iz-good.csv"), approachCsv(makeApproachCurve({ kappa_per_nm: 10.5, seed: 71, zFrom_nm: 0.4, contact: { at_nm: -0.22, conductance_G0: 0.5 } })));
+  writeFileSync(f("iz-both.csv"), approachCsv(makeApproachCurve({ kappa_per_nm: 9, seed: 72, retraction: true })));
+  const flat = makeApproachCurve({ kappa_per_nm: 10, seed: 73 });
+  const rng = makeRng(74);
+  writeFileSync(f("iz-flat.csv"), approachCsv({ ...flat, current_A: flat.current_A.map(() => 1e-10 * (1 + 0.02 * rng.normal())) }));
   const jobs: [string, string[]][] = [
     ["average", ["analyze", f("repeats.csv"), f("sweeps.csv"), f("uneven.csv"), "--average", "--json"]],
     ["feenstra", ["analyze", f("good.csv"), "--normalise", "feenstra", "--json"]],
     ["setpoint", ["analyze", f("good.csv"), "--normalise", "setpoint", "--json"]],
     ["badNormalise", ["analyze", f("good.csv"), "--normalise", "unit"]],
+    ["barrier", ["barrier", f("iz-good.csv"), f("iz-both.csv"), f("iz-flat.csv"), f("good.csv"), "--json"]],
+    ["barrierTable", ["barrier", f("iz-good.csv")]],
     ["mixed", ["analyze", f("good.csv"), f("line.tsv"), f("ragged.csv"), f("blob.bin"), f("run.zip"), f("missing.csv"), "--json"]],
     ["table", ["analyze", f("good.csv"), f("line.tsv")]],
     ["sweep", ["sweep", ...sweepFiles, ...wf, "--contact-distance", "0.25", "--json"]],
@@ -253,5 +266,36 @@ describe("bandcross analyze --average and --normalise", () => {
     expect(runs.badNormalise.code).toBe(2);
     expect(runs.badNormalise.stderr).toMatch(/--normalise takes none, feenstra, setpoint; got "unit"/);
     noStack(runs.badNormalise);
+  });
+});
+
+describe("bandcross barrier", () => {
+  it("prints κ, σκ, φ_ap and its σ per curve in the agreed JSON; a bad curve and a spectrum are errors with messages, exit 1", () => {
+    const r = runs.barrier;
+    expect(r.code).toBe(1);
+    noStack(r);
+    const out = JSON.parse(r.stdout);
+    expect(out.curves.map((c: { file: string }) => c.file)).toEqual(["iz-good.csv", "iz-both.csv", "iz-flat.csv", "good.csv"]);
+    const [good, both, flat, spectrum] = out.curves;
+    const fields = ["file", "index", "status", "message", "warnings", "kappa_per_nm", "kappaSigma_per_nm", "barrierHeight_eV", "barrierHeightSigma_eV", "pointsUsed"];
+    for (const c of out.curves) expect(Object.keys(c)).toEqual(expect.arrayContaining(fields));
+    expect(good).toMatchObject({ index: 0, status: "ok", message: null });
+    // Known κ = 10.5/nm within twice the stated σ; φ_ap = ħ²κ²/(2m_e) = 3.80998 eV·Å² × (1.05 Å⁻¹)² = 4.2005 eV.
+    expect(Math.abs(good.kappa_per_nm - 10.5)).toBeLessThan(2 * good.kappaSigma_per_nm);
+    expect(good.barrierHeight_eV / good.kappa_per_nm ** 2).toBeCloseTo(4.2005 / 10.5 ** 2, 6);
+    expect(good.barrierHeightSigma_eV / good.barrierHeight_eV).toBeCloseTo((2 * good.kappaSigma_per_nm) / good.kappa_per_nm, 9);
+    expect(good.warnings.join("\n")).toMatch(/point contact left out/);
+    expect(good.pointsUsed).toBeGreaterThan(50);
+    expect(both.sweeps.map((s: { direction: string }) => s.direction)).toEqual(["approach", "retraction"]);
+    expect(Math.abs(both.kappa_per_nm - 9)).toBeLessThan(2 * both.kappaSigma_per_nm);
+    expect(flat).toMatchObject({ status: "error", kappa_per_nm: null, pointsUsed: null });
+    expect(flat.message).toMatch(/does not decay/);
+    expect(spectrum).toMatchObject({ status: "error", index: null, message: "no z column, and columns named like a bias or dI/dV: a spectrum, not an I(z) curve" });
+  });
+  it("prints a table without --json and exits 0 when every curve was fitted", () => {
+    const r = runs.barrierTable;
+    expect(r.code).toBe(0);
+    expect(r.stdout.split("\n")[0]).toMatch(/^file\s+#\s+status\s+κ \(1\/nm\)\s+φ_ap \(eV\)\s+points/);
+    expect(r.stdout).toMatch(/iz-good\.csv\s+0\s+ok\s+10\.\d\d ± 0\.\d\d\s+4\.\d\d ± 0\.\d\d/);
   });
 });

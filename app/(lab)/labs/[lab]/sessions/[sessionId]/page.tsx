@@ -1,4 +1,3 @@
-import Link from "next/link";
 import { SpectraTable } from "@/components/uploads/spectra-table";
 import { UploadPanel } from "@/components/uploads/upload-panel";
 import { ButtonLink } from "@/components/ui/button";
@@ -8,6 +7,7 @@ import { can } from "@/lib/base/permissions";
 import { getSession } from "@/lib/services/sessions/getSession";
 import { listTips } from "@/lib/services/tips/listTips";
 import { listSessionUploads } from "@/lib/services/uploads/listSessionUploads";
+import { SessionLine } from "./session-line";
 
 export default async function SessionPage({ params }: { params: Promise<{ lab: string; sessionId: string }> }) {
   const { lab, sessionId } = await params;
@@ -23,26 +23,30 @@ export default async function SessionPage({ params }: { params: Promise<{ lab: s
     listTips({ ctx }),
   ]);
   const canUpload = can(ctx.actor.role, "upload:write");
+  const curves = uploads.reduce((n, u) => n + u.curvesCount, 0);
   return (
     <>
       <PageHeader
         eyebrow="Session"
         title={s.label}
         description={
-          <>
-            <Link className="underline-offset-2 hover:underline" href={`/labs/${lab}/samples/${s.sampleId}`}>
-              {sampleName}
-            </Link>{" "}
-            · <span className="num">{s.date}</span>
-            {tipLabel ? ` · tip ${tipLabel}` : ""}
-            {s.temperatureK != null ? ` · ${s.temperatureK} K` : ""}
-            {operatorName ? ` · ${operatorName}` : ""}
-          </>
+          <SessionLine
+            lab={lab}
+            sampleId={s.sampleId}
+            sampleName={sampleName}
+            date={s.date}
+            tipLabel={tipLabel}
+            temperatureK={s.temperatureK}
+            operatorName={operatorName}
+          />
         }
         actions={
           <>
             <ButtonLink variant="secondary" href={`/labs/${lab}/samples/${s.sampleId}`}>
               Phase plot
+            </ButtonLink>
+            <ButtonLink variant="secondary" href={`/labs/${lab}/sessions/${s.id}/barrier`}>
+              I(z) curves{curves ? ` (${curves})` : ""}
             </ButtonLink>
             {can(ctx.actor.role, "session:write") ? (
               <ButtonLink variant="secondary" href={`/labs/${lab}/sessions/${s.id}/edit`}>

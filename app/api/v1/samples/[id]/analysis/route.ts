@@ -4,10 +4,11 @@ import { getSampleVersions } from "@/lib/services/analysis/getSampleVersions";
 
 /**
  * The sample's current extraction-settings and field-model versions and its latest re-analysis run (with progress:
- * status queued, running, fitting, done or failed with a message).
+ * status queued, running, fitting, done or failed with a message), and the sessions and tips whose I(z) curves
+ * a field model may take κ from.
  */
 export const GET = apiRoute<{ id: string }>(async ({ ctx, params }) => {
-  const { settings, field, run } = await getSampleVersions({ ctx, input: { sampleId: params.id } });
+  const { settings, field, run, curveChoices } = await getSampleVersions({ ctx, input: { sampleId: params.id } });
   return NextResponse.json({
     settings: {
       id: settings.id,
@@ -27,5 +28,7 @@ export const GET = apiRoute<{ id: string }>(async ({ ctx, params }) => {
           updatedAt: run.updatedAt.toISOString(),
         }
       : null,
+    /** Sessions and tips of the sample with fitted I(z) curves (scope, id, label, curves, κ): choices for the field model. */
+    curveChoices,
   });
 });
