@@ -56,6 +56,10 @@ describe("I(z) curves in the browser", () => {
     expect(await page.textContent('[data-testid="barrier-summary"]')).toMatch(/κ = 10\.6\d ± 0\.\d\d nm⁻¹ · φap = 4\.[23]\d ± 0\.\d\d eV/);
     expect(await page.textContent("main")).toMatch(/points past a jump to point contact left out/);
     await shot(page, "barrier-session");
+    // The tips page sums κ up per tip and sample.
+    await page.goto(`${APP_URL}/labs/${lab.lab.slug}/tips`);
+    expect(await page.textContent('[data-testid="tip-kappa"]')).toMatch(/^GX-κ bilayer: κ = 10\.6\d ± 0\.\d\d nm⁻¹, φap = 4\.[23]\d eV \(2 I\(z\)\)$/);
+    await shot(page, "barrier-tips");
 
     await page.goto(`${APP_URL}/labs/${lab.lab.slug}/samples/${sampleId}`);
     await page.waitForSelector('[data-testid="phase-plot"] .main-svg');

@@ -40,7 +40,7 @@ const EXPECTED: Record<Permission, string[]> = {
   "lab:read": [
     ...["getSample", "getSampleVersions", "getSession", "getSpectrum", "getTip", "getUpload", "listMembers", "listNotifications", "listSamples"],
     ...["listSessionSpectra", "listSessionUploads", "listSessions", "listTips", "markNotificationsRead", "phaseCsv", "pickHistoryOf"],
-    ...["spectraCsv", "tipsOfSample", "watchSample", "getStartSteps", "getSessionBarrier"],
+    ...["spectraCsv", "tipsOfSample", "watchSample", "getStartSteps", "getSessionBarrier", "listTipKappas"],
   ],
   "sample:write": ["createSample", "updateSample"],
   "tip:write": ["createTip", "updateTip"],

@@ -3,6 +3,7 @@ import { ButtonLink } from "@/components/ui/button";
 import { PageHeader } from "@/components/ui/card";
 import { pageCtx } from "@/lib/actions/validated";
 import { can } from "@/lib/base/permissions";
+import { listTipKappas } from "@/lib/services/curves/listTipKappas";
 import { listTips } from "@/lib/services/tips/listTips";
 import { TipsTable } from "./tips-table";
 import { LabStart } from "../lab-start";
@@ -12,7 +13,7 @@ export const metadata: Metadata = { title: "Tips" };
 export default async function TipsPage({ params }: { params: Promise<{ lab: string }> }) {
   const { lab } = await params;
   const ctx = await pageCtx(lab);
-  const rows = await listTips({ ctx });
+  const [rows, kappas] = await Promise.all([listTips({ ctx }), listTipKappas({ ctx })]);
   const canWrite = can(ctx.actor.role, "tip:write");
   return (
     <>
@@ -35,6 +36,9 @@ export default async function TipsPage({ params }: { params: Promise<{ lab: stri
           workFunctionEv: t.workFunctionEv,
           workFunctionSigmaEv: t.workFunctionSigmaEv,
           preparedOn: t.preparedOn,
+          kappas: kappas
+            .filter((k) => k.tipId === t.id)
+            .map((k) => `${k.sample}: κ = ${k.kappa_per_nm.toFixed(2)} ± ${k.kappaSigma_per_nm.toFixed(2)} nm⁻¹, φap = ${k.barrierHeight_eV.toFixed(2)} eV (${k.curves} I(z))`),
         }))}
       />
     </>

@@ -11,6 +11,8 @@ type TipRow = {
   workFunctionEv: number;
   workFunctionSigmaEv: number;
   preparedOn: string | null;
+  /** κ from the tip's I(z) curves, one line per sample it was measured on. */
+  kappas: string[];
 };
 
 export function TipsTable({ lab, tips, canWrite }: { lab: string; tips: TipRow[]; canWrite: boolean }) {
@@ -37,6 +39,22 @@ export function TipsTable({ lab, tips, canWrite }: { lab: string; tips: TipRow[]
           {row.original.workFunctionEv.toFixed(2)} ± {row.original.workFunctionSigmaEv.toFixed(2)} eV
         </span>
       ),
+    },
+    {
+      id: "kappa",
+      header: "κ from I(z) curves",
+      enableSorting: false,
+      accessorFn: (t) => t.kappas.join("; "),
+      cell: ({ row }) =>
+        row.original.kappas.length ? (
+          <ul className="num text-xs" data-testid="tip-kappa">
+            {row.original.kappas.map((k) => (
+              <li key={k}>{k}</li>
+            ))}
+          </ul>
+        ) : (
+          <span className="text-muted">—</span>
+        ),
     },
     {
       accessorKey: "preparedOn",
