@@ -50,7 +50,7 @@ export function baselineAt(b: Pick<Baseline, "coef" | "center">, v: number): num
 }
 
 /** Least-squares polynomial of `degree` in (V − center) through the used points; null if singular. */
-function polyFit(bias: Float64Array, y: Float64Array, from: number, to: number, degree: number, center: number, use: Uint8Array): Float64Array | null {
+export function polyFit(bias: Float64Array, y: Float64Array, from: number, to: number, degree: number, center: number, use: Uint8Array): Float64Array | null {
   const p = degree + 1;
   const a = new Float64Array(p * p);
   const r = new Float64Array(p);

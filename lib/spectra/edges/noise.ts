@@ -4,7 +4,8 @@
  * σ is 1.4826 × their median absolute deviation (MAD → σ for Gaussian noise). Three passes, starting
  * from the smoothed minimum and the MAD of the smoothing residuals over the whole spectrum.
  */
-import { linearLeastSquares, madSigma, median } from "../stats";
+import { madSigma, median } from "../stats";
+import { baselineAt, polyFit } from "./baseline";
 
 
 export interface NoiseFloor {
@@ -129,20 +130,17 @@ export function quietTilt(bias: Float64Array, s: Float64Array, top: number, sigm
  * The quiet run of a curved floor (a tilt plus curvature: a bias-dependent transmission or the tip's
  * density of states): starting from a quiet run, fit a quadratic to the smoothed signal over it and take
  * the run of points within 2k·σ of that quadratic's lowest residual, around it; repeat while the run
- * grows (at most `rounds` times). Returns the quadratic (value at bias b: c0 + c1·x + c2·x², x = b − center)
- * and the run, or null when the fit fails.
+ * grows (at most `rounds` times). Returns the quadratic (coefficients in powers of bias − center, for
+ * `baselineAt`) and the run, or null when the fit fails.
  */
-export function quietCurve(bias: Float64Array, s: Float64Array, sigmaSmoothed: number, k: number, lo: number, hi: number, from: number, to: number, rounds = 4): { coef: [number, number, number]; center: number; from: number; to: number } | null {
-  let out: { coef: [number, number, number]; center: number; from: number; to: number } | null = null;
+export function quietCurve(bias: Float64Array, s: Float64Array, sigmaSmoothed: number, k: number, lo: number, hi: number, from: number, to: number, rounds = 4): { coef: Float64Array; center: number; from: number; to: number } | null {
+  let out: { coef: Float64Array; center: number; from: number; to: number } | null = null;
   for (let r = 0; r < rounds; r++) {
-    const npts = to - from + 1;
-    if (npts < 12) return out;
+    if (to - from + 1 < 12) return out;
     const center = 0.5 * (bias[from] + bias[to]);
-    const x = Float64Array.from({ length: npts }, (_, i) => bias[from + i] - center);
-    const fit = linearLeastSquares([new Float64Array(npts).fill(1), x, x.map((v) => v * v)], s.subarray(from, to + 1));
-    if (!fit) return out;
-    const coef: [number, number, number] = [fit.coef[0], fit.coef[1], fit.coef[2]];
-    const d = (i: number) => s[i] - (coef[0] + coef[1] * (bias[i] - center) + coef[2] * (bias[i] - center) ** 2);
+    const coef = polyFit(bias, s, from, to, 2, center, new Uint8Array(to - from + 1).fill(1));
+    if (!coef) return out;
+    const d = (i: number) => s[i] - baselineAt({ coef, center }, bias[i]);
     let j = from;
     for (let i = from; i <= to; i++) if (d(i) < d(j)) j = i;
     const level = d(j) + 2 * k * sigmaSmoothed;

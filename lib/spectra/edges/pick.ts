@@ -25,7 +25,7 @@ import { type BroadeningKernel, broadeningKernel, convolvedOnset, energyResoluti
 import { DEFAULT_EXTRACTION_SETTINGS, type ExtractionSettings, resolveExtractionSettings, type DeepPartial } from "../settings";
 import { smoothSpectrum } from "../smooth/apply";
 import { linearLeastSquares, madSigma, median, movingAverage, quantile } from "../stats";
-import { type Baseline, autocorrelationTime, baselineAt, fitBaselineOn, trimOnsets } from "./baseline";
+import { type Baseline, autocorrelationTime, baselineAt, fitBaselineOn, polyFit, trimOnsets } from "./baseline";
 import { edgeProfileRange, fitEdges } from "./fit";
 import { noiseFloor, quietCurve, quietTilt } from "./noise";
 import { logOnset, sustainedEdge } from "./threshold";
@@ -358,7 +358,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   let e = walk(d, nf.iMin, st.threshold.k * sigmaWide);
   const flatLook = e;
   /** A quiet run under a tilt that was not taken for the first look (an end did not rise as a band does). */
-  let straightRun: { from: number; to: number; slope: number; at: (b: number) => number; tol: number } | null = null;
+  let straightRun: { from: number; to: number; coef: Float64Array; center: number } | null = null;
   if (st.baseline.tiltedLook) {
     // A tilted floor (a linear background): under the right tilt the gap is one long quiet run. Take the
     // tilt for the first look only when it makes the run half as long again and both ends of the run rise
@@ -391,13 +391,14 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     if (qt.slope !== 0 && long(qt.from, qt.to)) {
       const c = 0.5 * (bias[qt.from] + bias[qt.to]);
       const f0 = median(Float64Array.from({ length: qt.to - qt.from + 1 }, (_, j) => y[qt.from + j] - qt.slope * (bias[qt.from + j] - c)));
-      let look = lookAgainst((b) => f0 + qt.slope * (b - c), qt.from, qt.to);
+      const line = { coef: Float64Array.of(f0, qt.slope), center: c };
+      let look = lookAgainst((b) => baselineAt(line, b), qt.from, qt.to);
       if (!look) {
         const qc = quietCurve(bias, s, sigmaWide, st.threshold.k, lo + margin, hi - margin, qt.from, qt.to);
-        if (qc && long(qc.from, qc.to)) look = lookAgainst((b) => qc.coef[0] + qc.coef[1] * (b - qc.center) + qc.coef[2] * (b - qc.center) ** 2, qc.from, qc.to);
+        if (qc && long(qc.from, qc.to)) look = lookAgainst((b) => baselineAt(qc, b), qc.from, qc.to);
       }
       if (look) e = look;
-      else straightRun = { from: qt.from, to: qt.to, slope: qt.slope, at: (b) => f0 + qt.slope * (b - c), tol: 2 * st.threshold.k * sigmaWide };
+      else straightRun = { from: qt.from, to: qt.to, ...line };
     }
   }
   const keep = Math.max(1, Math.ceil(res_V / step));
@@ -613,7 +614,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
   }
   // A much sharper rise beyond an edge than at it: the edge may be a sloped floor crossing the threshold.
   if (!isV) {
-    const sharper = sharperRise(bias, s, main.v.index, main.c.index, lo, hi, res_V);
+    const sharper = sharperRise(bias, s, main.v.index, main.c.index, lo, hi, res_V / step);
     for (const side of ["vb", "cb"] as const) {
       const at = sharper[side];
       if (at === null) continue;
@@ -632,10 +633,9 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
     const a = main.v!.index + keep;
     const b = main.c!.index - keep;
     if (b - a < 8) return NaN;
-    const x = Float64Array.from({ length: b - a + 1 }, (_, j) => bias[a + j] - bias[a]);
-    return linearLeastSquares([new Float64Array(b - a + 1).fill(1), x], s.subarray(a, b + 1))?.coef[1] ?? NaN;
+    return polyFit(bias, s, a, b, 1, bias[a], new Uint8Array(b - a + 1).fill(1))?.[1] ?? NaN;
   };
-  if (straightRun && !isV && Math.abs(floorSlope() - straightRun.slope) <= 0.5 * Math.abs(straightRun.slope)) {
+  if (straightRun && !isV && Math.abs(floorSlope() - straightRun.coef[1]) <= 0.5 * Math.abs(straightRun.coef[1])) {
     for (const side of ["vb", "cb"] as const) {
       const edge = side === "vb" ? vb : cb;
       const end = bias[side === "vb" ? straightRun.from : straightRun.to];
@@ -644,7 +644,7 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
       // On the line, not only below it: the run's points beyond the edge within ±2k noise levels of it.
       const [a, b] = side === "vb" ? [straightRun.from, main.v.index] : [main.c.index, straightRun.to];
       let on = 0;
-      for (let i = a; i <= b; i++) if (Math.abs(s[i] - straightRun.at(bias[i])) < straightRun.tol) on++;
+      for (let i = a; i <= b; i++) if (Math.abs(s[i] - baselineAt(straightRun, bias[i])) < 2 * st.threshold.k * sigmaWide) on++;
       if (on < 0.9 * (b - a + 1)) continue;
       const sig = beyond / 2;
       if (side === "vb") vbSigma = Math.max(vbSigma, sig);
@@ -708,12 +708,12 @@ export function pickGap(input: PickInput, settings?: DeepPartial<ExtractionSetti
 /**
  * Where the smoothed signal rises at least SHARPER_RISE times more steeply beyond an edge (away from the
  * gap, up to the search range's end) than anywhere within three resolutions of the edge; null per side
- * when it does not. Slopes are differences over ±1 resolution of the smoothed curve.
+ * when it does not. Slopes are differences over ±1 resolution (`resPoints`: the resolution in points) of the
+ * smoothed curve.
  */
-function sharperRise(bias: Float64Array, s: Float64Array, iv: number, ic: number, lo: number, hi: number, res_V: number): { vb: number | null; cb: number | null } {
-  const step = Math.abs(bias[1] - bias[0]);
-  const h = Math.max(1, Math.round(res_V / step));
-  const w = Math.max(1, Math.round((3 * res_V) / step));
+function sharperRise(bias: Float64Array, s: Float64Array, iv: number, ic: number, lo: number, hi: number, resPoints: number): { vb: number | null; cb: number | null } {
+  const h = Math.max(1, Math.round(resPoints));
+  const w = Math.max(1, Math.round(3 * resPoints));
   const slope = (i: number) => {
     const a = Math.max(lo, i - h);
     const b = Math.min(hi, i + h);
