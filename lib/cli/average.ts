@@ -5,7 +5,7 @@
  * indices averaged and `leftOut` those left out, with the reasons in `warnings`.
  */
 import { averageSpectra, pickOnView, pointGroups, type ExtractionSettings, type ParsedSpectrum } from "../spectra";
-import { type Analysed, errorEntry, gapJson, importFiles, normalisationJson } from "./shared";
+import { type Analysed, errorEntry, importFiles, pickedEntry } from "./shared";
 
 function averagePoint(file: string, label: string, point: number, members: ParsedSpectrum[], settings: ExtractionSettings, fileWarnings: string[]): Analysed {
   const one = members.length === 1;
@@ -18,22 +18,14 @@ function averagePoint(file: string, label: string, point: number, members: Parse
     ? { ...first, index: point, label, bias_V: avg.bias_V, didv: avg.didv, current_A: avg.current_A, warnings: [...new Set(used.flatMap((s) => s.warnings))] }
     : { ...first, index: point, label };
   const { pick, view } = pickOnView({ ...spectrum, stderr: avg?.stderr ?? null }, settings);
-  const normalisation = normalisationJson(view);
   const warnings = [...fileWarnings, ...spectrum.warnings];
   if (one) warnings.push("a single spectrum at this point: nothing to average");
   else warnings.push(`average of ${used.length} repeats`, ...avg!.warnings);
   return {
     entry: {
-      file,
-      index: point,
-      label,
-      status: pick.status,
-      message: null,
-      warnings: [...warnings, ...pick.warnings],
-      gap: gapJson(pick),
+      ...pickedEntry({ file, index: point, label, warnings }, pick, view),
       averagedFrom: used.map((s) => s.index),
       leftOut: avg ? avg.leftOut.map((l) => members[l.index].index) : [],
-      ...(normalisation ? { normalisation } : {}),
     },
     spectrum,
     pick,

@@ -199,6 +199,12 @@ export function normalisationJson(view: Normalised): NormalisationJson | undefin
   return view.method === "none" ? undefined : { method: view.method, description: view.description, currentReconstructed: view.currentReconstructed };
 }
 
+/** The entry of one picked spectrum: its place, warnings (the pick's added), gap and the view it was picked on. */
+export function pickedEntry(at: Pick<Entry, "file" | "index" | "label" | "warnings">, pick: GapPick, view: Normalised): Entry {
+  const normalisation = normalisationJson(view);
+  return { ...at, status: pick.status, message: null, warnings: [...at.warnings, ...pick.warnings], gap: gapJson(pick), ...(normalisation ? { normalisation } : {}) };
+}
+
 /** Read, import and pick every file (on the view the settings name); one Analysed per spectrum (or per failed file). */
 export function analyseFiles(paths: string[], settings: ExtractionSettings): Analysed[] {
   const results: Analysed[] = [];
@@ -209,22 +215,9 @@ export function analyseFiles(paths: string[], settings: ExtractionSettings): Ana
     }
     for (const s of f.spectra) {
       try {
-        const { pick: p, view } = pickOnView(s, settings);
-        const normalisation = normalisationJson(view);
-        results.push({
-          entry: {
-            file: s.file,
-            index: s.index,
-            label: s.label,
-            status: p.status,
-            message: null,
-            warnings: [...f.warnings, ...s.warnings, ...p.warnings],
-            gap: gapJson(p),
-            ...(normalisation ? { normalisation } : {}),
-          },
-          spectrum: s,
-          pick: p,
-        });
+        const { pick, view } = pickOnView(s, settings);
+        const at = { file: s.file, index: s.index, label: s.label, warnings: [...f.warnings, ...s.warnings] };
+        results.push({ entry: pickedEntry(at, pick, view), spectrum: s, pick });
       } catch (e) {
         results.push({ ...errorEntry(s.file, `spectrum ${s.index + 1}: ${(e as Error).message}`), spectrum: s });
       }
