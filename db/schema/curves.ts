@@ -1,10 +1,8 @@
-import { doublePrecision, index, integer, jsonb, pgEnum, pgTable, text, uniqueIndex, uuid } from "drizzle-orm/pg-core";
+import { doublePrecision, index, integer, jsonb, pgEnum, pgTable, text, uniqueIndex } from "drizzle-orm/pg-core";
 import type { SweepFit } from "@/lib/spectra/barrier/fit";
 import type { BarrierFlag } from "@/lib/spectra/barrier/flags";
-import { labs } from "./auth";
 import { createdAt, float64Array, id } from "./columns";
-import { measurementSessions, samples, tips } from "./lab";
-import { uploads } from "./spectra";
+import { fromUpload } from "./spectra";
 
 export const curveFitStatus = pgEnum("curve_fit_status", ["ok", "error"]);
 
@@ -20,25 +18,7 @@ export const approachCurves = pgTable(
   "approach_curves",
   {
     id: id(),
-    labId: uuid("lab_id")
-      .notNull()
-      .references(() => labs.id, { onDelete: "cascade" }),
-    uploadId: uuid("upload_id")
-      .notNull()
-      .references(() => uploads.id, { onDelete: "restrict" }),
-    sessionId: uuid("session_id")
-      .notNull()
-      .references(() => measurementSessions.id, { onDelete: "restrict" }),
-    sampleId: uuid("sample_id")
-      .notNull()
-      .references(() => samples.id, { onDelete: "restrict" }),
-    tipId: uuid("tip_id").references(() => tips.id, { onDelete: "set null" }),
-    /** File name, or "archive.zip/entry.csv" for a zip entry. */
-    sourceName: text("source_name").notNull(),
-    indexInFile: integer("index_in_file").notNull(),
-    label: text("label").notNull(),
-    rawSha256: text("raw_sha256").notNull(),
-    nPoints: integer("n_points").notNull(),
+    ...fromUpload(),
     zNm: float64Array("z_nm").notNull(),
     currentA: float64Array("current_a").notNull(),
     setpointBiasV: doublePrecision("setpoint_bias_v"),

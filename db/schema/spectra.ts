@@ -121,16 +121,11 @@ export const spectrumKind = pgEnum("spectrum_kind", ["measured", "average"]);
 export type SpectrumKind = (typeof spectrumKind.enumValues)[number];
 
 /**
- * One dI/dV curve: parsed arrays and metadata, with the distance and field estimated for it. An
- * `average` is the mean of repeats at one point (its members in `spectrum_average_members`), with
- * the standard error of the mean per point in `stderr`; it takes its first member's upload, file
- * and raw hash, and a negative `index_in_file` (−1, −2 … within that file) so it never collides
- * with a measured column.
+ * Where a measured series came from: its lab, upload, session, sample and tip, its place in the raw
+ * file (and that file's SHA-256) and its length. Spectra and I(z) curves carry the same columns.
  */
-export const spectra = pgTable(
-  "spectra",
-  {
-    id: id(),
+export function fromUpload() {
+  return {
     labId: uuid("lab_id").notNull().references(() => labs.id, { onDelete: "cascade" }),
     uploadId: uuid("upload_id").notNull().references(() => uploads.id, { onDelete: "restrict" }),
     sessionId: uuid("session_id").notNull().references(() => measurementSessions.id, { onDelete: "restrict" }),
@@ -142,6 +137,21 @@ export const spectra = pgTable(
     label: text("label").notNull(),
     rawSha256: text("raw_sha256").notNull(),
     nPoints: integer("n_points").notNull(),
+  };
+}
+
+/**
+ * One dI/dV curve: parsed arrays and metadata, with the distance and field estimated for it. An
+ * `average` is the mean of repeats at one point (its members in `spectrum_average_members`), with
+ * the standard error of the mean per point in `stderr`; it takes its first member's upload, file
+ * and raw hash, and a negative `index_in_file` (−1, −2 … within that file) so it never collides
+ * with a measured column.
+ */
+export const spectra = pgTable(
+  "spectra",
+  {
+    id: id(),
+    ...fromUpload(),
     biasV: float64Array("bias_v").notNull(),
     didv: float64Array("didv").notNull(),
     currentA: float64Array("current_a"),
