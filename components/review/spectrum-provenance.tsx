@@ -6,11 +6,14 @@ import type { SpectrumData } from "./review-figure";
  * Where this number comes from: the file and its hash, setpoint, temperature and lock-in,
  * distance, field, region, tip, versions.
  */
+/** A measured setting as people read it: three significant digits (a file may carry many more). */
+const sig3 = (v: number) => Number(v.toPrecision(3));
+
 export function SpectrumProvenance({ lab, data }: { lab: string; data: SpectrumData }) {
   const m = data.metadata;
   const setpoint =
     m.setpointBias_V != null && m.setpointCurrent_A != null
-      ? `${m.setpointBias_V} V, ${(m.setpointCurrent_A * 1e12).toPrecision(4)} pA`
+      ? `${sig3(m.setpointBias_V)} V, ${(m.setpointCurrent_A * 1e12).toPrecision(4)} pA`
       : "not recorded";
   const distance =
     data.distance_nm != null ? `${data.distance_nm.toFixed(3)} ± ${(data.distanceSigma_nm ?? 0).toFixed(3)} nm` : "—";
@@ -34,7 +37,7 @@ export function SpectrumProvenance({ lab, data }: { lab: string; data: SpectrumD
         <dd className="num">{setpoint}</dd>
         <dt className="text-muted">T, lock-in</dt>
         <dd className="num">
-          {data.analysis.temperature_K} K, {data.analysis.lockinModulation_mV_rms} mV rms
+          {sig3(data.analysis.temperature_K)} K, {sig3(data.analysis.lockinModulation_mV_rms)} mV rms
         </dd>
         <dt className="text-muted">distance</dt>
         <dd className="num">{distance}</dd>

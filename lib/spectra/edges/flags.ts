@@ -30,7 +30,7 @@ export const QUALITY_FLAG_LABELS: Record<QualityFlagCode, string> = {
 /** What each flag means, for help text and tooltips. */
 export const QUALITY_FLAG_HELP: Record<QualityFlagCode, string> = {
   "unreliable-edge":
-    "The data do not pin a band edge down: its estimates disagree beyond their uncertainties, or they depend on a choice the data cannot make (a weak onset against a sloping floor).",
+    "The data do not pin a band edge down: its estimates disagree beyond their uncertainties, they depend on a choice the data cannot make (a weak onset against a sloping floor), the signal rises more sharply beyond the edge than at it, or only one of the two edges was found.",
   "sloped-background": "The in-gap floor is not flat (tip density of states, bias-dependent transmission); the edges were read against a sloped baseline.",
   glitch: "Single-point spikes were replaced by the mean of their neighbours before picking.",
   clipped: "The signal sits at a constant maximum or minimum over several points (amplifier or lock-in saturation).",
