@@ -74,7 +74,7 @@ export async function buildCli(dir = outDir) {
   const esbuild = await import("esbuild");
   const result = await esbuild.build({
     absWorkingDir: root,
-    entryPoints: { main: "lib/cli/main.ts" },
+    entryPoints: { main: "lib/cli/main.ts", "pick-worker": "lib/cli/pick-worker.ts" },
     bundle: true,
     splitting: true,
     format: "esm",

@@ -5,15 +5,14 @@ import { parseArgs, type ParseArgsConfig } from "node:util";
 import {
   DEFAULT_IMPORT_LIMITS,
   importSpectra,
-  pickOnView,
   resolveExtractionSettings,
   type ExtractionSettings,
   type GapPick,
   type ImportedFile,
-  type Normalised,
   type ParsedSpectrum,
 } from "../spectra";
 import { CliUsageError } from "./io";
+import { pickAll, type ViewInfo } from "./parallel";
 
 export interface GapJson {
   vbEdge_V: number | null;
@@ -195,33 +194,37 @@ export function importFiles(paths: string[]): (ImportedFile | Analysed)[] {
   return out;
 }
 
-export function normalisationJson(view: Normalised): NormalisationJson | undefined {
+export function normalisationJson(view: ViewInfo): NormalisationJson | undefined {
   return view.method === "none" ? undefined : { method: view.method, description: view.description, currentReconstructed: view.currentReconstructed };
 }
 
 /** The entry of one picked spectrum: its place, warnings (the pick's added), gap and the view it was picked on. */
-export function pickedEntry(at: Pick<Entry, "file" | "index" | "label" | "warnings">, pick: GapPick, view: Normalised): Entry {
+export function pickedEntry(at: Pick<Entry, "file" | "index" | "label" | "warnings">, pick: GapPick, view: ViewInfo): Entry {
   const normalisation = normalisationJson(view);
   return { ...at, status: pick.status, message: null, warnings: [...at.warnings, ...pick.warnings], gap: gapJson(pick), ...(normalisation ? { normalisation } : {}) };
 }
 
-/** Read, import and pick every file (on the view the settings name); one Analysed per spectrum (or per failed file). */
-export function analyseFiles(paths: string[], settings: ExtractionSettings): Analysed[] {
+/**
+ * Read, import and pick every file (on the view the settings name); one Analysed per spectrum (or per
+ * failed file). A file of many spectra is picked on every core (parallel.ts); `warn` hears when it is not.
+ */
+export async function analyseFiles(paths: string[], settings: ExtractionSettings, warn: (s: string) => void): Promise<Analysed[]> {
   const results: Analysed[] = [];
   for (const f of importFiles(paths)) {
     if ("entry" in f) {
       results.push(f);
       continue;
     }
-    for (const s of f.spectra) {
-      try {
-        const { pick, view } = pickOnView(s, settings);
-        const at = { file: s.file, index: s.index, label: s.label, warnings: [...f.warnings, ...s.warnings] };
-        results.push({ entry: pickedEntry(at, pick, view), spectrum: s, pick });
-      } catch (e) {
-        results.push({ ...errorEntry(s.file, `spectrum ${s.index + 1}: ${(e as Error).message}`), spectrum: s });
+    const picked = await pickAll(f.spectra, settings, warn);
+    f.spectra.forEach((s, k) => {
+      const r = picked[k];
+      if ("error" in r) {
+        results.push({ ...errorEntry(s.file, `spectrum ${s.index + 1}: ${r.error}`), spectrum: s });
+        return;
       }
-    }
+      const at = { file: s.file, index: s.index, label: s.label, warnings: [...f.warnings, ...s.warnings] };
+      results.push({ entry: pickedEntry(at, r.pick, r.view), spectrum: s, pick: r.pick });
+    });
   }
   return results;
 }

@@ -48,6 +48,13 @@ beforeAll(async () => {
   for (let i = 0; i < s.bias_V.length; i++) lines.push(`${s.bias_V[i]},${s.didv[i]}`);
   writeFileSync(join(dir, "one.csv"), lines.join("\n") + "\n");
   writeFileSync(join(dir, "broken.json"), JSON.stringify({ threshold: { k: -2 } }));
+  // A grid file of 300 short spectra, enough for the built command to pick in threads (parallel.ts).
+  const grid = Array.from({ length: 300 }, (_, k) =>
+    makeSpectrum({ vbEdge_V: -0.1 - 0.0002 * k, cbEdge_V: 0.12, T_K: 4.5, vrms_mV: 2, noise: 0.02, seed: 100 + k, step_V: 0.004 }),
+  );
+  const rows = [["bias (V)", ...grid.map((_, k) => `dI/dV point ${k}`)].join("\t")];
+  for (let i = 0; i < grid[0].bias_V.length; i++) rows.push([grid[0].bias_V[i], ...grid.map((g) => g.didv[i])].join("\t"));
+  writeFileSync(join(dir, "grid.tsv"), rows.join("\n") + "\n");
 }, 60_000);
 
 afterAll(() => {
@@ -69,6 +76,17 @@ describe("the built bandcross command", () => {
     const [a, b] = await Promise.all([fromSources(args), built(args)]);
     expect(b).toEqual(a);
     expect(a.stdout + a.stderr).not.toBe("");
+  }, 60_000);
+
+  it("picks a grid in threads exactly as the sources pick it in one, in the file's order", async () => {
+    const args = ["analyze", "grid.tsv", "--json"];
+    const [single, threaded] = await Promise.all([fromSources(args), built(args, { BANDCROSS_CLI_THREADS: "2" })]);
+    // No "picking in one thread" notice: the threads started and answered.
+    expect(threaded.stderr).toBe("");
+    expect(threaded).toEqual(single);
+    const entries = (JSON.parse(threaded.stdout) as { spectra: { index: number; status: string }[] }).spectra;
+    expect(entries.map((e) => e.index)).toEqual(Array.from({ length: 300 }, (_, k) => k));
+    expect(entries.filter((e) => e.status === "ok").length).toBeGreaterThan(290);
   }, 60_000);
 
   it("loads the token command's database code (server-only resolved at build time)", async () => {

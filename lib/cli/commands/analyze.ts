@@ -41,7 +41,7 @@ export const analyze: Command = {
         throw new CliUsageError(`--normalise takes ${NORMALISATIONS.join(", ")}; got "${normalise}"`);
       settings.normalisation = { ...settings.normalisation, method: normalise as (typeof NORMALISATIONS)[number] };
     }
-    const results = values.average ? analyseAveraged(positionals, settings) : analyseFiles(positionals, settings);
+    const results = values.average ? analyseAveraged(positionals, settings) : await analyseFiles(positionals, settings, io.err);
     const failed = results.some((r) => r.entry.status === "error");
     if (values.json) {
       io.out(JSON.stringify({ spectra: results.map((r) => r.entry) }, null, 2) + "\n");

@@ -74,7 +74,7 @@ export const sweep: Command = {
     }
     const model: FieldModel = parsed.data;
     const settings = settingsFromOptions(values);
-    const results = analyseFiles(positionals, settings);
+    const results = await analyseFiles(positionals, settings, io.err);
     const entries: SweepEntry[] = [];
     const points: Parameters<typeof fitSweep>[0] = [];
     for (const r of results) {
