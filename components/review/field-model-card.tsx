@@ -31,6 +31,7 @@ export function FieldModelCard({
     contactDistanceSigma_nm: stored.contactDistanceSigma_nm ?? model.contactDistanceSigma_nm,
     barrierHeight_eV: stored.barrierHeight_eV ?? null,
     barrierHeightSigma_eV: stored.barrierHeightSigma_eV ?? 0,
+    assumedBarrierSigma_eV: stored.assumedBarrierSigma_eV ?? 0,
     screening: stored.screening ?? model.screening,
   };
   return (

@@ -51,6 +51,7 @@ export function fieldModelBody(f: FormData) {
     decayConstantSource: source,
     barrierHeight_eV: source === "measured" ? num(f.get("barrierHeight_eV")) : null,
     ...(source === "curves" ? curveChoiceBody(String(f.get("curveChoice") ?? "")) : {}),
+    assumedBarrierSigma_eV: num(f.get("assumedBarrierSigma_eV")) ?? undefined,
     screening: num(f.get("screening")) ?? undefined,
     note: note(f),
   };

@@ -120,7 +120,7 @@ export function ReadOnlyVersions({ data }: { data: SampleVersions }) {
                 ? kappaSourceText(m)
                 : source === "measured"
                   ? `${DECAY_LABEL.measured}, ${shown(m.barrierHeight_eV, "eV", "—")}`
-                  : DECAY_LABEL[source],
+                  : `${DECAY_LABEL[source]} ± ${shown(m.assumedBarrierSigma_eV ?? 0, "eV", "—")} (assumed)`,
             ],
           ]}
         />

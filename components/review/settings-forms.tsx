@@ -3,7 +3,7 @@
 import type { FormEvent } from "react";
 import { Button } from "@/components/ui/button";
 import { Field, Input, Select } from "@/components/ui/field";
-import { DEFAULT_EXTRACTION_SETTINGS } from "@/lib/spectra/settings";
+import { ASSUMED_BARRIER_SIGMA_EV, DEFAULT_EXTRACTION_SETTINGS } from "@/lib/spectra/settings";
 import type { SampleVersions } from "./sample-queries";
 import { SETTINGS_NUMBERS } from "./settings-bodies";
 import { DECAY_LABEL, decaySource, METHOD_LABEL, NORMALISATION_LABEL } from "./settings-facts";
@@ -174,6 +174,14 @@ export function FieldModelForm({ data, fe, onSubmit }: FormProps) {
           error={fe("barrierHeight_eV")}
           name="barrierHeight_eV"
           value={decaySource(m) === "measured" ? (m.barrierHeight_eV ?? "") : ""}
+        />
+        <NumberField
+          label="Work-function mean: its uncertainty"
+          unit="eV"
+          hint="how far the apparent barrier may lie from the mean (assumed)"
+          error={fe("assumedBarrierSigma_eV")}
+          name="assumedBarrierSigma_eV"
+          value={m.assumedBarrierSigma_eV ?? ASSUMED_BARRIER_SIGMA_EV}
         />
         <NoteField fe={fe} />
       </fieldset>

@@ -83,6 +83,11 @@ export interface StoredFieldModel {
   barrierHeight_eV: number | null;
   /** Its standard uncertainty, eV (from the curves' κ); absent or 0 when typed in without one. */
   barrierHeightSigma_eV?: number;
+  /**
+   * Without a measured barrier, the σ of the work-function-mean assumption, eV; absent in versions
+   * saved before it existed, which were estimated with none (0).
+   */
+  assumedBarrierSigma_eV?: number;
   /** With κ from I(z) curves: which curves, chosen how, and their weighted κ. */
   curves?: StoredCurveChoice | null;
   screening: number;

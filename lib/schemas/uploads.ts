@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { QUALITY_FLAG_CODES } from "@/lib/spectra/edges/flags";
+import { ASSUMED_BARRIER_SIGMA_EV } from "@/lib/spectra/settings";
 import { numberInput } from "./number";
 import { text } from "./text";
 
@@ -71,6 +72,11 @@ export const fieldModelInput = z.object({
   curveTipId: z.string().uuid("Choose a tip.").optional(),
   curveIds: z.array(z.string().uuid("Curve ids are ids of I(z) curves.")).max(1000).optional(),
   barrierHeight_eV: numberInput(num("eV").min(0.1, "An apparent barrier below 0.1 eV is not a tunnel barrier.").max(10, "An apparent barrier above 10 eV is not physical.").nullable().optional()),
+  /** With κ from the work functions' mean: that assumption's σ, eV (lib/spectra/settings.ts). */
+  assumedBarrierSigma_eV: numberInput(
+    num("eV").min(0, "An uncertainty cannot be negative.").max(5, "An uncertainty above 5 eV is larger than the barrier.")
+      .default(ASSUMED_BARRIER_SIGMA_EV),
+  ),
   screening: numberInput(num("a factor").min(1, "A screening factor below 1 would amplify the field.").max(100, "A screening factor above 100 leaves no field.").default(1)),
   note: text().trim().max(500).optional(),
 })

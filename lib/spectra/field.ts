@@ -6,8 +6,9 @@
  * barrier of height φ̄. It is an estimate, not a measurement.
  *
  * Uncertainty: linear propagation of the independent uncertainties of Φ_tip, Φ_sample and d_c through
- * both d and E (central differences), and of a measured barrier height (κ from I(z) curves) through d,
- * where it replaces the work functions' mean. These are common to every spectrum taken with the same tip on the
+ * both d and E (central differences), and through d of the barrier height: a measured one (κ from I(z)
+ * curves) with its σ, or else the work functions' mean with the assumption's own σ
+ * (assumedBarrierSigma_eV: the apparent barrier is not the mean, only near it). These are common to every spectrum taken with the same tip on the
  * same sample, so they shift a whole sweep together (a scale error), not point by point.
  */
 import { decayConstant_per_nm, tunnellingDistance } from "./distance";
@@ -31,6 +32,8 @@ interface Params {
   dc: number;
   /** Measured barrier height, eV (used only when the model has one). */
   phiB: number;
+  /** Offset of the apparent barrier from the work functions' mean, eV (0; used only without phiB). */
+  phiA: number;
 }
 
 export function fieldAssumptions(model: FieldModel): string[] {
@@ -38,7 +41,10 @@ export function fieldAssumptions(model: FieldModel): string[] {
     "parallel-plate junction: E = (Φ_tip − Φ_sample)/(e·d); tip curvature ignored",
     "field from the contact potential only (bias contribution not added)",
     model.barrierHeight_eV === null
-      ? "barrier height = mean of tip and sample work functions; no image-potential lowering"
+      ? model.assumedBarrierSigma_eV > 0
+        ? `barrier height = mean of tip and sample work functions ± ${model.assumedBarrierSigma_eV.toFixed(2)} eV (assumed; ` +
+          "measured apparent barriers lie near or below it)"
+        : "barrier height = mean of tip and sample work functions; no image-potential lowering"
       : model.barrierHeightSigma_eV > 0
         ? `barrier height = ${model.barrierHeight_eV.toFixed(3)} ± ${model.barrierHeightSigma_eV.toFixed(3)} eV (measured apparent barrier)`
         : `barrier height = ${model.barrierHeight_eV} eV (measured apparent barrier)`,
@@ -61,7 +67,7 @@ export function estimateField(
   if (meta.setpoint_bias_V === undefined || meta.setpoint_current_A === undefined)
     throw new RangeError("setpoint bias and current are needed to estimate the distance");
   const compute = (p: Params) => {
-    const barrier = model.barrierHeight_eV === null ? (p.phiT + p.phiS) / 2 : p.phiB;
+    const barrier = model.barrierHeight_eV === null ? (p.phiT + p.phiS) / 2 + p.phiA : p.phiB;
     const d = tunnellingDistance({
       setpointBias_V: meta.setpoint_bias_V!,
       setpointCurrent_A: meta.setpoint_current_A!,
@@ -76,6 +82,7 @@ export function estimateField(
     phiS: model.sampleWorkFunction_eV,
     dc: model.contactDistance_nm,
     phiB: model.barrierHeight_eV ?? NaN,
+    phiA: 0,
   };
   const c = compute(p0);
   if (!(c.d > 0)) throw new RangeError(`the estimated distance is not positive (${c.d.toFixed(3)} nm); check the setpoint and d_c`);
@@ -87,6 +94,7 @@ export function estimateField(
     ["dc", model.contactDistanceSigma_nm],
     // A measured barrier (κ from I(z) curves) takes the work functions' place in d.
     ["phiB", model.barrierHeight_eV === null ? 0 : model.barrierHeightSigma_eV],
+    ["phiA", model.barrierHeight_eV === null ? model.assumedBarrierSigma_eV : 0],
   ];
   for (const [k, s] of parts) {
     if (!(s > 0)) continue;
@@ -139,6 +147,7 @@ export interface KappaSourceOf {
   barrierHeight_eV?: number | null;
   barrierHeightSigma_eV?: number | null;
   curves?: { description: string; kappa_per_nm: number; kappaSigma_per_nm: number } | null;
+  assumedBarrierSigma_eV?: number | null;
 }
 
 /** Where κ comes from, in words, for the field-model and critical-field cards and the e-mails. */
@@ -149,5 +158,6 @@ export function kappaSourceText(m: KappaSourceOf): string {
     return `κ = ${c.kappa_per_nm.toFixed(2)} ± ${c.kappaSigma_per_nm.toFixed(2)} nm⁻¹ measured on ${c.description}${phi}`;
   }
   if (m.barrierHeight_eV != null) return `κ from a typed-in apparent barrier of ${m.barrierHeight_eV.toFixed(2)} eV`;
-  return "κ from the mean of the tip and sample work functions (an assumption)";
+  const sigma = m.assumedBarrierSigma_eV ? ` ± ${m.assumedBarrierSigma_eV.toFixed(2)} eV` : "";
+  return `κ from the mean of the tip and sample work functions${sigma} (an assumption)`;
 }

@@ -9,6 +9,7 @@ export {
   extractionSettingsSchema,
   DEFAULT_EXTRACTION_SETTINGS,
   fieldModelSchema,
+  ASSUMED_BARRIER_SIGMA_EV,
   DEFAULT_FIELD_MODEL,
   importLimitsSchema,
   DEFAULT_IMPORT_LIMITS,

@@ -127,10 +127,23 @@ export const fieldModelSchema = z.object({
   barrierHeight_eV: positive.nullable(),
   /** Standard uncertainty of the measured barrier height, eV (e.g. from the κ of I(z) curves); 0 = none given. */
   barrierHeightSigma_eV: nonNegative.default(0),
+  /**
+   * Without a measured barrier: how far the true apparent barrier may lie from the work functions'
+   * mean, eV (a standard uncertainty of the assumption itself, beyond the work functions' own).
+   */
+  assumedBarrierSigma_eV: nonNegative.default(0),
   /** Field divided by this factor (1 = no screening). */
   screening: number().min(1),
 });
 export type FieldModel = z.infer<typeof fieldModelSchema>;
+
+/**
+ * How far an apparent barrier height measured by I(z) commonly lies from the mean of the two work
+ * functions: image-potential lowering, tip shape and adsorbates put it anywhere from about the mean
+ * to 1–2 eV below it (common practice, from memory). 1 eV as a standard uncertainty says so; a
+ * measured κ (I(z) curves) replaces the assumption and its uncertainty.
+ */
+export const ASSUMED_BARRIER_SIGMA_EV = 1;
 
 /** Tungsten tip (Michaelson 1977: 4.55 eV, from memory) on a sample of 4.5 eV; σ 0.1 eV each. */
 export const DEFAULT_FIELD_MODEL: FieldModel = Object.freeze({
@@ -142,6 +155,7 @@ export const DEFAULT_FIELD_MODEL: FieldModel = Object.freeze({
   contactDistanceSigma_nm: 0.05,
   barrierHeight_eV: null,
   barrierHeightSigma_eV: 0,
+  assumedBarrierSigma_eV: ASSUMED_BARRIER_SIGMA_EV,
   screening: 1,
 }) as FieldModel;
 

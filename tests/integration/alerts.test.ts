@@ -32,7 +32,8 @@ import { bytesOf, startWorkerProcess, stopWorkerProcess, uploadFile, waitForUplo
  * sweep from the documented physical model (lib/spectra/synthetic.ts, gap closing at 0.98 V/nm)
  * is pushed through presigned uploads; the worker refits, records the event and e-mails everyone
  * watching. Mail is read back from the fake's outbox, not from our own tables. Work functions and
- * contact distance get small uncertainties (±0.01 eV, ±0.005 nm) so the 95% interval is narrow
+ * contact distance get small uncertainties (±0.01 eV, ±0.005 nm; no σ for the work-function-mean
+ * barrier assumption) so the 95% interval is narrow
  * enough that a new contact distance (0.25 → 0.35 nm, fields ≈ 11% lower) moves the field outside it.
  */
 process.env.JOB_EXPIRE_SECONDS = "10";
@@ -120,7 +121,7 @@ beforeAll(async () => {
 
   worker = await startWorkerProcess();
   for (const id of [sampleId, closingId]) {
-    const fm = await saveFieldModel({ ctx: lab.ctx("analyst"), input: { sampleId: id, model: { contactDistance_nm: 0.25, contactDistanceSigma_nm: 0.005 } } });
+    const fm = await saveFieldModel({ ctx: lab.ctx("analyst"), input: { sampleId: id, model: { contactDistance_nm: 0.25, contactDistanceSigma_nm: 0.005, assumedBarrierSigma_eV: 0 } } });
     await waitForRun(fm.runId);
   }
 }, 90_000);
@@ -242,7 +243,7 @@ describe("crossing alerts through the pipeline", () => {
   }, 90_000);
 
   it("a new field model that moves the field outside the interval sends the 'moved' e-mail", async () => {
-    const fm = await saveFieldModel({ ctx: lab.ctx("analyst"), input: { sampleId, model: { contactDistance_nm: 0.35, contactDistanceSigma_nm: 0.005 } } });
+    const fm = await saveFieldModel({ ctx: lab.ctx("analyst"), input: { sampleId, model: { contactDistance_nm: 0.35, contactDistanceSigma_nm: 0.005, assumedBarrierSigma_eV: 0 } } });
     await waitForRun(fm.runId);
     const moved = (await waitForMails(lab.people.analyst.email, about(sampleName), 2)).filter((m) => m.subject.includes("moved to"));
     expect(moved).toHaveLength(1);
@@ -268,7 +269,7 @@ describe("crossing alerts through the pipeline", () => {
     expect((await watchState({ ctx: lab.ctx("owner"), input: { sampleId } })).watching).toBe(false);
 
     // Back to the first contact distance: the field moves back, outside the second interval.
-    const fm = await saveFieldModel({ ctx: lab.ctx("analyst"), input: { sampleId, model: { contactDistance_nm: 0.25, contactDistanceSigma_nm: 0.005 } } });
+    const fm = await saveFieldModel({ ctx: lab.ctx("analyst"), input: { sampleId, model: { contactDistance_nm: 0.25, contactDistanceSigma_nm: 0.005, assumedBarrierSigma_eV: 0 } } });
     await waitForRun(fm.runId);
     await waitForMails(lab.people.analyst.email, about(sampleName), 3);
     await waitForQuietQueue();

@@ -159,6 +159,10 @@ describe("I(z) curves pushed with the spectra", () => {
     const byId = new Map(before.points.map((p) => [p.spectrumId, p]));
     for (const p of after.points)
       expect(Math.abs(p.field_V_per_nm / byId.get(p.spectrumId)!.field_V_per_nm - 1)).toBeLessThan(0.005);
+    // … while the measured κ (±0.1%) replaces the mean-work-function assumption (±1 eV of 4.3, the new
+    // sample's default): every field's model σ shrinks.
+    for (const p of after.points)
+      expect(p.fieldSigma_V_per_nm!).toBeLessThan(byId.get(p.spectrumId)!.fieldSigma_V_per_nm! * 0.99);
   });
 
   it("a choice without fitted curves is a field error; another lab sees nothing", async () => {

@@ -16,6 +16,9 @@ const usage = `usage: bandcross sweep FILE... --tip-work-function EV --sample-wo
   --sample-work-function-sigma EV uncertainty of Φ_sample (default ${DEFAULT_FIELD_MODEL.sampleWorkFunctionSigma_eV})
   --contact-distance-sigma NM     uncertainty of the contact distance (default ${DEFAULT_FIELD_MODEL.contactDistanceSigma_nm})
   --barrier-height EV             measured apparent barrier height (default: mean of the work functions)
+  --barrier-height-sigma EV       its standard uncertainty (default 0)
+  --assumed-barrier-sigma EV      without --barrier-height, how far the barrier may lie from that mean
+                                  (default ${DEFAULT_FIELD_MODEL.assumedBarrierSigma_eV})
   --screening S                   divide the field by S ≥ 1 (default 1, none)
   --json                          print JSON instead of tables
   --settings F                    extraction settings as JSON (partial; the rest are defaults)
@@ -44,6 +47,8 @@ export const sweep: Command = {
       "sample-work-function-sigma": { type: "string" },
       "contact-distance-sigma": { type: "string" },
       "barrier-height": { type: "string" },
+      "barrier-height-sigma": { type: "string" },
+      "assumed-barrier-sigma": { type: "string" },
       screening: { type: "string" },
     });
     if (values.help) {
@@ -64,6 +69,8 @@ export const sweep: Command = {
         sampleWorkFunctionSigma_eV: numberOption(values["sample-work-function-sigma"], "sample-work-function-sigma"),
         contactDistanceSigma_nm: numberOption(values["contact-distance-sigma"], "contact-distance-sigma"),
         barrierHeight_eV: numberOption(values["barrier-height"], "barrier-height"),
+        barrierHeightSigma_eV: numberOption(values["barrier-height-sigma"], "barrier-height-sigma"),
+        assumedBarrierSigma_eV: numberOption(values["assumed-barrier-sigma"], "assumed-barrier-sigma"),
         screening: numberOption(values.screening, "screening"),
       }),
     };

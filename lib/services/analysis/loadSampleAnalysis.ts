@@ -52,6 +52,7 @@ export async function loadSampleAnalysis({ ctx, input }: { ctx: DbCtx; input: { 
         contactDistanceSigma_nm: fieldStored.contactDistanceSigma_nm,
         barrierHeight_eV: fieldStored.barrierHeight_eV,
         barrierHeightSigma_eV: fieldStored.barrierHeightSigma_eV ?? 0,
+        assumedBarrierSigma_eV: fieldStored.assumedBarrierSigma_eV ?? 0,
         screening: fieldStored.screening,
       });
     },

@@ -35,6 +35,7 @@ export async function saveFieldModel({ ctx, input }: { ctx: Ctx; input: { sample
     decayConstantSource: m.decayConstantSource,
     barrierHeight_eV: fromCurves ? fromCurves.barrierHeight_eV : m.decayConstantSource === "measured" ? (m.barrierHeight_eV ?? null) : null,
     barrierHeightSigma_eV: fromCurves ? fromCurves.barrierHeightSigma_eV : 0,
+    assumedBarrierSigma_eV: m.assumedBarrierSigma_eV,
     curves,
     screening: m.screening,
   } satisfies StoredFieldModel;

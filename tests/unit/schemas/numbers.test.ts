@@ -32,11 +32,12 @@ describe("field model (PUT /samples/{id}/field-model)", () => {
     }
   });
   it("keeps the defaults for what is left out, and reads numbers sent as text", () => {
-    expect(fieldModelInput.parse({ contactDistance_nm: "0,3" })).toEqual({ contactDistance_nm: 0.3, contactDistanceSigma_nm: 0.05, decayConstantSource: "mean-work-function", screening: 1 });
+    expect(fieldModelInput.parse({ contactDistance_nm: "0,3" })).toEqual({ contactDistance_nm: 0.3, contactDistanceSigma_nm: 0.05, decayConstantSource: "mean-work-function", assumedBarrierSigma_eV: 1, screening: 1 });
     expect(fieldModelInput.parse({ contactDistance_nm: 0.25, contactDistanceSigma_nm: "", barrierHeight_eV: null }).contactDistanceSigma_nm).toBe(0.05);
   });
   it("still applies the physical bounds", () => {
     expect(messages(fieldModelInput.safeParse({ contactDistance_nm: -0.1 }))).toEqual(["contactDistance_nm: The contact distance cannot be negative."]);
+    expect(messages(fieldModelInput.safeParse({ contactDistance_nm: 0.25, assumedBarrierSigma_eV: -1 }))).toEqual(["assumedBarrierSigma_eV: An uncertainty cannot be negative."]);
     expect(messages(fieldModelInput.safeParse({ contactDistance_nm: 0.25, screening: 0.5 }))).toEqual(["screening: A screening factor below 1 would amplify the field."]);
   });
 });

@@ -104,6 +104,7 @@ describe("tunnelling distance", () => {
 describe("field estimate", () => {
   const model = resolveFieldModel({ tipWorkFunction_eV: 4.7, sampleWorkFunction_eV: 3.9, contactDistance_nm: 0.25 });
   const meta = { setpoint_bias_V: 0.6, setpoint_current_A: 2e-11 };
+  const noSigma = { tipWorkFunctionSigma_eV: 0, sampleWorkFunctionSigma_eV: 0, contactDistanceSigma_nm: 0, assumedBarrierSigma_eV: 0 };
   it("E = (Φ_tip − Φ_sample)/(e·d) in V/nm, with κ from the mean work function", () => {
     const f = estimateField(model, meta);
     const d = tunnellingDistance({ setpointBias_V: 0.6, setpointCurrent_A: 2e-11, barrier_eV: 4.3, contactDistance_nm: 0.25 });
@@ -118,19 +119,35 @@ describe("field estimate", () => {
     expect(f.field_V_per_nm).toBeCloseTo(0.8 / d / 2, 12);
   });
   it("uncertainty: only σ(d_c) → σ_d = σ(d_c) and σ_E = ΔΦ·σ_d/d² (linear propagation, closed form)", () => {
-    const f = estimateField({ ...model, tipWorkFunctionSigma_eV: 0, sampleWorkFunctionSigma_eV: 0, contactDistanceSigma_nm: 0.05 }, meta);
+    const f = estimateField({ ...model, ...noSigma, contactDistanceSigma_nm: 0.05 }, meta);
     expect(f.distanceSigma_nm).toBeCloseTo(0.05, 9);
     expect(f.fieldSigma_V_per_nm).toBeCloseTo((0.8 * 0.05) / f.distance_nm ** 2, 6);
   });
   it("uncertainty: only σ(Φ_sample) → σ_E = σ·|∂E/∂Φ_s| with ∂E/∂Φ_s = −1/d − ΔΦ/d²·∂d/∂Φ_s (closed form)", () => {
     const s = 0.1;
-    const f = estimateField({ ...model, tipWorkFunctionSigma_eV: 0, sampleWorkFunctionSigma_eV: s, contactDistanceSigma_nm: 0 }, meta);
+    const f = estimateField({ ...model, ...noSigma, sampleWorkFunctionSigma_eV: s }, meta);
     const g = 7.748091729e-5 / (2e-11 / 0.6);
     // d = d_c + ln(G0/G)/(2κ), κ ∝ √φ̄, φ̄ = (Φt + Φs)/2 → ∂d/∂Φs = −ln(G0/G)/(2κ) · 1/(2φ̄) · 1/2
     const k = decayConstant_per_nm(4.3);
     const dd = (-Math.log(g) / (2 * k)) * (1 / (2 * 4.3)) * 0.5;
     const dE = -1 / f.distance_nm - (0.8 / f.distance_nm ** 2) * dd;
     expect(f.fieldSigma_V_per_nm).toBeCloseTo(Math.abs(dE) * s, 6);
+  });
+  it("uncertainty: only the assumption's σ_A → σ_d = ln(G₀/G)/(4κφ̄)·σ_A, σ_E = ΔΦ·σ_d/d² (closed form)", () => {
+    const sA = 1;
+    const f = estimateField({ ...model, ...noSigma, assumedBarrierSigma_eV: sA }, meta);
+    // d = d_c + ln(G₀/G)/(2κ), κ ∝ √φ̄ → ∂d/∂φ̄ = −ln(G₀/G)/(2κ)·1/(2φ̄); E = ΔΦ/d (differentiating by hand).
+    const lnG = Math.log(7.748091729e-5 / (2e-11 / 0.6));
+    const sd = (lnG / (4 * decayConstant_per_nm(4.3) * 4.3)) * sA;
+    expect(f.distanceSigma_nm).toBeCloseTo(sd, 6);
+    expect(f.fieldSigma_V_per_nm).toBeCloseTo((0.8 * sd) / f.distance_nm ** 2, 6);
+    // The nominal values do not move; a ±1 eV barrier is a ±12% κ, several per cent of d here.
+    expect(f.field_V_per_nm).toBeCloseTo(estimateField({ ...model, ...noSigma }, meta).field_V_per_nm, 12);
+    expect(f.distanceSigma_nm / f.distance_nm).toBeGreaterThan(0.03);
+    expect(f.assumptions.join("\n")).toMatch(/mean of tip and sample work functions ± 1\.00 eV \(assumed/);
+    // A measured barrier replaces the assumption and its σ.
+    const m = estimateField({ ...model, ...noSigma, assumedBarrierSigma_eV: sA, barrierHeight_eV: 4.3 }, meta);
+    expect(m.distanceSigma_nm).toBe(0);
   });
   it("fact of the trade: under an STM tip the field is of order 1 V/nm (common practice)", () => {
     // Tungsten tip (4.55 eV, Michaelson 1977, from memory) over a 3.9 eV sample at typical setpoints.
@@ -143,5 +160,6 @@ describe("field estimate", () => {
     expect(DEFAULT_FIELD_MODEL.contactDistance_nm).toBe(0.25);
     expect(DEFAULT_FIELD_MODEL.barrierHeight_eV).toBeNull();
     expect(DEFAULT_FIELD_MODEL.screening).toBe(1);
+    expect(DEFAULT_FIELD_MODEL.assumedBarrierSigma_eV).toBe(1);
   });
 });
