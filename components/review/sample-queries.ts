@@ -20,6 +20,8 @@ export type SampleVersions = {
   run: { id: string; status: string; total: number; done: number; reason: string; message?: string | null } | null;
   /** Sessions and tips of the sample with fitted I(z) curves, for the field model's κ. */
   curveChoices?: { scope: "session" | "tip"; id: string; label: string; curves: number; kappa_per_nm: number; kappaSigma_per_nm: number }[];
+  /** The fitted curves one by one, for a set chosen by hand. */
+  fittedCurves?: { id: string; label: string; kappa_per_nm: number; kappaSigma_per_nm: number; flags: string[] }[];
 };
 
 /** Run states with work still to come. */

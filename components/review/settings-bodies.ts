@@ -33,9 +33,10 @@ export function settingsBody(f: FormData) {
   };
 }
 
-/** "session:<id>" or "tip:<id>" from the curves' select, as the body's scope and id. */
-function curveChoiceBody(v: string) {
+/** "session:<id>", "tip:<id>" or "set:" (the ticked curves) from the curves' select, as the body's scope and ids. */
+function curveChoiceBody(v: string, ticked: string[]) {
   const [scope, id] = v.split(":");
+  if (scope === "set") return { curveScope: "set", curveIds: ticked };
   if (scope === "tip") return { curveScope: "tip", curveTipId: id };
   if (scope === "session") return { curveScope: "session", curveSessionId: id };
   return {};
@@ -50,7 +51,7 @@ export function fieldModelBody(f: FormData) {
     contactDistanceSigma_nm: num(f.get("contactDistanceSigma_nm")) ?? undefined,
     decayConstantSource: source,
     barrierHeight_eV: source === "measured" ? num(f.get("barrierHeight_eV")) : null,
-    ...(source === "curves" ? curveChoiceBody(String(f.get("curveChoice") ?? "")) : {}),
+    ...(source === "curves" ? curveChoiceBody(String(f.get("curveChoice") ?? ""), f.getAll("curveIds").map(String)) : {}),
     assumedBarrierSigma_eV: num(f.get("assumedBarrierSigma_eV")) ?? undefined,
     screening: num(f.get("screening")) ?? undefined,
     note: note(f),

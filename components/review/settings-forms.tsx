@@ -111,11 +111,18 @@ export function ExtractionSettingsForm({ data, fe, onSubmit }: FormProps) {
   );
 }
 
-/** Which I(z) curves κ comes from (with "I(z) curves" chosen): a session's or a tip's, each with its κ. */
+/** Which I(z) curves κ comes from (with "I(z) curves" chosen): a session's, a tip's, or those ticked below. */
 function CurveChoiceField({ data, fe }: Pick<FormProps, "data" | "fe">) {
   const choices = data.curveChoices ?? [];
   const current = data.fieldModel.model.curves as { scope?: string; sessionId?: string; tipId?: string } | null | undefined;
-  const value = current?.scope === "tip" ? `tip:${current.tipId}` : current?.sessionId ? `session:${current.sessionId}` : undefined;
+  const value =
+    current?.scope === "set"
+      ? "set:"
+      : current?.scope === "tip"
+        ? `tip:${current.tipId}`
+        : current?.sessionId
+          ? `session:${current.sessionId}`
+          : undefined;
   const hint = choices.length ? "used with κ from I(z) curves" : "no fitted I(z) curves on this sample yet";
   return (
     <Field label="I(z) curves" name="curveChoice" hint={hint} error={fe("curveScope") ?? fe("curveSessionId") ?? fe("curveTipId")}>
@@ -125,8 +132,42 @@ function CurveChoiceField({ data, fe }: Pick<FormProps, "data" | "fe">) {
             {`${c.label}: ${c.curves} curve${c.curves > 1 ? "s" : ""}, κ = ${c.kappa_per_nm.toFixed(2)} ± ${c.kappaSigma_per_nm.toFixed(2)} nm⁻¹`}
           </option>
         ))}
+        {choices.length > 0 && <option value="set:">the curves ticked below</option>}
       </Select>
     </Field>
+  );
+}
+
+/** The fitted curves one by one, ticked for a set chosen by hand (its current set ticked). */
+function CurveSetField({ data, fe }: Pick<FormProps, "data" | "fe">) {
+  const curves = data.fittedCurves ?? [];
+  if (curves.length === 0) return null;
+  const current = data.fieldModel.model.curves as { scope?: string; curveIds?: string[] } | null | undefined;
+  const ticked = new Set(current?.scope === "set" ? (current.curveIds ?? []) : []);
+  return (
+    <fieldset className="sm:col-span-3" aria-describedby="curve-set-hint">
+      <legend className="text-sm font-medium">Curves for a set chosen by hand</legend>
+      <p id="curve-set-hint" className="text-xs text-muted">
+        Used with &ldquo;the curves ticked below&rdquo;; their κ are averaged with weights 1/σ², their spread added.
+      </p>
+      {fe("curveIds") && <p className="text-xs text-danger">{fe("curveIds")}</p>}
+      <ul className="mt-1 grid gap-x-4 gap-y-0.5 text-sm sm:grid-cols-2">
+        {curves.map((c) => (
+          <li key={c.id}>
+            <label className="flex items-baseline gap-2">
+              <input type="checkbox" name="curveIds" value={c.id} defaultChecked={ticked.has(c.id)} />
+              <span>
+                {c.label}:{" "}
+                <span className="num">
+                  κ = {c.kappa_per_nm.toFixed(2)} ± {c.kappaSigma_per_nm.toFixed(2)} nm⁻¹
+                </span>
+                {c.flags.length > 0 && <span className="text-copper"> · flagged: {c.flags.join(", ")}</span>}
+              </span>
+            </label>
+          </li>
+        ))}
+      </ul>
+    </fieldset>
   );
 }
 
@@ -183,6 +224,7 @@ export function FieldModelForm({ data, fe, onSubmit }: FormProps) {
           name="assumedBarrierSigma_eV"
           value={m.assumedBarrierSigma_eV ?? ASSUMED_BARRIER_SIGMA_EV}
         />
+        <CurveSetField data={data} fe={fe} />
         <NoteField fe={fe} />
       </fieldset>
       <p className="text-xs text-muted">

@@ -47,7 +47,7 @@ afterAll(async () => {
 });
 
 describe("I(z) curves in the browser", () => {
-  it("the session links to its I(z) page; switching the field model to κ from them re-estimates and the card says so", async () => {
+  it("the session links to its I(z) page; switching the field model to κ from them (all, then one ticked) re-estimates and the card says so", async () => {
     const { context, page } = await signedIn(browser, lab.people.analyst.email, TEST_PASSWORD, lab.lab.slug);
     await page.goto(`${APP_URL}/labs/${lab.lab.slug}/sessions/${sessionId}`);
     await page.click("text=I(z) curves (2)");
@@ -76,6 +76,25 @@ describe("I(z) curves in the browser", () => {
     await page.waitForFunction(() => /measured on 2 I\(z\) curves/.test(document.querySelector('[data-testid="crossing-kappa-source"]')?.textContent ?? ""), null, { timeout: 5000 });
     expect(await page.textContent('[data-testid="kappa-source"]')).toMatch(/^κ = 10\.6\d ± 0\.\d\d nm⁻¹ measured on 2 I\(z\) curves of the session of 2026-11-22/);
     await shot(page, "barrier-sample-after");
+
+    // A set chosen by hand: only the curve without the jump to contact (iz-1.csv).
+    const [runCurves] = await db().select().from(analysisRuns).where(eq(analysisRuns.sampleId, sampleId)).orderBy(desc(analysisRuns.createdAt)).limit(1);
+    const form = page.locator('form[aria-label="Field model"]');
+    await form.locator('select[name="curveChoice"]').selectOption("set:");
+    await form.locator("label", { hasText: "iz-1.csv" }).locator('input[type="checkbox"]').check();
+    expect(await form.locator('input[name="curveIds"]:checked').count()).toBe(1);
+    await shot(page, "barrier-sample-set");
+    await page.click("text=/Save field model as v\\d/");
+    for (;;) {
+      const [run] = await db().select().from(analysisRuns).where(eq(analysisRuns.sampleId, sampleId)).orderBy(desc(analysisRuns.createdAt)).limit(1);
+      if (run && run.id !== runCurves.id && run.status === "done") break;
+      if (Date.now() > deadline + 60_000) throw new Error(`re-analysis still ${run?.status}`);
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    await page.waitForFunction(() => /measured on 1 I\(z\) curve chosen by hand/.test(document.querySelector('[data-testid="crossing-kappa-source"]')?.textContent ?? ""), null, { timeout: 5000 });
+    // The form shows the set it was saved with.
+    await page.waitForFunction(() => document.querySelectorAll('form[aria-label="Field model"] input[name="curveIds"]:checked').length === 1);
+    expect(await form.locator('select[name="curveChoice"]').inputValue()).toBe("set:");
     await context.close();
   });
 });

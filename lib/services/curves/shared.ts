@@ -51,8 +51,22 @@ export interface CurveChoice {
   kappaSigma_per_nm: number;
 }
 
-/** The sessions and tips of a sample with fitted I(z) curves, each with its weighted κ. */
-export async function curveChoicesOf(db: DbOrTx, labId: string, sampleId: string): Promise<CurveChoice[]> {
+/** One fitted curve of a sample, for a chosen set: where it came from and its own κ. */
+export interface SetCurve {
+  id: string;
+  /** "gx12-iz-2.csv #0, session of 2026-11-20 (W-17)". */
+  label: string;
+  kappa_per_nm: number;
+  kappaSigma_per_nm: number;
+  /** Its flags' codes (not-exponential, sweeps-disagree, …): worth a look before choosing it. */
+  flags: string[];
+}
+
+/**
+ * The sessions and tips of a sample with fitted I(z) curves, each with its weighted κ, and the
+ * fitted curves one by one (`curves`), for a set chosen by hand.
+ */
+export async function curveChoicesOf(db: DbOrTx, labId: string, sampleId: string): Promise<{ choices: CurveChoice[]; curves: SetCurve[] }> {
   const rows = await db
     .select({ c: approachCurves, date: measurementSessions.date, tip: tips.label })
     .from(approachCurves)
@@ -75,7 +89,7 @@ export async function curveChoicesOf(db: DbOrTx, labId: string, sampleId: string
       groups.set(`${scope}:${id}`, g);
     }
   }
-  return [...groups.values()].map((g) => {
+  const choices = [...groups.values()].map((g) => {
     const k = kappaOf(g.rows)!;
     return {
       scope: g.scope,
@@ -86,4 +100,12 @@ export async function curveChoicesOf(db: DbOrTx, labId: string, sampleId: string
       kappaSigma_per_nm: k.kappaSigma_per_nm,
     };
   });
+  const curves = rows.map((r) => ({
+    id: r.c.id,
+    label: `${r.c.sourceName} #${r.c.indexInFile}, session of ${r.date}${r.tip ? ` (${r.tip})` : ""}`,
+    kappa_per_nm: r.c.kappaPerNm!,
+    kappaSigma_per_nm: r.c.kappaSigmaPerNm!,
+    flags: r.c.flags.map((f) => f.code),
+  }));
+  return { choices, curves };
 }

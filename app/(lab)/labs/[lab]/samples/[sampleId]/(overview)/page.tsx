@@ -67,6 +67,7 @@ export default async function SamplePage({ params }: { params: Promise<{ lab: st
         }
       : null,
     curveChoices: versions.curveChoices,
+    fittedCurves: versions.fittedCurves,
   };
   const ev = (v: number, sigma: number) => `${v.toFixed(2)} ± ${sigma.toFixed(2)} eV`;
   const tipOf = (t: (typeof usedTips)[number]) => `${ev(t.workFunctionEv, t.workFunctionSigmaEv)} (${t.label})`;

@@ -1,0 +1,2 @@
+import { writeGrid } from "../scripts/bench/spectra";
+console.log(writeGrid("/tmp/grid.tsv"));
