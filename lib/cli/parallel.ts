@@ -5,7 +5,7 @@
  */
 import { availableParallelism } from "node:os";
 import { Worker } from "node:worker_threads";
-import { pickOnView, type ExtractionSettings, type GapPick, type Normalised, type ParsedSpectrum } from "../spectra";
+import { pickOnView, resolveExtractionSettings, type ExtractionSettings, type GapPick, type Normalised, type ParsedSpectrum } from "../spectra";
 
 /** What an entry needs of the view a gap was picked on (its arrays stay in the thread). */
 export type ViewInfo = Pick<Normalised, "method" | "description" | "currentReconstructed">;
@@ -42,6 +42,7 @@ export function threadCount(n: number, env: string | undefined = process.env.BAN
 /** Pick every spectrum, in threads when there are many; a thread that cannot start falls back to this one. */
 export async function pickAll(spectra: ParsedSpectrum[], settings: ExtractionSettings, warn: (s: string) => void): Promise<PickResult[]> {
   const threads = fromSources ? 1 : threadCount(spectra.length);
+  settings = resolveExtractionSettings(settings);
   if (threads > 1) {
     try {
       return await pickInThreads(spectra, settings, threads);

@@ -264,9 +264,19 @@ function deepMerge<T>(base: T, over: unknown): T {
   return out as T;
 }
 
-/** Defaults overlaid with a partial input, validated (throws a ZodError on invalid values). */
+/** Settings this module has validated and frozen: passing one back in needs no second check. */
+const resolved = new WeakSet<object>();
+
+/**
+ * Defaults overlaid with a partial input, validated (throws a ZodError on invalid values), and
+ * frozen. A result passed back in is returned as it is: picking a grid passes the same settings
+ * thousands of times, and validating them each time was 5% of the picking (34 µs a spectrum).
+ */
 export function resolveExtractionSettings(partial?: DeepPartial<ExtractionSettings>): ExtractionSettings {
-  return extractionSettingsSchema.parse(deepMerge(DEFAULT_EXTRACTION_SETTINGS, partial));
+  if (partial && resolved.has(partial)) return partial as ExtractionSettings;
+  const out = deepFreeze(extractionSettingsSchema.parse(deepMerge(DEFAULT_EXTRACTION_SETTINGS, partial)));
+  resolved.add(out);
+  return out;
 }
 export function resolveFieldModel(partial?: Partial<FieldModel>): FieldModel {
   return fieldModelSchema.parse({ ...DEFAULT_FIELD_MODEL, ...partial });

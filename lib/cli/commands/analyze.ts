@@ -4,7 +4,7 @@
  * Reads every file (text, JSON or zip), picks the band edges of every spectrum (or of every point's
  * average of repeats), prints a table or JSON.
  */
-import { NORMALISATIONS } from "../../spectra";
+import { NORMALISATIONS, resolveExtractionSettings } from "../../spectra";
 import { analyseAveraged } from "../average";
 import type { Command } from "../io";
 import { CliUsageError } from "../io";
@@ -34,12 +34,13 @@ export const analyze: Command = {
       return 0;
     }
     if (positionals.length === 0) throw new CliUsageError("no files given");
-    const settings = settingsFromOptions(values);
+    let settings = settingsFromOptions(values);
     const normalise = values.normalise as string | undefined;
     if (normalise !== undefined) {
       if (!(NORMALISATIONS as readonly string[]).includes(normalise))
         throw new CliUsageError(`--normalise takes ${NORMALISATIONS.join(", ")}; got "${normalise}"`);
-      settings.normalisation = { ...settings.normalisation, method: normalise as (typeof NORMALISATIONS)[number] };
+      const method = normalise as (typeof NORMALISATIONS)[number];
+      settings = resolveExtractionSettings({ ...settings, normalisation: { ...settings.normalisation, method } });
     }
     const results = values.average ? analyseAveraged(positionals, settings) : await analyseFiles(positionals, settings, io.err);
     const failed = results.some((r) => r.entry.status === "error");
