@@ -4,8 +4,9 @@
  *
  * Text: a tip-height column (`z (pm)`, `z [nm]`, `z (Å)`, `height`; negative = closer, as
  * `z_offset_pm`) and one or more current columns (`current (pA)`, `I [nA]`), each one curve. A column
- * whose z goes forth and back holds the approach and the retraction (the fit splits them). Rows are
- * kept in their recorded order: z is neither sorted nor resampled.
+ * whose z goes forth and back holds the approach and the retraction (the fit splits them); so do two
+ * columns named as an approach and a retraction (`I approach (pA)`, `I retract (pA)`: groupSweeps).
+ * Rows are otherwise kept in their recorded order: z is neither sorted nor resampled.
  *
  * JSON ("bandcross-approach", version 1):
  *
@@ -74,27 +75,70 @@ function fromText(file: string, text: string, limits: ImportLimits): ImportedCur
   const zi = t.columns.findIndex((c) => c.role === "z");
   const curIdx = t.columns.map((c, i) => (c.role === "current" ? i : -1)).filter((i) => i >= 0);
   if (curIdx.length === 0) throw new ImportError("no current column besides z");
-  const curves = curIdx.map((ci, index) => {
-    let r;
+  const column = (ci: number) => {
     try {
-      r = dropMissing(t.values[zi], t.values[ci], t.lines, limits.minPoints);
+      return dropMissing(t.values[zi], t.values[ci], t.lines, limits.minPoints);
     } catch (e) {
       if (e instanceof ImportError && curIdx.length > 1)
         throw new ImportError(`column ${ci + 1} ("${t.columns[ci].name}"): ${e.message}`);
       throw e;
     }
-    const label = t.columns[ci].name || `curve ${index + 1}`;
+  };
+  const curves = groupSweeps(curIdx.map((ci) => t.columns[ci].name)).map((g, index) => {
+    const r = g.length === 1 ? column(curIdx[g[0]]) : forthAndBack(column(curIdx[g[0]]), column(curIdx[g[1]]));
+    const names = g.map((k) => t.columns[curIdx[k]].name);
     return {
       file,
       index,
-      label,
+      label: names.join(" + ") || `curve ${index + 1}`,
       z_nm: r.z,
       current_A: r.current,
       meta: { ...t.meta, extra: { ...t.meta.extra } },
-      warnings: r.warnings,
+      warnings: g.length === 1 ? r.warnings : [...r.warnings, `columns "${names[0]}" and "${names[1]}" read as one curve, forth and back`],
     };
   });
   return { file, status: "ok", warnings: t.warnings, curves };
+}
+
+const APPROACH_NAME = /approach|forward|\bfwd\b/i;
+const RETRACTION_NAME = /retract|backward|\bbwd\b/i;
+
+/**
+ * Current columns as curves: each alone, except that the i-th column named as an approach and the
+ * i-th named as a retraction ("I approach (pA)", "I retract (pA)") make one curve, forth and back,
+ * so that the fit compares the two (as for a column whose z goes forth and back). Positions in
+ * `names`, in the order of the first column of each curve.
+ */
+export function groupSweeps(names: readonly string[]): number[][] {
+  const ins = names.flatMap((n, k) => (APPROACH_NAME.test(n) && !RETRACTION_NAME.test(n) ? [k] : []));
+  const outs = names.flatMap((n, k) => (RETRACTION_NAME.test(n) && !APPROACH_NAME.test(n) ? [k] : []));
+  const partner = new Map<number, number>();
+  for (let p = 0; p < Math.min(ins.length, outs.length); p++) partner.set(Math.min(ins[p], outs[p]), Math.max(ins[p], outs[p]));
+  const taken = new Set(partner.values());
+  const groups: number[][] = [];
+  for (let k = 0; k < names.length; k++) {
+    if (taken.has(k)) continue;
+    const other = partner.get(k);
+    if (other === undefined) groups.push([k]);
+    else groups.push(APPROACH_NAME.test(names[k]) ? [k, other] : [other, k]);
+  }
+  return groups;
+}
+
+/**
+ * One curve from an approach and a retraction read against the same z column: the approach from far
+ * to near (larger z first), then the retraction back out, each in z order.
+ */
+function forthAndBack(a: ReturnType<typeof dropMissing>, r: ReturnType<typeof dropMissing>) {
+  const inward = (z: Float64Array) => z.length < 2 || z[z.length - 1] <= z[0];
+  const order = (n: number, forward: boolean) => Array.from({ length: n }, (_, k) => (forward ? k : n - 1 - k));
+  const ia = order(a.z.length, inward(a.z));
+  const ir = order(r.z.length, !inward(r.z));
+  return {
+    z: Float64Array.from([...ia.map((k) => a.z[k]), ...ir.map((k) => r.z[k])]),
+    current: Float64Array.from([...ia.map((k) => a.current[k]), ...ir.map((k) => r.current[k])]),
+    warnings: [...a.warnings, ...r.warnings],
+  };
 }
 
 const curveSchema = z

@@ -1,6 +1,7 @@
 import { strToU8, zipSync } from "fflate";
 import { describe, expect, it } from "vitest";
-import { fileKind, importApproachCurves } from "@/lib/spectra";
+import { fileKind, fitBarrier, importApproachCurves } from "@/lib/spectra";
+import { groupSweeps } from "@/lib/spectra/import/approach";
 
 /** 30 points from z = +300 pm to −280 pm, the current 100 pA·exp(−2·10/nm·z); values checked below. */
 function curveText(
@@ -32,6 +33,38 @@ const one = (name: string, text: string | Uint8Array) => {
   expect(r).toHaveLength(1);
   return r[0];
 };
+
+describe("approach and retraction in two columns", () => {
+  // z from +300 pm in to −280 pm; the approach with κ = 10/nm, the retraction read on a 2% longer z
+  // scale (piezo hysteresis: κ_ret = 10.2/nm as recorded), both exact exponentials.
+  const rows = ["z (pm),I approach (pA),I retract (pA)"];
+  for (let i = 0; i < 30; i++) {
+    const zNm = 0.3 - i * 0.02;
+    rows.push([(zNm * 1000).toFixed(3), (100 * Math.exp(-20 * zNm)).toPrecision(9), (100 * Math.exp(-20.4 * zNm)).toPrecision(9)].join(","));
+  }
+  it("make one curve, in and back out, that the fit splits into its two sweeps", () => {
+    const f = one("iz.csv", rows.join("\n") + "\n");
+    expect(f.curves).toHaveLength(1);
+    const c = f.curves[0];
+    expect(c.label).toBe("I approach + I retract");
+    expect(c.warnings).toContain('columns "I approach" and "I retract" read as one curve, forth and back');
+    expect(c.z_nm.length).toBe(60);
+    // In: +0.3 … −0.28 nm; back out: −0.28 … +0.3 nm, each current with its own z.
+    expect([c.z_nm[0], c.z_nm[29], c.z_nm[30], c.z_nm[59]].map((v) => Number(v.toFixed(6)))).toEqual([0.3, -0.28, -0.28, 0.3]);
+    expect(c.current_A[59]).toBeCloseTo(100e-12 * Math.exp(-20.4 * 0.3), 20);
+    const fit = fitBarrier(c);
+    expect(fit.sweeps.map((s) => s.direction)).toEqual(["approach", "retraction"]);
+    // I ∝ exp(−2κz): κ = 20/2 and 20.4/2 per nm, exactly (noise-free data).
+    expect(fit.sweeps[0].kappa_per_nm).toBeCloseTo(10, 4);
+    expect(fit.sweeps[1].kappa_per_nm).toBeCloseTo(10.2, 4);
+  });
+  it("pair the i-th approach with the i-th retraction; other columns stay curves of their own", () => {
+    expect(groupSweeps(["I approach 1", "I retract 1", "I approach 2", "I retract 2"])).toEqual([[0, 1], [2, 3]]);
+    expect(groupSweeps(["I bwd", "I fwd", "current"])).toEqual([[1, 0], [2]]);
+    expect(groupSweeps(["current 1", "current 2"])).toEqual([[0], [1]]);
+    expect(groupSweeps(["I approach", "I approach again"])).toEqual([[0], [1]]);
+  });
+});
 
 describe("I(z) curves from delimited text", () => {
   it("z in pm and the current in pA, with metadata lines; negative z kept as closer, order kept", () => {
